@@ -1,0 +1,75 @@
+// The results contract (format version 1): the only thing report, gate and merge read.
+// Field meanings are fixed by the design document; new fields may be added, never repurposed.
+import type { Counts, ReferenceKind, Status } from './types.js';
+
+export const RESULTS_FORMAT = 'stepgauge-results';
+export const RESULTS_VERSION = 1;
+
+export type RunSetting = { rtol: number; atol: number | number[] } | { steps: number; h: number };
+
+/** Invariant drift sampled along a run, kept small (at most a few hundred points) for plots. */
+export interface DriftTrace {
+  t: number[];
+  drift: Record<string, number[]>;
+}
+
+export interface RunResult {
+  problem: string;
+  method: string;
+  setting: RunSetting;
+  status: Status;
+  message?: string;
+  error: { final: number | null; max: number | null };
+  drift: Record<string, number>;
+  counts: Counts;
+  time: { medianSeconds: number | null; samples: number; spreadSeconds?: number | null; calibrationRatio?: number | null };
+  tFinal: number;
+  yFinal: number[];
+  /** True when the error is below what the reference can resolve (certified references). */
+  errorBelowReference?: boolean;
+  trace?: DriftTrace;
+}
+
+export interface ProblemRecord {
+  id: string;
+  title: string;
+  sha256: string;
+  stiff: boolean;
+  reference: { kind: ReferenceKind; digits?: number; source?: string };
+  stiffnessRatio?: number | null;
+  [extra: string]: unknown;
+}
+
+export interface Environment {
+  node: string;
+  platform: string;
+  arch: string;
+  cpu: string;
+  cpuCount?: number;
+  stepgauge: string;
+  commit?: string;
+  /** Seconds for the fixed calibration workload timed in the same process (for time gating). */
+  calibrationSeconds?: number;
+  [extra: string]: unknown;
+}
+
+export interface ResultsFile {
+  format: typeof RESULTS_FORMAT;
+  version: typeof RESULTS_VERSION;
+  createdAt: string;
+  environment: Environment;
+  runs: RunResult[];
+  problems: ProblemRecord[];
+  /** Set when a sweep was interrupted before all planned runs finished. */
+  interrupted?: boolean;
+  /** Set for one shard of a sharded sweep: "K/N" and the plan's fingerprint. */
+  shard?: { index: number; count: number; planSha256: string };
+  [extra: string]: unknown;
+}
+
+/** Stable key of one run: problem, method and setting. */
+export function runKey(r: Pick<RunResult, 'problem' | 'method' | 'setting'>): string {
+  const s = r.setting;
+  const part = 'rtol' in s ? `rtol=${s.rtol},atol=${JSON.stringify(s.atol)}` : `steps=${s.steps}`;
+  return `${r.problem}|${r.method}|${part}`;
+}

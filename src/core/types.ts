@@ -1,0 +1,164 @@
+// Shared types: the problem, method, setting and solve-result shapes every layer speaks.
+// Vectors are Float64Array; matrices are row-major Float64Array of length n*n.
+
+/** Right-hand side of y' = f(t, y): writes f(t, y) into dy, never allocates. */
+export type Rhs = (t: number, y: Float64Array, dy: Float64Array) => void;
+
+/** Jacobian df/dy at (t, y), written row-major into jac (jac[i*n + j] = dfi/dyj). */
+export type JacobianFn = (t: number, y: Float64Array, jac: Float64Array) => void;
+
+export interface Invariant {
+  readonly name: string;
+  readonly fn: (t: number, y: Float64Array) => number;
+}
+
+/**
+ * How error is measured per component. `absolute`: |y_i - ref_i|.
+ * `relative`: |y_i - ref_i| / max(|ref_i|, floor_i).
+ */
+export type ErrorScale =
+  | { readonly kind: 'absolute' }
+  | { readonly kind: 'relative'; readonly floor: number | readonly number[] };
+
+export type ReferenceKind = 'exact' | 'published' | 'certified';
+
+export interface ReferencePoint {
+  readonly t: number;
+  readonly y: readonly number[];
+}
+
+export interface Reference {
+  readonly kind: ReferenceKind;
+  /** Trusted significant digits of the reference values (published or certified). */
+  readonly digits?: number;
+  readonly source?: string;
+  /** Analytic solution: writes y(t) into out. Present when kind is 'exact'. */
+  readonly exact?: (t: number, out: Float64Array) => void;
+  /** Reference states at given times (published tables, certified runs). Sorted by t. */
+  readonly points?: readonly ReferencePoint[];
+}
+
+/** Index split for separable problems q' = g(p), p' = h(t, q) (symplectic methods need it). */
+export interface SeparableSplit {
+  /** Indices of position-like states, whose derivatives depend only on `velocities`. */
+  readonly positions: readonly number[];
+  /** Indices of velocity-like states, whose derivatives depend only on `positions` and t. */
+  readonly velocities: readonly number[];
+}
+
+export interface Problem {
+  /** kebab-case id, unique in a sweep. */
+  readonly id: string;
+  readonly title: string;
+  /** Where the equations and reference values come from. */
+  readonly source: string;
+  /** Equations and notes in plain text, shown in reports. */
+  readonly description?: string;
+  readonly dimension: number;
+  readonly stateNames?: readonly string[];
+  readonly t0: number;
+  readonly tEnd: number;
+  readonly y0: readonly number[];
+  readonly f: Rhs;
+  readonly jacobian?: JacobianFn;
+  /** True when the problem is meant for stiff methods; sweeps pair it with those by default. */
+  readonly stiff: boolean;
+  readonly invariants: readonly Invariant[];
+  readonly errorScale: ErrorScale;
+  readonly reference: Reference;
+  /**
+   * Times (inside the span, excluding t0, sorted) at which adaptive methods land exactly and the
+   * error and invariants are checked. The end of the span is always checked.
+   */
+  readonly checkTimes: readonly number[];
+  readonly separable?: SeparableSplit;
+  /** Absolute tolerance to use when the user gives only rtol: atol = rtol * atolScale (default 1). */
+  readonly atolScale?: number | readonly number[];
+  /** Canonical text of the definition, hashed (SHA-256) so auditors can tell two problems apart. */
+  readonly definition: string;
+}
+
+export type Family =
+  | 'fixed-step'
+  | 'embedded-explicit'
+  | 'symplectic'
+  | 'implicit'
+  | 'extrapolation'
+  | 'external';
+
+export type Setting =
+  | { readonly rtol: number; readonly atol: number | readonly number[] }
+  | { readonly steps: number };
+
+export type Status = 'ok' | 'diverged' | 'step-underflow' | 'step-limit' | 'timeout' | 'error';
+
+/** Exact, deterministic work counters; part of every result. */
+export interface Counts {
+  /** Right-hand side evaluations (including those spent on finite-difference Jacobians). */
+  nfev: number;
+  /** Jacobian evaluations (analytic or finite-difference). */
+  njev: number;
+  /** LU factorizations (a complex factorization counts as one). */
+  nlu: number;
+  accepted: number;
+  rejected: number;
+}
+
+export interface SolveOptions {
+  /** Largest number of steps (accepted + rejected) before status `step-limit`. */
+  readonly maxSteps: number;
+  /**
+   * Called with the state at t0 and after every accepted step (including each landing on a check
+   * time). y is the solver's own buffer: read it, do not keep it.
+   */
+  readonly observer?: (t: number, y: Float64Array) => void;
+  /** Adaptive methods never step past these (sorted, inside the span); they land on them exactly. */
+  readonly checkTimes?: readonly number[];
+  /** Step-size controller for adaptive explicit methods. */
+  readonly controller?: 'standard' | 'pi';
+  /** Initial step; automatic when absent. */
+  readonly initialStep?: number;
+  /** performance.now() value after which the solver stops with status `timeout`. */
+  readonly deadline?: number;
+}
+
+export interface SolveResult {
+  status: Status;
+  message?: string;
+  /** Time reached (tEnd when status is ok). */
+  tFinal: number;
+  yFinal: Float64Array;
+  counts: Counts;
+  /** Step size actually used, for fixed-step methods. */
+  h?: number;
+}
+
+export interface Method {
+  /** kebab-case id, e.g. `dormand-prince-54`. */
+  readonly id: string;
+  /** Display name after the published method, e.g. "Dormand-Prince 5(4)". */
+  readonly name: string;
+  readonly family: Family;
+  /** Published order of the propagated solution. */
+  readonly order: number;
+  /** The paper (or book section) the coefficients come from. */
+  readonly source: string;
+  /** Adaptive methods take {rtol, atol}; the others {steps}. */
+  readonly adaptive: boolean;
+  /** Meant for stiff problems (implicit, L-stable, ...). */
+  readonly stiff: boolean;
+  /** Set for methods that need the problem's separable split (symplectic). */
+  readonly needsSeparable?: boolean;
+  /** Order of the embedded error estimate, for adaptive pairs. */
+  readonly embeddedOrder?: number;
+  readonly notes?: string;
+  solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult;
+}
+
+export function isAdaptiveSetting(s: Setting): s is { rtol: number; atol: number | readonly number[] } {
+  return 'rtol' in s;
+}
+
+export function zeroCounts(): Counts {
+  return { nfev: 0, njev: 0, nlu: 0, accepted: 0, rejected: 0 };
+}

@@ -1,0 +1,49 @@
+// Float64Array helpers for the hot loops: all write into caller-owned buffers.
+
+/** out = a + s * b */
+export function axpy(out: Float64Array, a: Float64Array, s: number, b: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) out[i] = a[i]! + s * b[i]!;
+}
+
+/** True when every entry is finite. */
+export function allFinite(y: Float64Array, n: number): boolean {
+  for (let i = 0; i < n; i++) {
+    const v = y[i]!;
+    if (v - v !== 0) return false;
+  }
+  return true;
+}
+
+/** Expand a scalar-or-vector tolerance into a per-component buffer. */
+export function toleranceVector(tol: number | readonly number[], n: number): Float64Array {
+  const out = new Float64Array(n);
+  if (typeof tol === 'number') out.fill(tol);
+  else {
+    if (tol.length !== n) throw new RangeError(`tolerance vector has ${tol.length} entries, expected ${n}`);
+    for (let i = 0; i < n; i++) out[i] = tol[i]!;
+  }
+  return out;
+}
+
+/**
+ * Weighted RMS norm of err with weights 1 / (atol_i + rtol * max(|y_i|, |yNew_i|)), the usual
+ * scale of Hairer, Norsett and Wanner, Solving ODEs I, sec. II.4.
+ */
+export function scaledRmsNorm(
+  err: Float64Array,
+  y: Float64Array,
+  yNew: Float64Array,
+  rtol: number,
+  atol: Float64Array,
+  n: number,
+): number {
+  let sum = 0;
+  for (let i = 0; i < n; i++) {
+    const a = Math.abs(y[i]!);
+    const b = Math.abs(yNew[i]!);
+    const sc = atol[i]! + rtol * (a > b ? a : b);
+    const r = err[i]! / sc;
+    sum += r * r;
+  }
+  return Math.sqrt(sum / n);
+}
