@@ -155,7 +155,10 @@ export interface Method {
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult;
 }
 
-export function isAdaptiveSetting(s: Setting): s is { rtol: number; atol: number | readonly number[] } {
+export type AdaptiveSetting = Extract<Setting, { readonly rtol: number }>;
+export type FixedStepSetting = Extract<Setting, { readonly steps: number }>;
+
+export function isAdaptiveSetting(s: Setting): s is AdaptiveSetting {
   return 'rtol' in s;
 }
 

@@ -1,0 +1,81 @@
+// What one measured solve watches along the way: the worst error at every landing where a reference
+// exists, the worst drift of every invariant, and a thinned drift trace for plots.
+import type { Problem } from '../core/types.js';
+import type { DriftTrace } from '../core/results.js';
+import { scaleFloors, scaledMaxError } from './error-norm.js';
+import { referenceLookup } from './reference.js';
+
+/** Number of time buckets the drift trace is thinned to (one sample per bucket). */
+const TRACE_BUCKETS = 200;
+/** Below this an invariant's initial value counts as zero and its drift is absolute. */
+const TINY_INVARIANT = 1e-300;
+
+export interface RunWatch {
+  readonly observer: (t: number, y: Float64Array) => void;
+  /** Worst scaled error over observed points with a reference (null when none had one). */
+  maxError(): number | null;
+  drift(): Record<string, number>;
+  trace(): DriftTrace | undefined;
+  /** How many observed points were compared with the reference. */
+  comparedPoints(): number;
+}
+
+export function watchRun(problem: Problem): RunWatch {
+  const n = problem.dimension;
+  const lookup = referenceLookup(problem);
+  const floors = scaleFloors(problem.errorScale, n);
+  const ref = new Float64Array(n);
+  const invariants = problem.invariants;
+  const initial = new Float64Array(invariants.length);
+  const worstDrift = new Float64Array(invariants.length);
+  const traceT: number[] = [];
+  const traceD: number[][] = invariants.map(() => []);
+  const span = problem.tEnd - problem.t0;
+  let lastBucket = -1;
+  let started = false;
+  let worstError = -1;
+  let compared = 0;
+
+  const observer = (t: number, y: Float64Array): void => {
+    if (!started) {
+      for (let k = 0; k < invariants.length; k++) initial[k] = invariants[k]!.fn(t, y);
+      started = true;
+    }
+    if (lookup.at(t, ref)) {
+      const e = scaledMaxError(y, ref, floors, n);
+      compared++;
+      if (!(e <= worstError)) worstError = e;
+    }
+    if (invariants.length === 0) return;
+    const bucket = Math.floor(((t - problem.t0) / span) * TRACE_BUCKETS);
+    const record = bucket > lastBucket || t === problem.tEnd;
+    if (record) {
+      lastBucket = bucket;
+      traceT.push(t);
+    }
+    for (let k = 0; k < invariants.length; k++) {
+      const i0 = initial[k]!;
+      const denom = Math.abs(i0) > TINY_INVARIANT ? Math.abs(i0) : 1;
+      const d = Math.abs(invariants[k]!.fn(t, y) - i0) / denom;
+      if (!(d <= worstDrift[k]!)) worstDrift[k] = d;
+      if (record) traceD[k]!.push(d);
+    }
+  };
+
+  return {
+    observer,
+    maxError: () => (compared > 0 ? worstError : null),
+    comparedPoints: () => compared,
+    drift() {
+      const out: Record<string, number> = {};
+      invariants.forEach((inv, k) => (out[inv.name] = worstDrift[k]!));
+      return out;
+    },
+    trace() {
+      if (invariants.length === 0) return undefined;
+      const drift: Record<string, number[]> = {};
+      invariants.forEach((inv, k) => (drift[inv.name] = traceD[k]!));
+      return { t: traceT, drift };
+    },
+  };
+}

@@ -1,0 +1,105 @@
+// One run = one (problem, method, setting): a measured solve (errors, drift, exact counts) and,
+// separately, timed repeat solves without observers so measurement never pollutes the clock.
+import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../core/types.js';
+import { isAdaptiveSetting, zeroCounts } from '../core/types.js';
+import type { RunResult, RunSetting } from '../core/results.js';
+import { messageOf } from '../core/errors.js';
+import { scaleFloors, scaledMaxError } from './error-norm.js';
+import { referenceLookup } from './reference.js';
+import { watchRun } from './observer.js';
+
+export interface RunOptions {
+  maxSteps: number;
+  /** Wall-clock limit for one solve, seconds (status `timeout` past it). */
+  runTimeoutSeconds?: number;
+  controller?: 'standard' | 'pi';
+}
+
+export function runSetting(problem: Problem, setting: Setting, result?: SolveResult): RunSetting {
+  if (isAdaptiveSetting(setting)) {
+    return { rtol: setting.rtol, atol: typeof setting.atol === 'number' ? setting.atol : [...setting.atol] };
+  }
+  return { steps: setting.steps, h: result?.h ?? (problem.tEnd - problem.t0) / setting.steps };
+}
+
+export function solveOptions(problem: Problem, options: RunOptions, observer?: SolveOptions['observer']): SolveOptions {
+  const deadline = options.runTimeoutSeconds ? performance.now() + options.runTimeoutSeconds * 1000 : undefined;
+  return {
+    maxSteps: options.maxSteps,
+    checkTimes: problem.checkTimes,
+    ...(observer ? { observer } : {}),
+    ...(options.controller ? { controller: options.controller } : {}),
+    ...(deadline !== undefined ? { deadline } : {}),
+  };
+}
+
+/** Smallest error the reference can resolve at tEnd, from its trusted digits (0 when exact). */
+function referenceResolution(problem: Problem, refFinal: Float64Array): number {
+  const digits = problem.reference.digits;
+  if (problem.reference.kind === 'exact' || digits === undefined) return 0;
+  const rel = 10 ** -digits;
+  if (problem.errorScale.kind === 'relative') return rel;
+  let big = 0;
+  for (const v of refFinal) big = Math.max(big, Math.abs(v));
+  return rel * big;
+}
+
+/** Integrates once with observers and returns the run record (time left null). */
+export function measureRun(problem: Problem, method: Method, setting: Setting, options: RunOptions): RunResult {
+  const watch = watchRun(problem);
+  let result: SolveResult;
+  try {
+    result = method.solve(problem, setting, solveOptions(problem, options, watch.observer));
+  } catch (e) {
+    return failedRun(problem, method, setting, `${method.id} threw: ${messageOf(e)}`);
+  }
+  const n = problem.dimension;
+  const run: RunResult = {
+    problem: problem.id,
+    method: method.id,
+    setting: runSetting(problem, setting, result),
+    status: result.status,
+    error: { final: null, max: null },
+    drift: watch.drift(),
+    counts: { ...result.counts },
+    time: { medianSeconds: null, samples: 0 },
+    tFinal: result.tFinal,
+    yFinal: Array.from(result.yFinal),
+  };
+  if (result.message) run.message = result.message;
+  const trace = watch.trace();
+  if (trace) run.trace = trace;
+  if (result.status !== 'ok') return run;
+
+  const ref = new Float64Array(n);
+  if (referenceLookup(problem).at(problem.tEnd, ref)) {
+    const final = scaledMaxError(result.yFinal, ref, scaleFloors(problem.errorScale, n), n);
+    const along = watch.maxError();
+    run.error = { final, max: along === null ? final : Math.max(along, final) };
+    const resolution = referenceResolution(problem, ref);
+    if (resolution > 0 && final < resolution) run.errorBelowReference = true;
+  } else {
+    run.message = appendMessage(run.message, 'no reference at the end of the span; error not measured');
+  }
+  return run;
+}
+
+export function failedRun(problem: Problem, method: Method | { id: string }, setting: Setting, message: string): RunResult {
+  return {
+    problem: problem.id,
+    method: method.id,
+    setting: runSetting(problem, setting),
+    status: 'error',
+    message,
+    error: { final: null, max: null },
+    drift: {},
+    counts: zeroCounts(),
+    time: { medianSeconds: null, samples: 0 },
+    tFinal: problem.t0,
+    yFinal: [...problem.y0],
+  };
+}
+
+export function appendMessage(a: string | undefined, b: string): string {
+  return a ? `${a}; ${b}` : b;
+}

@@ -1,0 +1,76 @@
+// Wall time of a solve: tinybench median over repeated solves within a time budget per run.
+// Timed solves run without observers, so the clock sees only the integrator and the model.
+import { Bench } from 'tinybench';
+import type { Method, Problem, Setting } from '../core/types.js';
+import type { RunOptions } from './run-one.js';
+import { solveOptions } from './run-one.js';
+
+export interface TimingOptions {
+  /** Time budget per run in seconds; long solves get fewer samples. */
+  budgetSeconds: number;
+  /** Fewest timed samples (after one warm-up solve). */
+  minSamples: number;
+}
+
+export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 0.1, minSamples: 3 };
+
+export interface TimingResult {
+  medianSeconds: number;
+  /** Median absolute deviation of the samples, seconds. */
+  spreadSeconds: number;
+  samples: number;
+}
+
+export async function timeRun(
+  problem: Problem,
+  method: Method,
+  setting: Setting,
+  runOptions: RunOptions,
+  timing: TimingOptions,
+): Promise<TimingResult | null> {
+  const bench = new Bench({
+    time: timing.budgetSeconds * 1000,
+    iterations: timing.minSamples,
+    warmup: true,
+    warmupIterations: 1,
+    warmupTime: 0,
+  });
+  bench.add('solve', () => {
+    method.solve(problem, setting, solveOptions(problem, runOptions));
+  });
+  await bench.run();
+  const r = bench.tasks[0]?.result;
+  if (!r || r.state !== 'completed') return null;
+  return {
+    medianSeconds: r.latency.p50 / 1000,
+    spreadSeconds: r.latency.mad / 1000,
+    samples: r.latency.samplesCount,
+  };
+}
+
+/**
+ * A fixed arithmetic workload timed in the same process, so time gates can compare ratios
+ * rather than raw seconds across machines of different speed.
+ */
+export async function calibrationSeconds(): Promise<number> {
+  const n = 64;
+  const a = new Float64Array(n * n);
+  const x = new Float64Array(n);
+  const y = new Float64Array(n);
+  for (let i = 0; i < n * n; i++) a[i] = Math.sin(i) * 0.01;
+  x.fill(1);
+  const bench = new Bench({ time: 200, iterations: 20, warmupIterations: 5 });
+  bench.add('calibration', () => {
+    for (let rep = 0; rep < 200; rep++) {
+      for (let i = 0; i < n; i++) {
+        let s = 0;
+        for (let j = 0; j < n; j++) s += a[i * n + j]! * x[j]!;
+        y[i] = s;
+      }
+      for (let i = 0; i < n; i++) x[i] = 0.5 * x[i]! + 0.5 * Math.tanh(y[i]!);
+    }
+  });
+  await bench.run();
+  const r = bench.tasks[0]?.result;
+  return r && r.state === 'completed' ? r.latency.p50 / 1000 : NaN;
+}
