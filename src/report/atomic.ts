@@ -1,0 +1,84 @@
+// Atomic writes: an interrupted or failing write never leaves a half-written file or folder where
+// a reader (CI, a report viewer, the next check) would pick it up. The temporary lives in the
+// same folder as the target because rename is atomic only within one file system.
+import { randomBytes } from 'node:crypto';
+import { closeSync, fsyncSync, openSync, renameSync, rmSync, unlinkSync, writeSync } from 'node:fs';
+import { lstat, mkdir, rename, rm } from 'node:fs/promises';
+import { basename, dirname, join, resolve } from 'node:path';
+
+function tempSibling(target: string, tag: string): string {
+  const abs = resolve(target);
+  return join(dirname(abs), `.${basename(abs)}.${tag}-${process.pid}-${randomBytes(4).toString('hex')}`);
+}
+
+/** Writes `data` to `path` via a temporary sibling file and a rename; parent folders are created. */
+export async function writeFileAtomic(path: string, data: string | Uint8Array): Promise<void> {
+  await mkdir(dirname(resolve(path)), { recursive: true });
+  writeFileAtomicSync(path, data);
+}
+
+/** Synchronous form of writeFileAtomic (the parent folder must exist). */
+export function writeFileAtomicSync(path: string, data: string | Uint8Array): void {
+  const tmp = tempSibling(path, 'tmp');
+  let fd: number | undefined;
+  try {
+    fd = openSync(tmp, 'wx');
+    const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
+    let off = 0;
+    while (off < bytes.length) off += writeSync(fd, bytes, off, bytes.length - off);
+    // Flush before the rename so a crash cannot leave the new name pointing at empty blocks.
+    fsyncSync(fd);
+    closeSync(fd);
+    fd = undefined;
+    renameSync(tmp, path);
+  } catch (e) {
+    if (fd !== undefined) closeSync(fd);
+    try {
+      unlinkSync(tmp);
+    } catch {
+      /* never created or already renamed */
+    }
+    throw e;
+  }
+}
+
+/**
+ * Fills a temporary sibling folder with `fill(tmpDir)` and renames it to `target`. An existing
+ * target is moved aside first (a folder cannot be renamed over a non-empty one) and removed only
+ * after the new folder is in place; if that rename fails, the old folder is put back. When `fill`
+ * throws, the temporary folder is removed and the target is left untouched.
+ */
+export async function writeFolderAtomically(target: string, fill: (tmpDir: string) => Promise<void>): Promise<void> {
+  const abs = resolve(target);
+  await mkdir(dirname(abs), { recursive: true });
+  const tmp = tempSibling(abs, 'tmp');
+  await mkdir(tmp);
+  try {
+    await fill(tmp);
+  } catch (e) {
+    await rm(tmp, { recursive: true, force: true });
+    throw e;
+  }
+  let old: string | undefined;
+  if (await exists(abs)) {
+    old = tempSibling(abs, 'old');
+    await rename(abs, old);
+  }
+  try {
+    await rename(tmp, abs);
+  } catch (e) {
+    if (old) await rename(old, abs);
+    await rm(tmp, { recursive: true, force: true });
+    throw e;
+  }
+  if (old) rmSync(old, { recursive: true, force: true });
+}
+
+async function exists(p: string): Promise<boolean> {
+  try {
+    await lstat(p);
+    return true;
+  } catch {
+    return false;
+  }
+}

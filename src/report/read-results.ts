@@ -1,0 +1,142 @@
+// Validating reader of results.json. Every consumer after a sweep (report, merge, check,
+// baseline) reads through here, so a malformed or foreign file fails once, naming the file and
+// the field, instead of surfacing later as a NaN in a table.
+import { readFileSync } from 'node:fs';
+import { InputError } from '../core/errors.js';
+import {
+  RESULTS_FORMAT,
+  RESULTS_VERSION,
+  type Environment,
+  type ProblemRecord,
+  type ResultsFile,
+  type RunResult,
+  type RunSetting,
+} from '../core/results.js';
+import type { Status } from '../core/types.js';
+import { Validator } from '../gate/validate.js';
+
+/** What this reader understands; quoted in every "cannot read" message. */
+export const READABLE_RESULTS = `${RESULTS_FORMAT} version ${RESULTS_VERSION}`;
+
+const STATUSES: readonly Status[] = ['ok', 'diverged', 'step-underflow', 'step-limit', 'timeout', 'error'];
+const REFERENCE_KINDS = ['exact', 'published', 'certified'] as const;
+
+/** Reads and validates a results file; throws InputError naming the file and field. */
+export function readResultsFile(path: string): ResultsFile {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (e) {
+    throw new InputError(`cannot read results file (${(e as NodeJS.ErrnoException).code ?? String(e)})`, path);
+  }
+  return parseResultsText(text, path);
+}
+
+/** Parses results JSON text; `where` names the source in messages (usually the path). */
+export function parseResultsText(text: string, where: string): ResultsFile {
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch (e) {
+    throw new InputError(`not valid JSON (${(e as Error).message}); expected ${READABLE_RESULTS}`, where);
+  }
+  return validateResults(value, where);
+}
+
+/**
+ * Checks a parsed value against the results contract and returns it typed. Unknown extra fields
+ * are kept (the contract allows additions). JSON has no NaN, so writers emit null for a drift
+ * that was not finite; it is read back as NaN to keep `drift` a record of numbers.
+ */
+export function validateResults(value: unknown, where: string): ResultsFile {
+  const v = new Validator(where);
+  const root = v.object(value, '');
+  if (root.format !== RESULTS_FORMAT) {
+    throw new InputError(
+      `field "format" is ${JSON.stringify(root.format)}, not a stepgauge results file; this reader reads ${READABLE_RESULTS}`,
+      where,
+    );
+  }
+  if (root.version !== RESULTS_VERSION) {
+    const newer = typeof root.version === 'number' && root.version > RESULTS_VERSION;
+    throw new InputError(
+      `field "version" is ${JSON.stringify(root.version)}${newer ? ' (written by a newer stepgauge)' : ''}; this reader reads ${READABLE_RESULTS} only`,
+      where,
+    );
+  }
+  v.string(root.createdAt, 'createdAt');
+  const env = v.object(root.environment, 'environment');
+  for (const k of ['node', 'platform', 'arch', 'cpu', 'stepgauge'] as const) v.string(env[k], `environment.${k}`);
+  if (env.calibrationSeconds !== undefined) v.positive(env.calibrationSeconds, 'environment.calibrationSeconds');
+  const runs = v.array(root.runs, 'runs').map((r, i) => validateRun(v, r, `runs[${i}]`));
+  const problems = v.array(root.problems, 'problems').map((p, i) => validateProblem(v, p, `problems[${i}]`));
+  if (root.interrupted !== undefined) v.boolean(root.interrupted, 'interrupted');
+  if (root.shard !== undefined) {
+    const s = v.object(root.shard, 'shard');
+    const count = v.integer(s.count, 'shard.count', 1);
+    const index = v.integer(s.index, 'shard.index', 1);
+    if (index > count) v.fail('shard.index', `is ${index}, larger than shard.count ${count}`);
+    v.string(s.planSha256, 'shard.planSha256');
+  }
+  return { ...root, environment: env as Environment, runs, problems } as ResultsFile;
+}
+
+function validateRun(v: Validator, value: unknown, at: string): RunResult {
+  const r = v.object(value, at);
+  v.string(r.problem, `${at}.problem`);
+  v.string(r.method, `${at}.method`);
+  const setting = validateSetting(v, r.setting, `${at}.setting`);
+  if (!STATUSES.includes(r.status as Status)) v.fail(`${at}.status`, `is ${JSON.stringify(r.status)}, expected one of ${STATUSES.join(', ')}`);
+  if (r.message !== undefined) v.string(r.message, `${at}.message`);
+  const error = v.object(r.error, `${at}.error`);
+  v.numberOrNull(error.final, `${at}.error.final`);
+  v.numberOrNull(error.max, `${at}.error.max`);
+  const driftIn = v.object(r.drift, `${at}.drift`);
+  const drift: Record<string, number> = {};
+  for (const [name, d] of Object.entries(driftIn)) {
+    drift[name] = d === null ? Number.NaN : v.number(d, `${at}.drift.${name}`);
+  }
+  const counts = v.object(r.counts, `${at}.counts`);
+  for (const k of ['nfev', 'njev', 'nlu', 'accepted', 'rejected'] as const) v.integer(counts[k], `${at}.counts.${k}`, 0);
+  const time = v.object(r.time, `${at}.time`);
+  v.numberOrNull(time.medianSeconds, `${at}.time.medianSeconds`);
+  v.integer(time.samples, `${at}.time.samples`, 0);
+  if (time.calibrationRatio !== undefined) v.numberOrNull(time.calibrationRatio, `${at}.time.calibrationRatio`);
+  v.number(r.tFinal, `${at}.tFinal`);
+  const yFinal = v.array(r.yFinal, `${at}.yFinal`);
+  yFinal.forEach((y, i) => {
+    if (y !== null) v.number(y, `${at}.yFinal[${i}]`);
+  });
+  if (r.errorBelowReference !== undefined) v.boolean(r.errorBelowReference, `${at}.errorBelowReference`);
+  if (r.planIndex !== undefined) v.integer(r.planIndex, `${at}.planIndex`, 0);
+  return { ...r, setting, drift } as unknown as RunResult;
+}
+
+function validateSetting(v: Validator, value: unknown, at: string): RunSetting {
+  const s = v.object(value, at);
+  if ('rtol' in s) {
+    v.positive(s.rtol, `${at}.rtol`);
+    if (Array.isArray(s.atol)) s.atol.forEach((a, i) => v.number(a, `${at}.atol[${i}]`));
+    else v.number(s.atol, `${at}.atol`);
+  } else if ('steps' in s) {
+    v.integer(s.steps, `${at}.steps`, 1);
+    v.number(s.h, `${at}.h`);
+  } else {
+    v.fail(at, 'has neither rtol/atol nor steps/h');
+  }
+  return s as RunSetting;
+}
+
+function validateProblem(v: Validator, value: unknown, at: string): ProblemRecord {
+  const p = v.object(value, at);
+  v.string(p.id, `${at}.id`);
+  v.string(p.title, `${at}.title`);
+  v.string(p.sha256, `${at}.sha256`);
+  v.boolean(p.stiff, `${at}.stiff`);
+  const ref = v.object(p.reference, `${at}.reference`);
+  if (!REFERENCE_KINDS.includes(ref.kind as (typeof REFERENCE_KINDS)[number])) {
+    v.fail(`${at}.reference.kind`, `is ${JSON.stringify(ref.kind)}, expected one of ${REFERENCE_KINDS.join(', ')}`);
+  }
+  if (ref.digits !== undefined) v.number(ref.digits, `${at}.reference.digits`);
+  return p as ProblemRecord;
+}
