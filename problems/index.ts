@@ -1,4 +1,33 @@
 // The built-in catalogue: one file per problem, one line here per problem.
 import type { Problem } from '../src/core/types.js';
+import { harmonicOscillator } from './harmonic-oscillator.js';
+import { keplerCircular } from './kepler-circular.js';
+import { keplerEccentric } from './kepler-eccentric.js';
+import { vanDerPol } from './van-der-pol.js';
+import { vanDerPolStiff } from './van-der-pol-stiff.js';
+import { robertson } from './robertson.js';
+import { linearOscillatorChain } from './linear-oscillator-chain.js';
 
-export const catalogue: Problem[] = [];
+export const catalogue: Problem[] = [
+  harmonicOscillator,
+  keplerCircular,
+  keplerEccentric,
+  vanDerPol,
+  vanDerPolStiff,
+  robertson,
+  linearOscillatorChain,
+];
+
+export function findProblem(id: string): Problem | undefined {
+  return catalogue.find((p) => p.id === id);
+}
+
+export {
+  harmonicOscillator,
+  keplerCircular,
+  keplerEccentric,
+  vanDerPol,
+  vanDerPolStiff,
+  robertson,
+  linearOscillatorChain,
+};

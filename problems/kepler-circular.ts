@@ -1,0 +1,64 @@
+// Two-body problem in 3-D, x'' = -mu x / |x|^3, mu = 1, on a circular orbit of radius 1 whose
+// plane is inclined 30 degrees to the x-y plane; start (1, 0, 0) with velocity (0, cos 30, sin 30).
+// Source: exact circular motion x(t) = cos(t) e1 + sin(t) e2 with e1 = (1, 0, 0),
+// e2 = (0, cos 30, sin 30) (angular rate sqrt(mu / r^3) = 1; e.g. Danby, Fundamentals of
+// Celestial Mechanics, ch. 6). Span 10 periods, [0, 20 pi].
+// Error scale: absolute (positions and velocities stay O(1)).
+// Invariants: energy |v|^2/2 - 1/|x| = -1/2 and angular momentum |x cross v| = 1.
+// Checked four times per orbit, so phase drift shows up as it grows.
+import type { Problem } from '../src/core/types.js';
+import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from '../src/problems/two-body.js';
+
+const MU = 1;
+const C30 = Math.cos(Math.PI / 6);
+const S30 = Math.sin(Math.PI / 6);
+const T_END = 20 * Math.PI;
+const CHECK_TIMES = Array.from({ length: 40 }, (_, k) => ((k + 1) * Math.PI) / 2);
+
+export const keplerCircular: Problem = {
+  id: 'kepler-circular',
+  title: 'Kepler problem, inclined circular orbit (3-D)',
+  source: 'Exact circular two-body motion, e.g. Danby, Fundamentals of Celestial Mechanics, 2nd ed., ch. 6',
+  description:
+    "x'' = -mu x/|x|^3 in 3-D, state (x, y, z, vx, vy, vz), mu = 1; circular orbit of radius 1 inclined " +
+    '30 degrees to the x-y plane, x(0) = (1, 0, 0), v(0) = (0, cos 30, sin 30); t in [0, 20 pi] (10 periods). ' +
+    'Exact solution x = cos t e1 + sin t e2, v = -sin t e1 + cos t e2, e1 = (1,0,0), e2 = (0, cos 30, sin 30). ' +
+    'Error: absolute. Invariants: energy (-1/2) and angular-momentum magnitude (1). Separable (positions | velocities).',
+  dimension: 6,
+  stateNames: ['x', 'y', 'z', 'vx', 'vy', 'vz'],
+  t0: 0,
+  tEnd: T_END,
+  y0: [1, 0, 0, 0, C30, S30],
+  f: twoBodyRhs(3, MU),
+  jacobian: twoBodyJacobian(3, MU),
+  stiff: false,
+  invariants: [twoBodyEnergy(3, MU), twoBodyAngularMomentum(3)],
+  errorScale: { kind: 'absolute' },
+  reference: {
+    kind: 'exact',
+    source: 'analytic circular motion at unit angular rate',
+    exact(t, out) {
+      const c = Math.cos(t);
+      const s = Math.sin(t);
+      out[0] = c;
+      out[1] = s * C30;
+      out[2] = s * S30;
+      out[3] = -s;
+      out[4] = c * C30;
+      out[5] = c * S30;
+    },
+  },
+  checkTimes: CHECK_TIMES,
+  separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
+  definition: [
+    'id: kepler-circular',
+    "equations: x'' = -mu x / |x|^3 (3-D), state (x, y, z, vx, vy, vz)",
+    'parameters: mu = 1, radius 1, inclination 30 degrees',
+    'span: [0, 20*pi]',
+    'initial: (1, 0, 0, 0, cos(pi/6), sin(pi/6))',
+    'reference: exact, x = cos t e1 + sin t e2, e1 = (1,0,0), e2 = (0, cos(pi/6), sin(pi/6))',
+    'error: absolute',
+    'invariants: energy = |v|^2/2 - mu/|x|; angular-momentum = |x cross v|',
+    'checkTimes: k*pi/2, k = 1..40',
+  ].join('\n'),
+};

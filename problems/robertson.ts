@@ -1,0 +1,90 @@
+// Robertson's chemical kinetics (three species):
+//   y1' = -0.04 y1 + 1e4 y2 y3
+//   y2' =  0.04 y1 - 1e4 y2 y3 - 3e7 y2^2
+//   y3' =  3e7 y2^2,                y(0) = (1, 0, 0), t in [0, 1e11].
+// Sources: t = 40 from Hairer and Wanner, Solving ODEs II, sec. IV.1 (10 digits printed);
+// t = 1e11 from Mazzia and Magherini, Test Set for IVP Solvers, problem
+// ROBER (16 digits printed). `digits` is the smaller of the two, 10.
+// Error scale: relative per component with floor 1e-20. y2 is ~8.3e-14 at the end and y1
+// ~2.1e-8, so any floor near those sizes would turn the measure into an absolute one for exactly
+// the components that make the problem hard; 1e-20 is below every reference value by seven orders
+// and only keeps the ratio finite.
+// atolScale [1e-6, 1e-10, 1e-6]: atol_i = rtol times about 1e-6 of each component's peak
+// (y1, y3 peak at 1, y2 at 3.65e-5). Relative accuracy of y1 and y2 at t = 1e11 is then not
+// guaranteed by the tolerances; the error measure reports it as it is.
+// Invariant: mass y1 + y2 + y3 = 1 (the right-hand sides sum to zero).
+import type { Problem } from '../src/core/types.js';
+
+const K1 = 0.04;
+const K2 = 3e7;
+const K3 = 1e4;
+/** Hairer and Wanner, Solving ODEs II, sec. IV.1. */
+const Y_40 = [0.7158270687, 0.9185534764e-5, 0.2841637457];
+/** Mazzia and Magherini, Test Set for IVP Solvers, ROBER. */
+const Y_END = [0.2083340149701255e-7, 0.8333360770334713e-13, 0.9999999791665050];
+
+export const robertson: Problem = {
+  id: 'robertson',
+  title: 'Robertson chemical kinetics (stiff)',
+  source: 'Hairer and Wanner, Solving ODEs II, sec. IV.1 (t = 40); Mazzia and Magherini, Test Set for IVP Solvers, ROBER (t = 1e11)',
+  description:
+    "y1' = -0.04 y1 + 1e4 y2 y3, y2' = 0.04 y1 - 1e4 y2 y3 - 3e7 y2^2, y3' = 3e7 y2^2, y(0) = (1, 0, 0), " +
+    't in [0, 1e11] (stiff). Reference: published at t = 40 (Hairer and Wanner II, sec. IV.1, 10 digits) and ' +
+    't = 1e11 (Test Set for IVP Solvers, ROBER). Error: relative per component, floor 1e-20. Invariant: mass y1 + y2 + y3.',
+  dimension: 3,
+  stateNames: ['y1', 'y2', 'y3'],
+  t0: 0,
+  tEnd: 1e11,
+  y0: [1, 0, 0],
+  f(_t, y, dy) {
+    const y1 = y[0]!;
+    const y2 = y[1]!;
+    const y3 = y[2]!;
+    const a = K1 * y1;
+    const b = K3 * y2 * y3;
+    const c = K2 * y2 * y2;
+    dy[0] = -a + b;
+    dy[1] = a - b - c;
+    dy[2] = c;
+  },
+  jacobian(_t, y, jac) {
+    const y2 = y[1]!;
+    const y3 = y[2]!;
+    jac[0] = -K1;
+    jac[1] = K3 * y3;
+    jac[2] = K3 * y2;
+    jac[3] = K1;
+    jac[4] = -K3 * y3 - 2 * K2 * y2;
+    jac[5] = -K3 * y2;
+    jac[6] = 0;
+    jac[7] = 2 * K2 * y2;
+    jac[8] = 0;
+  },
+  stiff: true,
+  invariants: [{ name: 'mass', fn: (_t, y) => y[0]! + y[1]! + y[2]! }],
+  errorScale: { kind: 'relative', floor: 1e-20 },
+  atolScale: [1e-6, 1e-10, 1e-6],
+  reference: {
+    kind: 'published',
+    digits: 10,
+    source: 'Hairer and Wanner, Solving ODEs II, sec. IV.1 (t = 40); Test Set for IVP Solvers, ROBER (t = 1e11)',
+    points: [
+      { t: 40, y: Y_40 },
+      { t: 1e11, y: Y_END },
+    ],
+  },
+  checkTimes: [40],
+  definition: [
+    'id: robertson',
+    "equations: y1' = -k1 y1 + k3 y2 y3; y2' = k1 y1 - k3 y2 y3 - k2 y2^2; y3' = k2 y2^2",
+    'parameters: k1 = 0.04, k2 = 3e7, k3 = 1e4',
+    'span: [0, 1e11]',
+    'initial: (1, 0, 0)',
+    `reference: t = 40: (${Y_40.join(', ')}), published, Hairer and Wanner II sec. IV.1`,
+    `reference: t = 1e11: (${Y_END.join(', ')}), published, Test Set for IVP Solvers ROBER`,
+    'error: relative, floor 1e-20',
+    'atolScale: 1e-6, 1e-10, 1e-6',
+    'invariants: mass = y1 + y2 + y3',
+    'checkTimes: 40',
+  ].join('\n'),
+};
