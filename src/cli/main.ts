@@ -3,7 +3,7 @@
 import { Command, CommanderError } from 'commander';
 import { isInputError, messageOf } from '../core/errors.js';
 import { commands } from './commands/index.js';
-import { packageVersion } from './version.js';
+import { packageVersion } from '../core/version.js';
 
 export async function main(argv: string[]): Promise<number> {
   const program = new Command('stepgauge')

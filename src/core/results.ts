@@ -27,6 +27,8 @@ export interface RunResult {
   yFinal: number[];
   /** True when the error is below what the reference can resolve (certified references). */
   errorBelowReference?: boolean;
+  /** Position of this run in the sweep plan (keeps merged shards in plan order). */
+  planIndex?: number;
   trace?: DriftTrace;
 }
 
@@ -37,6 +39,8 @@ export interface ProblemRecord {
   stiff: boolean;
   reference: { kind: ReferenceKind; digits?: number; source?: string };
   stiffnessRatio?: number | null;
+  source?: string;
+  dimension?: number;
   [extra: string]: unknown;
 }
 

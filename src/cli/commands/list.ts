@@ -1,0 +1,37 @@
+// `stepgauge list`: the built-in problems and methods, as a table or as JSON.
+import type { RegisterCommand } from './index.js';
+import { builtinMethods } from '../../methods/registry.js';
+import { catalogue } from '../../../problems/index.js';
+import { methodRecord, problemRecord } from '../../sweep/run.js';
+
+export const registerList: RegisterCommand = (program) => {
+  program
+    .command('list')
+    .description('list built-in problems and methods with family, order and source')
+    .option('--json', 'print { methods, problems } as JSON')
+    .action(async (flags: { json?: boolean }) => {
+      const methods = builtinMethods().map(methodRecord);
+      const problems = catalogue.map((p) => ({ ...problemRecord(p), stiffnessRatio: stiffnessOf(p.id) }));
+      if (flags.json) {
+        process.stdout.write(`${JSON.stringify({ methods, problems }, null, 2)}\n`);
+        return;
+      }
+      const out: string[] = ['Problems'];
+      for (const p of problems) {
+        const ref = p.reference.kind + (p.reference.digits ? `, ${p.reference.digits} digits` : '');
+        out.push(`  ${p.id.padEnd(26)} ${p.stiff ? 'stiff   ' : 'non-stiff'} ${String(p.dimension).padStart(2)} states  reference ${ref}`);
+        out.push(`  ${''.padEnd(26)} ${p.title}; ${String(p.source)}`);
+      }
+      out.push('', 'Methods');
+      for (const m of methods) {
+        out.push(`  ${String(m.id).padEnd(26)} ${String(m.family).padEnd(18)} order ${String(m.order).padEnd(3)} ${m.stiff ? 'stiff ' : '      '} ${String(m.name)}`);
+        out.push(`  ${''.padEnd(26)} ${String(m.source)}`);
+      }
+      if (methods.length === 0) out.push('  (none registered)');
+      process.stdout.write(`${out.join('\n')}\n`);
+    });
+};
+
+function stiffnessOf(_id: string): number | null {
+  return null;
+}

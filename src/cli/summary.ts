@@ -1,0 +1,49 @@
+// The readable summary printed after a sweep: one line per (problem, method).
+import type { ResultsFile, RunResult } from '../core/results.js';
+import { sig3 } from '../report/format.js';
+
+function pad(s: string, w: number): string {
+  return s.length >= w ? s : s + ' '.repeat(w - s.length);
+}
+
+function table(rows: string[][]): string {
+  const widths = rows[0]!.map((_, c) => Math.max(...rows.map((r) => r[c]!.length)));
+  return rows.map((r) => r.map((v, c) => pad(v, widths[c]!)).join('  ').trimEnd()).join('\n');
+}
+
+function statusCounts(runs: RunResult[]): string {
+  const counts = new Map<string, number>();
+  for (const r of runs) if (r.status !== 'ok') counts.set(r.status, (counts.get(r.status) ?? 0) + 1);
+  return [...counts].map(([s, n]) => `${n} ${s}`).join(', ');
+}
+
+export function summaryText(results: ResultsFile): string {
+  const lines: string[] = [];
+  const byProblem = new Map<string, RunResult[]>();
+  for (const r of results.runs) byProblem.set(r.problem, [...(byProblem.get(r.problem) ?? []), r]);
+  for (const [problem, runs] of byProblem) {
+    lines.push('', `${problem}`);
+    const rows: string[][] = [['method', 'runs', 'ok', 'best error', 'at setting', 'nfev there', 'time there', 'failures']];
+    const byMethod = new Map<string, RunResult[]>();
+    for (const r of runs) byMethod.set(r.method, [...(byMethod.get(r.method) ?? []), r]);
+    for (const [method, mr] of byMethod) {
+      const ok = mr.filter((r) => r.status === 'ok' && r.error.final !== null);
+      const best = ok.reduce<RunResult | undefined>((b, r) => (!b || r.error.final! < b.error.final! ? r : b), undefined);
+      const setting = best ? ('rtol' in best.setting ? `rtol ${sig3(best.setting.rtol)}` : `${best.setting.steps} steps`) : '—';
+      rows.push([
+        method,
+        String(mr.length),
+        String(mr.filter((r) => r.status === 'ok').length),
+        best ? sig3(best.error.final) + (best.errorBelowReference ? ' (below ref.)' : '') : '—',
+        setting,
+        best ? String(best.counts.nfev) : '—',
+        best && best.time.medianSeconds !== null ? `${sig3(best.time.medianSeconds * 1000)} ms` : '—',
+        statusCounts(mr) || '—',
+      ]);
+    }
+    lines.push(table(rows));
+  }
+  const failed = results.runs.filter((r) => r.status !== 'ok').length;
+  lines.push('', `${results.runs.length} runs, ${failed} not ok${failed ? ` (${statusCounts(results.runs)})` : ''}.`);
+  return lines.join('\n');
+}

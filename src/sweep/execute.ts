@@ -1,0 +1,32 @@
+// Executing one planned run: a measured solve, then timed repeats when the run succeeded.
+import type { Method, Problem } from '../core/types.js';
+import type { RunResult } from '../core/results.js';
+import { appendMessage, measureRun, type RunOptions } from '../measure/run-one.js';
+import { timeRun, type TimingOptions } from '../measure/timing.js';
+import type { PlannedRun } from './plan.js';
+
+export interface ExecuteOptions extends RunOptions {
+  /** null skips timing (time stays null). */
+  timing: TimingOptions | null;
+}
+
+export async function executeRun(
+  problem: Problem,
+  method: Method,
+  planned: PlannedRun,
+  options: ExecuteOptions,
+): Promise<RunResult> {
+  const run = measureRun(problem, method, planned.setting, options);
+  run.planIndex = planned.planIndex;
+  if (run.status === 'step-limit' && problem.stiff && !method.stiff) {
+    run.message = appendMessage(
+      run.message,
+      `${problem.id} is stiff: an explicit method's step size is held down by stability, not accuracy; use an implicit method`,
+    );
+  }
+  if (options.timing && run.status === 'ok') {
+    const t = await timeRun(problem, method, planned.setting, options, options.timing);
+    if (t) run.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds };
+  }
+  return run;
+}

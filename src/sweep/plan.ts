@@ -1,0 +1,104 @@
+// Planning a sweep: which (problem, method, setting) runs to make, in a fixed canonical order.
+import type { Method, Problem, Setting } from '../core/types.js';
+import { InputError } from '../core/errors.js';
+import { sha256 } from '../core/hash.js';
+
+export interface PlannedRun {
+  problem: string;
+  method: string;
+  setting: Setting;
+  /** Position in the full plan; shards and merges keep runs in this order. */
+  planIndex: number;
+  /** Rough relative cost, for balancing shards. */
+  expectedCost: number;
+}
+
+export interface SkippedPair {
+  problem: string;
+  method: string;
+  reason: string;
+}
+
+export interface SweepPlan {
+  runs: PlannedRun[];
+  skipped: SkippedPair[];
+  /** Fingerprint of the whole plan, so shards of different plans are never merged. */
+  sha256: string;
+}
+
+export interface PlanRequest {
+  problems: readonly Problem[];
+  methods: readonly Method[];
+  tolerances: readonly number[];
+  steps: readonly number[];
+  /** Methods the user named: they run even where the default pairing would leave them out. */
+  methodsNamed: boolean;
+}
+
+/** One tolerance per decade from `loose` down to `tight`: "1e-3..1e-12". */
+export const DEFAULT_TOLERANCES: readonly number[] = decades(1e-3, 1e-10);
+/** A doubling ladder of equal-step counts for fixed-step methods. */
+export const DEFAULT_STEPS: readonly number[] = [100, 200, 400, 800, 1600, 3200, 6400, 12800];
+
+export function decades(loose: number, tight: number): number[] {
+  const a = Math.round(Math.log10(loose));
+  const b = Math.round(Math.log10(tight));
+  const out: number[] = [];
+  const dir = a >= b ? -1 : 1;
+  for (let k = a; dir < 0 ? k >= b : k <= b; k += dir) out.push(Number(`1e${k}`));
+  return out;
+}
+
+/** Why a method does not pair with a problem by default (null when it does). */
+export function pairingGap(problem: Problem, method: Method): string | null {
+  if (method.needsSeparable && !problem.separable) {
+    const why = (problem as { separableReason?: string }).separableReason;
+    return `${method.id} needs a separable problem (positions driven only by velocities, velocities only by positions and t)${why ? `: ${why}` : ''}`;
+  }
+  if (problem.stiff && !method.stiff) return `${problem.id} is stiff and ${method.id} is not meant for stiff problems`;
+  return null;
+}
+
+function atolFor(problem: Problem, rtol: number): number | number[] {
+  const s = problem.atolScale;
+  if (s === undefined) return rtol;
+  if (typeof s === 'number') return rtol * s;
+  return s.map((v) => rtol * v);
+}
+
+function costOf(method: Method, setting: Setting): number {
+  if ('steps' in setting) return setting.steps * Math.max(1, method.order);
+  return 10 * Math.pow(1 / setting.rtol, 1 / Math.max(1, method.order + 1)) * Math.max(1, method.order);
+}
+
+export function planSweep(req: PlanRequest): SweepPlan {
+  if (req.problems.length === 0) throw new InputError('no problems selected', '--problem');
+  if (req.methods.length === 0) throw new InputError('no methods selected', '--method');
+  const runs: PlannedRun[] = [];
+  const skipped: SkippedPair[] = [];
+  for (const problem of req.problems) {
+    for (const method of req.methods) {
+      const gap = pairingGap(problem, method);
+      // A named explicit method still runs on a stiff problem (its step limit is the result),
+      // but a symplectic method cannot run at all without a separable split.
+      const hardGap = method.needsSeparable && !problem.separable;
+      if (gap && (hardGap || !req.methodsNamed)) {
+        skipped.push({ problem: problem.id, method: method.id, reason: gap });
+        continue;
+      }
+      const settings: Setting[] = method.adaptive
+        ? req.tolerances.map((rtol) => ({ rtol, atol: atolFor(problem, rtol) }))
+        : req.steps.map((steps) => ({ steps }));
+      for (const setting of settings) {
+        runs.push({ problem: problem.id, method: method.id, setting, planIndex: runs.length, expectedCost: costOf(method, setting) });
+      }
+    }
+  }
+  const fingerprint = sha256(
+    JSON.stringify({
+      runs: runs.map((r) => [r.problem, r.method, r.setting]),
+      problems: req.problems.map((p) => [p.id, sha256(p.definition)]),
+    }),
+  );
+  return { runs, skipped, sha256: fingerprint };
+}
