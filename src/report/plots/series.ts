@@ -1,0 +1,31 @@
+// Grouping selected points into one series per method, in palette order, each ordered from
+// loosest to tightest setting so the joining line follows the sweep.
+import type { RunResult } from '../../core/results.js';
+import { tightness } from '../format.js';
+import { methodName, type PlotContext } from './context.js';
+import type { Point, SeriesSpec } from './spec.js';
+
+export function byMethod(
+  ctx: PlotContext,
+  kept: readonly { run: RunResult; point: Point }[],
+): Map<string, { run: RunResult; point: Point }[]> {
+  const groups = new Map<string, { run: RunResult; point: Point }[]>();
+  for (const id of ctx.methodIds) {
+    const g = kept.filter((k) => k.run.method === id);
+    if (g.length > 0) groups.set(id, g.slice().sort((a, b) => tightness(a.run.setting) - tightness(b.run.setting)));
+  }
+  return groups;
+}
+
+export function methodSeries(
+  ctx: PlotContext,
+  kept: readonly { run: RunResult; point: Point }[],
+  label: (id: string, points: Point[]) => string = (id) => methodName(ctx, id),
+): SeriesSpec[] {
+  const out: SeriesSpec[] = [];
+  for (const [id, g] of byMethod(ctx, kept)) {
+    const points = g.map((k) => k.point);
+    out.push({ label: label(id, points), points, style: ctx.styles.get(id)!, markers: true, line: true });
+  }
+  return out;
+}
