@@ -1,0 +1,236 @@
+// The one engine for embedded explicit Runge-Kutta pairs: any compiled tableau with error weights.
+// Error estimate in the scaled RMS norm (HNW I, sec. II.4), the propagated solution is whatever
+// the tableau's b weights are (local extrapolation is a property of the data), FSAL reuse,
+// standard or PI control, exact landing on check times and tEnd. All buffers are allocated once
+// per solve; the step loop allocates nothing.
+import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
+import { zeroCounts } from '../../core/types.js';
+import { allFinite, scaledRmsNorm } from '../../core/vector.js';
+import {
+  DEADLINE_EVERY,
+  FAC_MAX,
+  LANDING_STRETCH,
+  NONFINITE_SHRINK,
+  PI_ERR_FLOOR,
+  UNDERFLOW_ULPS,
+  initialStep,
+  piFactor,
+  standardFactor,
+} from './control.js';
+import { finish } from './finish.js';
+import { stopTimes } from './stops.js';
+import type { Tableau } from './tableau.js';
+import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
+
+/**
+ * Weight of the 3rd-order estimate when two estimates are combined (DOP853):
+ * err = err5^2 / sqrt(err5^2 + 0.01 err3^2), HNW I, sec. II.10.
+ */
+export const COMBINED_ERR3_WEIGHT = 0.01;
+
+/** Keeps the underflow guard meaningful at t = 0. */
+const TINY_T = 1e-300;
+
+/**
+ * Called after each accepted step, before the buffers move on: stage derivatives k (row-major,
+ * stage i at k[i*n .. i*n+n)), the states at both ends. Read them, do not keep them.
+ */
+export type AcceptHook = (
+  tOld: number,
+  tNew: number,
+  h: number,
+  yOld: Float64Array,
+  yNew: Float64Array,
+  k: Float64Array,
+  n: number,
+) => void;
+
+export function solveEmbedded(
+  tab: Tableau,
+  methodId: string,
+  problem: Problem,
+  setting: Setting,
+  options: SolveOptions,
+  onAccept?: AcceptHook,
+): SolveResult {
+  checkProblem(problem, methodId);
+  checkOptions(options, methodId);
+  const n = problem.dimension;
+  const { rtol, atol } = adaptiveSetting(setting, n, methodId);
+  const t0 = problem.t0;
+  const tEnd = problem.tEnd;
+  const stops = stopTimes(options.checkTimes, t0, tEnd, methodId);
+  const f = problem.f;
+  const s = tab.stages;
+  const { c, aStart, aCol, aVal, bCol, bVal, eCol, eVal, e2Col, e2Val, fsal } = tab;
+  const nb = bCol.length;
+  const ne = eCol.length;
+  const ne2 = e2Col.length;
+  const combined = ne2 > 0;
+  const last = s - 1;
+  const lastFromA = fsal ? last - 1 : last;
+  const kExp = tab.controlOrder + 1;
+  const usePi = options.controller === 'pi';
+  const observer = options.observer;
+  const deadline = options.deadline;
+  const maxSteps = options.maxSteps;
+
+  const K = new Float64Array(s * n);
+  const kRow: Float64Array[] = [];
+  for (let i = 0; i < s; i++) kRow.push(K.subarray(i * n, (i + 1) * n));
+  let y = Float64Array.from(problem.y0);
+  let yNew = new Float64Array(n);
+  const yStage = new Float64Array(n);
+  const errVec = new Float64Array(n);
+  const counts: Counts = zeroCounts();
+
+  let t = t0;
+  f(t, y, kRow[0]!);
+  counts.nfev++;
+  if (!allFinite(y, n) || !allFinite(kRow[0]!, n)) {
+    return finish('diverged', `y0 or f(t0, y0) is not finite at t=${t}`, t, y, counts);
+  }
+  let h: number;
+  if (options.initialStep !== undefined) h = Math.min(options.initialStep, tEnd - t0);
+  else {
+    h = initialStep(f, t0, y, kRow[0]!, kExp - 1, rtol, atol, tEnd - t0, yStage, kRow[1 % s]!, n);
+    counts.nfev++;
+  }
+  if (observer) observer(t, y);
+
+  let stopIdx = 0;
+  let stop = stops[0]!;
+  let k0Fresh = true;
+  let lastRejected = false;
+  let lastNonFinite = false;
+  let errPrev = 1;
+  let status: Status = 'ok';
+  let message: string | undefined;
+
+  for (;;) {
+    const attempts = counts.accepted + counts.rejected;
+    if (attempts >= maxSteps) {
+      status = 'step-limit';
+      message = `reached maxSteps=${maxSteps} at t=${t}`;
+      break;
+    }
+    if (deadline !== undefined && attempts % DEADLINE_EVERY === 0 && performance.now() > deadline) {
+      status = 'timeout';
+      message = `deadline passed at t=${t}`;
+      break;
+    }
+    const at = t < 0 ? -t : t;
+    if (!(h >= UNDERFLOW_ULPS * Number.EPSILON * (at > TINY_T ? at : TINY_T))) {
+      status = lastNonFinite ? 'diverged' : 'step-underflow';
+      message = lastNonFinite
+        ? `non-finite state or error persists down to step ${h} at t=${t}`
+        : `step ${h} too small at t=${t}`;
+      break;
+    }
+    let hs = h;
+    let clipped = false;
+    if (t + hs * LANDING_STRETCH >= stop) {
+      hs = stop - t;
+      clipped = true;
+    }
+    const tNew = clipped ? stop : t + hs;
+
+    if (!k0Fresh) {
+      f(t, y, kRow[0]!);
+      counts.nfev++;
+      k0Fresh = true;
+      if (!allFinite(kRow[0]!, n)) {
+        status = 'diverged';
+        message = `f(t, y) is not finite at t=${t}`;
+        break;
+      }
+    }
+    for (let i = 1; i <= lastFromA; i++) {
+      const p0 = aStart[i]!;
+      const p1 = aStart[i + 1]!;
+      for (let j = 0; j < n; j++) {
+        let acc = 0;
+        for (let p = p0; p < p1; p++) acc += aVal[p]! * K[aCol[p]! * n + j]!;
+        yStage[j] = y[j]! + hs * acc;
+      }
+      f(t + c[i]! * hs, yStage, kRow[i]!);
+    }
+    counts.nfev += lastFromA;
+    for (let j = 0; j < n; j++) {
+      let acc = 0;
+      for (let p = 0; p < nb; p++) acc += bVal[p]! * K[bCol[p]! * n + j]!;
+      yNew[j] = y[j]! + hs * acc;
+    }
+    if (fsal) {
+      f(tNew, yNew, kRow[last]!);
+      counts.nfev++;
+    }
+
+    let err: number;
+    if (combined) {
+      let s5 = 0;
+      let s3 = 0;
+      for (let j = 0; j < n; j++) {
+        let a5 = 0;
+        for (let p = 0; p < ne; p++) a5 += eVal[p]! * K[eCol[p]! * n + j]!;
+        let a3 = 0;
+        for (let p = 0; p < ne2; p++) a3 += e2Val[p]! * K[e2Col[p]! * n + j]!;
+        const ya = Math.abs(y[j]!);
+        const yb = Math.abs(yNew[j]!);
+        const sk = atol[j]! + rtol * (ya > yb ? ya : yb);
+        a5 /= sk;
+        a3 /= sk;
+        s5 += a5 * a5;
+        s3 += a3 * a3;
+      }
+      let deno = s5 + COMBINED_ERR3_WEIGHT * s3;
+      if (!(deno > 0)) deno = 1;
+      err = Math.abs(hs) * s5 * Math.sqrt(1 / (n * deno));
+    } else {
+      for (let j = 0; j < n; j++) {
+        let acc = 0;
+        for (let p = 0; p < ne; p++) acc += eVal[p]! * K[eCol[p]! * n + j]!;
+        errVec[j] = hs * acc;
+      }
+      err = scaledRmsNorm(errVec, y, yNew, rtol, atol, n);
+    }
+
+    const finite = err === err && allFinite(yNew, n) && (!fsal || allFinite(kRow[last]!, n));
+    if (finite && err <= 1) {
+      const facMax = lastRejected ? 1 : FAC_MAX;
+      const fac = usePi ? piFactor(err, errPrev, kExp, facMax) : standardFactor(err, kExp, facMax);
+      errPrev = err > PI_ERR_FLOOR ? err : PI_ERR_FLOOR;
+      let hNext = hs * fac;
+      if (clipped) {
+        // Landing shortened the step, not the error: resume with the step proposed before it.
+        if (hNext >= hs && hNext < h) hNext = h;
+        stopIdx++;
+        if (stopIdx < stops.length) stop = stops[stopIdx]!;
+      }
+      if (onAccept) onAccept(t, tNew, hs, y, yNew, K, n);
+      const swap = y;
+      y = yNew;
+      yNew = swap;
+      t = tNew;
+      if (fsal) K.copyWithin(0, last * n, s * n);
+      else k0Fresh = false;
+      counts.accepted++;
+      lastRejected = false;
+      lastNonFinite = false;
+      if (observer) observer(t, y);
+      if (clipped && stopIdx >= stops.length) break;
+      h = hNext;
+    } else {
+      counts.rejected++;
+      lastRejected = true;
+      if (finite) {
+        h = hs * standardFactor(err, kExp, 1);
+        lastNonFinite = false;
+      } else {
+        h = hs * NONFINITE_SHRINK;
+        lastNonFinite = true;
+      }
+    }
+  }
+  return finish(status, message, t, y, counts);
+}

@@ -1,0 +1,84 @@
+// The one engine for fixed-step explicit Runge-Kutta methods: equal steps h = (tEnd - t0)/steps
+// over the span with any compiled tableau. Buffers allocated once per solve.
+import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
+import { zeroCounts } from '../../core/types.js';
+import { allFinite } from '../../core/vector.js';
+import { DEADLINE_EVERY } from './control.js';
+import { finish } from './finish.js';
+import type { Tableau } from './tableau.js';
+import { checkOptions, checkProblem, fixedSteps } from './validate.js';
+
+export function solveFixed(
+  tab: Tableau,
+  methodId: string,
+  problem: Problem,
+  setting: Setting,
+  options: SolveOptions,
+): SolveResult {
+  checkProblem(problem, methodId);
+  checkOptions(options, methodId);
+  const steps = fixedSteps(setting, methodId);
+  const n = problem.dimension;
+  const t0 = problem.t0;
+  const tEnd = problem.tEnd;
+  const h = (tEnd - t0) / steps;
+  const f = problem.f;
+  const s = tab.stages;
+  const { c, aStart, aCol, aVal, bCol, bVal } = tab;
+  const nb = bCol.length;
+  const observer = options.observer;
+  const deadline = options.deadline;
+  const maxSteps = options.maxSteps;
+
+  const K = new Float64Array(s * n);
+  const kRow: Float64Array[] = [];
+  for (let i = 0; i < s; i++) kRow.push(K.subarray(i * n, (i + 1) * n));
+  const y = Float64Array.from(problem.y0);
+  const yStage = new Float64Array(n);
+  const counts: Counts = zeroCounts();
+  let status: Status = 'ok';
+  let message: string | undefined;
+  let t = t0;
+  if (!allFinite(y, n)) return finish('diverged', 'y0 is not finite', t, y, counts, h);
+  if (observer) observer(t, y);
+
+  for (let step = 0; step < steps; step++) {
+    if (step >= maxSteps) {
+      status = 'step-limit';
+      message = `reached maxSteps=${maxSteps} at t=${t}`;
+      break;
+    }
+    if (deadline !== undefined && step % DEADLINE_EVERY === 0 && performance.now() > deadline) {
+      status = 'timeout';
+      message = `deadline passed at t=${t}`;
+      break;
+    }
+    f(t, y, kRow[0]!);
+    for (let i = 1; i < s; i++) {
+      const p0 = aStart[i]!;
+      const p1 = aStart[i + 1]!;
+      for (let j = 0; j < n; j++) {
+        let acc = 0;
+        for (let p = p0; p < p1; p++) acc += aVal[p]! * K[aCol[p]! * n + j]!;
+        yStage[j] = y[j]! + h * acc;
+      }
+      f(t + c[i]! * h, yStage, kRow[i]!);
+    }
+    counts.nfev += s;
+    for (let j = 0; j < n; j++) {
+      let acc = 0;
+      for (let p = 0; p < nb; p++) acc += bVal[p]! * K[bCol[p]! * n + j]!;
+      y[j] = y[j]! + h * acc;
+    }
+    // t from the step index, not by summing h, so the last step lands exactly on tEnd.
+    t = step + 1 === steps ? tEnd : t0 + (step + 1) * h;
+    counts.accepted++;
+    if (!allFinite(y, n)) {
+      status = 'diverged';
+      message = `state became non-finite at t=${t}`;
+      break;
+    }
+    if (observer) observer(t, y);
+  }
+  return finish(status, message, t, y, counts, h);
+}

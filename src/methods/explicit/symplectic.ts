@@ -1,0 +1,137 @@
+// Fixed-step symplectic integrators for separable problems q' = g(p), p' = h(t, q): Stormer-Verlet
+// and compositions of it. The right-hand side is the problem's full f; each call is one nfev and
+// only the components the sub-flow needs are read from it.
+import { InputError } from '../../core/errors.js';
+import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
+import { zeroCounts } from '../../core/types.js';
+import { allFinite } from '../../core/vector.js';
+import { DEADLINE_EVERY } from './control.js';
+import { finish } from './finish.js';
+import { checkOptions, checkProblem, fixedSteps } from './validate.js';
+
+/** Position and velocity indices as typed arrays, checked to split 0..n-1 exactly. */
+function splitOf(problem: Problem, methodId: string): { pos: Int32Array; vel: Int32Array } {
+  const sep = problem.separable;
+  if (!sep) {
+    throw new InputError(
+      `problem.separable is missing: ${methodId} is a symplectic splitting method and needs the ` +
+        'positions/velocities index split (position derivatives depending only on velocities, ' +
+        'velocity derivatives only on positions and t) to kick and drift separately',
+      methodId,
+    );
+  }
+  const n = problem.dimension;
+  const seen = new Uint8Array(n);
+  for (const [name, list] of [
+    ['positions', sep.positions],
+    ['velocities', sep.velocities],
+  ] as const) {
+    for (const i of list) {
+      if (!Number.isInteger(i) || i < 0 || i >= n) {
+        throw new InputError(`problem.separable.${name} has index ${i}, expected an integer in [0, ${n})`, methodId);
+      }
+      if (seen[i]) throw new InputError(`problem.separable: index ${i} appears more than once`, methodId);
+      seen[i] = 1;
+    }
+  }
+  if (sep.positions.length + sep.velocities.length !== n) {
+    throw new InputError(`problem.separable must cover all ${n} components between positions and velocities`, methodId);
+  }
+  return { pos: Int32Array.from(sep.positions), vel: Int32Array.from(sep.velocities) };
+}
+
+/**
+ * Steps a composition of Stormer-Verlet (kick-drift-kick) substeps with relative lengths `weights`
+ * (summing to 1). The force at the end of a substep is the force at the start of the next one, so
+ * each substep costs two f calls (drift, then force) and the solve one more at t0.
+ */
+export function solveVerletComposition(
+  weights: Float64Array,
+  methodId: string,
+  problem: Problem,
+  setting: Setting,
+  options: SolveOptions,
+): SolveResult {
+  checkProblem(problem, methodId);
+  checkOptions(options, methodId);
+  const steps = fixedSteps(setting, methodId);
+  const { pos, vel } = splitOf(problem, methodId);
+  const np = pos.length;
+  const nv = vel.length;
+  const n = problem.dimension;
+  const t0 = problem.t0;
+  const tEnd = problem.tEnd;
+  const h = (tEnd - t0) / steps;
+  const f = problem.f;
+  const m = weights.length;
+  const observer = options.observer;
+  const deadline = options.deadline;
+  const maxSteps = options.maxSteps;
+
+  const y = Float64Array.from(problem.y0);
+  const force = new Float64Array(n);
+  const drift = new Float64Array(n);
+  const counts: Counts = zeroCounts();
+  let status: Status = 'ok';
+  let message: string | undefined;
+  let t = t0;
+  if (!allFinite(y, n)) return finish('diverged', 'y0 is not finite', t, y, counts, h);
+  f(t, y, force);
+  counts.nfev++;
+  if (observer) observer(t, y);
+
+  for (let step = 0; step < steps; step++) {
+    if (step >= maxSteps) {
+      status = 'step-limit';
+      message = `reached maxSteps=${maxSteps} at t=${t}`;
+      break;
+    }
+    if (deadline !== undefined && step % DEADLINE_EVERY === 0 && performance.now() > deadline) {
+      status = 'timeout';
+      message = `deadline passed at t=${t}`;
+      break;
+    }
+    let tau = t;
+    for (let k = 0; k < m; k++) {
+      const hk = h * weights[k]!;
+      const half = 0.5 * hk;
+      for (let i = 0; i < nv; i++) {
+        const v = vel[i]!;
+        y[v] = y[v]! + half * force[v]!;
+      }
+      f(tau + half, y, drift);
+      for (let i = 0; i < np; i++) {
+        const q = pos[i]!;
+        y[q] = y[q]! + hk * drift[q]!;
+      }
+      tau = k + 1 === m ? (step + 1 === steps ? tEnd : t0 + (step + 1) * h) : tau + hk;
+      f(tau, y, force);
+      for (let i = 0; i < nv; i++) {
+        const v = vel[i]!;
+        y[v] = y[v]! + half * force[v]!;
+      }
+    }
+    counts.nfev += 2 * m;
+    t = tau;
+    counts.accepted++;
+    if (!allFinite(y, n)) {
+      status = 'diverged';
+      message = `state became non-finite at t=${t}`;
+      break;
+    }
+    if (observer) observer(t, y);
+  }
+  return finish(status, message, t, y, counts, h);
+}
+
+/** Stormer-Verlet: one substep. */
+export const VERLET_WEIGHTS = Float64Array.of(1);
+
+/**
+ * Yoshida's fourth-order triple jump, H. Yoshida, "Construction of higher order symplectic
+ * integrators", Phys. Lett. A 150 (1990) 262-268: w1 = 1/(2 - 2^(1/3)), w0 = -2^(1/3) w1.
+ */
+const CBRT2 = Math.cbrt(2);
+const W1 = 1 / (2 - CBRT2);
+const W0 = -CBRT2 / (2 - CBRT2);
+export const YOSHIDA4_WEIGHTS = Float64Array.of(W1, W0, W1);

@@ -1,0 +1,126 @@
+// Explicit Runge-Kutta tableaux as data: authored as plain nested arrays beside their paper,
+// compiled once into Float64Array form (with the zero couplings skipped) for the engines.
+import { InputError } from '../../core/errors.js';
+
+/** A tableau as written in its paper: strictly lower triangular A, weights b, nodes c. */
+export interface TableauData {
+  /** Rows of A; row i holds a_i1 .. a_i,i-1 (row 0 is empty). */
+  readonly a: readonly (readonly number[])[];
+  /** Weights of the propagated solution. */
+  readonly b: readonly number[];
+  readonly c: readonly number[];
+  /** Published order of the propagated solution. */
+  readonly order: number;
+  /**
+   * Weights of the embedded solution (pairs only). The error estimate is h * sum (b_i - bHat_i) k_i.
+   */
+  readonly bHat?: readonly number[];
+  readonly embeddedOrder?: number;
+  /**
+   * Second embedded solution for combined estimates (DOP853: the 3rd-order weights), with its order.
+   */
+  readonly bHat2?: readonly number[];
+  readonly embeddedOrder2?: number;
+  /**
+   * err ~ h^(controlOrder + 1); defaults to min(order, embeddedOrder). Combined estimates that
+   * behave like a higher power of h set it explicitly.
+   */
+  readonly controlOrder?: number;
+}
+
+/** The compiled form the engines step with. */
+export interface Tableau {
+  readonly stages: number;
+  readonly order: number;
+  readonly embeddedOrder: number;
+  readonly controlOrder: number;
+  readonly c: Float64Array;
+  /** Compressed rows of A: nonzero a_ij of row i are aVal[aStart[i] .. aStart[i+1]), columns aCol. */
+  readonly aStart: Int32Array;
+  readonly aCol: Int32Array;
+  readonly aVal: Float64Array;
+  /** Nonzero propagated weights. */
+  readonly bCol: Int32Array;
+  readonly bVal: Float64Array;
+  /** Nonzero error weights b - bHat (empty for fixed-step tableaux). */
+  readonly eCol: Int32Array;
+  readonly eVal: Float64Array;
+  /** Nonzero second error weights b - bHat2 (empty unless a combined estimate is used). */
+  readonly e2Col: Int32Array;
+  readonly e2Val: Float64Array;
+  /**
+   * First same as last: the last stage is evaluated at (t + h, y_new), so it is the next step's
+   * first stage and costs nothing extra there.
+   */
+  readonly fsal: boolean;
+  readonly data: TableauData;
+}
+
+/** Relative tolerance for "this coefficient equals that one" when detecting FSAL structure. */
+const SAME = 1e-15;
+
+function sparse(w: readonly number[]): { col: Int32Array; val: Float64Array } {
+  const cols: number[] = [];
+  const vals: number[] = [];
+  w.forEach((v, i) => {
+    if (v !== 0) {
+      cols.push(i);
+      vals.push(v);
+    }
+  });
+  return { col: Int32Array.from(cols), val: Float64Array.from(vals) };
+}
+
+function difference(b: readonly number[], bHat: readonly number[]): number[] {
+  return b.map((v, i) => v - (bHat[i] ?? 0));
+}
+
+export function compileTableau(d: TableauData): Tableau {
+  const s = d.c.length;
+  if (d.a.length !== s || d.b.length !== s) {
+    throw new InputError(`tableau has ${s} nodes but ${d.a.length} rows of A and ${d.b.length} weights`);
+  }
+  const starts: number[] = [0];
+  const cols: number[] = [];
+  const vals: number[] = [];
+  for (let i = 0; i < s; i++) {
+    const row = d.a[i]!;
+    if (row.length > i) throw new InputError(`tableau row ${i} of A must have at most ${i} entries (explicit)`);
+    for (let j = 0; j < row.length; j++) {
+      const v = row[j]!;
+      if (v !== 0) {
+        cols.push(j);
+        vals.push(v);
+      }
+    }
+    starts.push(cols.length);
+  }
+  const last = d.a[s - 1]!;
+  const fsal =
+    s > 1 &&
+    d.c[s - 1] === 1 &&
+    d.b[s - 1] === 0 &&
+    d.b.every((bi, j) => j === s - 1 || Math.abs((last[j] ?? 0) - bi) <= SAME * Math.max(1, Math.abs(bi)));
+  const bs = sparse(d.b);
+  const es = sparse(d.bHat ? difference(d.b, d.bHat) : []);
+  const e2s = sparse(d.bHat2 ? difference(d.b, d.bHat2) : []);
+  const embeddedOrder = d.embeddedOrder ?? 0;
+  return {
+    stages: s,
+    order: d.order,
+    embeddedOrder,
+    controlOrder: d.controlOrder ?? Math.min(d.order, embeddedOrder || d.order),
+    c: Float64Array.from(d.c),
+    aStart: Int32Array.from(starts),
+    aCol: Int32Array.from(cols),
+    aVal: Float64Array.from(vals),
+    bCol: bs.col,
+    bVal: bs.val,
+    eCol: es.col,
+    eVal: es.val,
+    e2Col: e2s.col,
+    e2Val: e2s.val,
+    fsal,
+    data: d,
+  };
+}

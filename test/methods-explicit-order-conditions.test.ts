@@ -1,0 +1,180 @@
+// Butcher order conditions, generated from rooted trees: for every tree tau with |tau| <= p,
+// sum_i b_i Phi_i(tau) = 1/gamma(tau) (J. C. Butcher, Numerical Methods for Ordinary Differential
+// Equations, 3rd ed. (2016), sec. 31; HNW I, sec. II.2, Theorem 2.13). Tree counts 1, 1, 2, 4, 9,
+// 20, 48, 115 for orders 1..8 are OEIS A000081.
+import { describe, expect, it } from 'vitest';
+import { compileTableau, dormandPrince54Dense, type TableauData } from '../src/methods/explicit/index.js';
+import { BOGACKI_SHAMPINE_32 } from '../src/methods/explicit/tableaus/bogacki-shampine-32.js';
+import { CASH_KARP_45 } from '../src/methods/explicit/tableaus/cash-karp-45.js';
+import { DORMAND_PRINCE_54 } from '../src/methods/explicit/tableaus/dormand-prince-54.js';
+import { DORMAND_PRINCE_853 } from '../src/methods/explicit/tableaus/dormand-prince-853.js';
+import { FEHLBERG_45 } from '../src/methods/explicit/tableaus/fehlberg-45.js';
+import { EULER, EXPLICIT_MIDPOINT, RK4, RK4_38 } from '../src/methods/explicit/tableaus/fixed.js';
+import { TSITOURAS_54 } from '../src/methods/explicit/tableaus/tsitouras-54.js';
+import { VERNER_65 } from '../src/methods/explicit/tableaus/verner-65.js';
+
+/** A rooted tree as the sorted list of its subtrees. */
+interface Tree {
+  readonly children: readonly Tree[];
+  readonly order: number;
+  readonly key: string;
+}
+
+function makeTree(children: Tree[]): Tree {
+  const sorted = [...children].sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+  return {
+    children: sorted,
+    order: 1 + sorted.reduce((s, c) => s + c.order, 0),
+    key: `[${sorted.map((c) => c.key).join('')}]`,
+  };
+}
+
+/** Every tree of order m, by grafting a leaf onto each vertex of each tree of order m-1. */
+function treesUpTo(maxOrder: number): Tree[][] {
+  const byOrder: Tree[][] = [[], [makeTree([])]];
+  const graft = (t: Tree): Tree[] => {
+    const out: Tree[] = [makeTree([...t.children, makeTree([])])];
+    t.children.forEach((c, i) => {
+      for (const g of graft(c)) {
+        const rest = t.children.filter((_, j) => j !== i);
+        out.push(makeTree([...rest, g]));
+      }
+    });
+    return out;
+  };
+  for (let m = 2; m <= maxOrder; m++) {
+    const seen = new Map<string, Tree>();
+    for (const t of byOrder[m - 1]!) for (const g of graft(t)) seen.set(g.key, g);
+    byOrder.push([...seen.values()]);
+  }
+  return byOrder;
+}
+
+const TREES = treesUpTo(9);
+
+function gamma(t: Tree): number {
+  return t.children.reduce((g, c) => g * gamma(c), t.order);
+}
+
+function fullA(d: TableauData): number[][] {
+  const s = d.c.length;
+  return d.a.map((row) => Array.from({ length: s }, (_, j) => row[j] ?? 0));
+}
+
+/** Phi_i(tau): 1 for the root alone, else prod over subtrees of (A Phi(sub))_i. */
+function phi(A: number[][], t: Tree): number[] {
+  const s = A.length;
+  const out = new Array<number>(s).fill(1);
+  for (const c of t.children) {
+    const pc = phi(A, c);
+    for (let i = 0; i < s; i++) {
+      let acc = 0;
+      for (let j = 0; j < s; j++) acc += A[i]![j]! * pc[j]!;
+      out[i]! *= acc;
+    }
+  }
+  return out;
+}
+
+/** Largest residual |sum b Phi - rhs| / scale over trees of one order, scale ~ size of the terms. */
+function residual(A: number[][], w: readonly number[], order: number, rhs: (t: Tree) => number): number {
+  let worst = 0;
+  for (const t of TREES[order]!) {
+    const p = phi(A, t);
+    let sum = 0;
+    let mag = 0;
+    for (let i = 0; i < w.length; i++) {
+      sum += w[i]! * p[i]!;
+      mag += Math.abs(w[i]! * p[i]!);
+    }
+    const r = Math.abs(sum - rhs(t)) / Math.max(1, mag);
+    if (r > worst) worst = r;
+  }
+  return worst;
+}
+
+const TOL = 1e-13;
+
+const CASES: [string, TableauData][] = [
+  ['euler', EULER],
+  ['midpoint', EXPLICIT_MIDPOINT],
+  ['rk4', RK4],
+  ['rk4-38', RK4_38],
+  ['bogacki-shampine-32', BOGACKI_SHAMPINE_32],
+  ['fehlberg-45', FEHLBERG_45],
+  ['cash-karp-45', CASH_KARP_45],
+  ['dormand-prince-54', DORMAND_PRINCE_54],
+  ['tsitouras-54', TSITOURAS_54],
+  ['verner-65', VERNER_65],
+  ['dormand-prince-853', DORMAND_PRINCE_853],
+];
+
+describe('rooted trees', () => {
+  it('counts match OEIS A000081', () => {
+    expect(TREES.slice(1).map((ts) => ts.length)).toEqual([1, 1, 2, 4, 9, 20, 48, 115, 286]);
+  });
+});
+
+describe.each(CASES)('%s tableau', (_id, d) => {
+  const A = fullA(d);
+  it('row sums: c_i = sum_j a_ij', () => {
+    for (let i = 0; i < A.length; i++) {
+      const sum = A[i]!.reduce((s, v) => s + v, 0);
+      expect(Math.abs(sum - d.c[i]!)).toBeLessThan(1e-14 * Math.max(1, ...A[i]!.map(Math.abs)));
+    }
+  });
+  it(`b satisfies every condition up to order ${d.order} and not all of order ${d.order + 1}`, () => {
+    for (let q = 1; q <= d.order; q++) {
+      expect(residual(A, d.b, q, (t) => 1 / gamma(t)), `order ${q}`).toBeLessThan(TOL);
+    }
+    expect(residual(A, d.b, d.order + 1, (t) => 1 / gamma(t))).toBeGreaterThan(1e-6);
+  });
+  if (d.bHat) {
+    it(`embedded weights satisfy the conditions up to order ${d.embeddedOrder}`, () => {
+      for (let q = 1; q <= d.embeddedOrder!; q++) {
+        expect(residual(A, d.bHat!, q, (t) => 1 / gamma(t)), `order ${q}`).toBeLessThan(TOL);
+      }
+      expect(residual(A, d.bHat!, d.embeddedOrder! + 1, (t) => 1 / gamma(t))).toBeGreaterThan(1e-6);
+    });
+  }
+  if (d.bHat2) {
+    it(`second embedded weights satisfy the conditions up to order ${d.embeddedOrder2}`, () => {
+      for (let q = 1; q <= d.embeddedOrder2!; q++) {
+        expect(residual(A, d.bHat2!, q, (t) => 1 / gamma(t)), `order ${q}`).toBeLessThan(TOL);
+      }
+    });
+  }
+  it('compiles with the FSAL flag exactly where a_s = b and c_s = 1', () => {
+    const tab = compileTableau(d);
+    const expected = ['bogacki-shampine-32', 'dormand-prince-54', 'tsitouras-54'].includes(_id);
+    expect(tab.fsal).toBe(expected);
+  });
+});
+
+describe('dormand-prince-54 continuous extension', () => {
+  // The interpolant is y0 + h sum b_i(theta) k_i; feeding unit stage vectors reads off b_i(theta).
+  // Order 4 of the extension means sum b_i(theta) Phi_i(tau) = theta^|tau| / gamma(tau) for
+  // |tau| <= 4 (HNW I, sec. II.6, eq. (6.7)).
+  const s = 7;
+  const A = fullA(DORMAND_PRINCE_54);
+  const weightsAt = (theta: number): number[] => {
+    const k = new Float64Array(s * s);
+    for (let i = 0; i < s; i++) k[i * s + i] = 1;
+    const y0 = new Float64Array(s);
+    const y1 = Float64Array.from(DORMAND_PRINCE_54.b);
+    const out = new Float64Array(s);
+    dormandPrince54Dense(out, theta, 1, y0, y1, k, s);
+    return Array.from(out);
+  };
+  it.each([0.1, 0.37, 0.5, 0.81])('theta=%f: order conditions up to 4', (theta) => {
+    const w = weightsAt(theta);
+    for (let q = 1; q <= 4; q++) {
+      expect(residual(A, w, q, (t) => theta ** t.order / gamma(t)), `order ${q}`).toBeLessThan(TOL);
+    }
+  });
+  it('reproduces both ends of the step', () => {
+    const w1 = weightsAt(1);
+    w1.forEach((v, i) => expect(Math.abs(v - DORMAND_PRINCE_54.b[i]!)).toBeLessThan(1e-15));
+    weightsAt(0).forEach((v) => expect(v).toBe(0));
+  });
+});
