@@ -25,17 +25,22 @@ export interface Resolved<T> {
   items: T[];
   /** True when the user named the entries (not the default "all"). */
   named: boolean;
+  /** id -> the list entry that produced it (a path for user files), so workers can load it again. */
+  entries: Map<string, string>;
 }
 
 export async function resolveProblems(list: string | undefined): Promise<Resolved<Problem>> {
   const entries = splitList(list);
   if (list !== undefined && entries.length === 0) throw new InputError('expected a comma-separated list of problem ids or files', '--problem');
-  if (entries.length === 0) return { items: [...catalogue], named: false };
+  if (entries.length === 0) return { items: [...catalogue], named: false, entries: new Map() };
   const items: Problem[] = [];
+  const sources = new Map<string, string>();
   for (const entry of entries) {
     if (looksLikePath(entry)) {
       const { loadUserProblem } = await import('./user-files.js');
-      items.push(await loadUserProblem(entry));
+      const p = await loadUserProblem(entry);
+      items.push(p);
+      sources.set(p.id, entry);
       continue;
     }
     const p = catalogue.find((c) => c.id === entry);
@@ -43,19 +48,22 @@ export async function resolveProblems(list: string | undefined): Promise<Resolve
     items.push(p);
   }
   assertUnique(items.map((p) => p.id), '--problem');
-  return { items, named: true };
+  return { items, named: true, entries: sources };
 }
 
 export async function resolveMethods(list: string | undefined): Promise<Resolved<Method>> {
   const all = builtinMethods();
   const entries = splitList(list);
   if (list !== undefined && entries.length === 0) throw new InputError('expected a comma-separated list of method ids or files', '--method');
-  if (entries.length === 0) return { items: all, named: false };
+  if (entries.length === 0) return { items: all, named: false, entries: new Map() };
   const items: Method[] = [];
+  const sources = new Map<string, string>();
   for (const entry of entries) {
     if (looksLikePath(entry)) {
       const { loadUserMethod } = await import('./user-files.js');
-      items.push(await loadUserMethod(entry));
+      const m = await loadUserMethod(entry);
+      items.push(m);
+      sources.set(m.id, entry);
       continue;
     }
     const m = all.find((c) => c.id === entry);
@@ -63,7 +71,7 @@ export async function resolveMethods(list: string | undefined): Promise<Resolved
     items.push(m);
   }
   assertUnique(items.map((m) => m.id), '--method');
-  return { items, named: true };
+  return { items, named: true, entries: sources };
 }
 
 function assertUnique(ids: string[], flag: string): void {

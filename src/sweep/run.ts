@@ -5,8 +5,13 @@ import { RESULTS_FORMAT, RESULTS_VERSION } from '../core/results.js';
 import { sha256 } from '../core/hash.js';
 import { environmentFingerprint } from '../measure/environment.js';
 import { calibrationSeconds } from '../measure/timing.js';
+import { resolve as resolvePath } from 'node:path';
 import { executeRun, type ExecuteOptions } from './execute.js';
-import type { PlannedRun, SweepPlan } from './plan.js';
+import { DEFAULT_STEPS, DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
+import { resolveMethods, resolveProblems } from './resolve.js';
+import { executeOnPool } from './pool.js';
+import { selectShard } from './shard.js';
+import type { TimingOptions } from '../measure/timing.js';
 
 export interface SweepProgress {
   done: number;
@@ -78,4 +83,91 @@ export async function assembleResults(input: AssembleInput): Promise<ResultsFile
   };
   if (input.interrupted) results.interrupted = true;
   return results;
+}
+
+export interface SweepRequest {
+  /** Comma list of problem ids or files (undefined: the catalogue). */
+  problem?: string;
+  /** Comma list of method ids or module files (undefined: all that apply). */
+  method?: string;
+  tolerances?: readonly number[];
+  steps?: readonly number[];
+  maxSteps?: number;
+  /** null or undefined: no timing. */
+  timing?: TimingOptions | null;
+  controller?: 'standard' | 'pi';
+  /** Worker threads; 1 runs in this process (unless a run timeout needs workers). */
+  jobs?: number;
+  runTimeoutSeconds?: number;
+  shard?: { index: number; count: number };
+  onPlan?: (plan: SweepPlan, selected: readonly PlannedRun[]) => void;
+  onRun?: (p: SweepProgress) => void;
+  shouldStop?: () => boolean;
+  /** Runs already finished (resume): matched by plan index and not run again. */
+  finished?: readonly RunResult[];
+}
+
+export const DEFAULT_MAX_STEPS = 100_000;
+
+/** Plans, executes and assembles one sweep; the library form of `stepgauge run`. */
+export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
+  const problems = await resolveProblems(req.problem);
+  const methods = await resolveMethods(req.method);
+  const plan = planSweep({
+    problems: problems.items,
+    methods: methods.items,
+    tolerances: req.tolerances ?? DEFAULT_TOLERANCES,
+    steps: req.steps ?? DEFAULT_STEPS,
+    methodsNamed: methods.named,
+  });
+  let selected: readonly PlannedRun[] = req.shard ? selectShard(plan.runs, req.shard.index, req.shard.count) : plan.runs;
+  req.onPlan?.(plan, selected);
+  const done = new Map((req.finished ?? []).map((r) => [r.planIndex, r]));
+  const todo = selected.filter((r) => !done.has(r.planIndex));
+  const options: SweepOptions = {
+    maxSteps: req.maxSteps ?? DEFAULT_MAX_STEPS,
+    timing: req.timing ?? null,
+    ...(req.controller ? { controller: req.controller } : {}),
+    ...(req.runTimeoutSeconds ? { runTimeoutSeconds: req.runTimeoutSeconds } : {}),
+    ...(req.onRun ? { onRun: req.onRun } : {}),
+    ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
+  };
+  const jobs = Math.max(1, req.jobs ?? 1);
+  const problemMap = new Map(problems.items.map((p) => [p.id, p]));
+  const fresh =
+    jobs > 1 || req.runTimeoutSeconds
+      ? await executeOnPool({
+          runs: todo,
+          jobs,
+          problems: problemMap,
+          problemEntries: absoluteEntries(problems.entries),
+          methodEntries: absoluteEntries(methods.entries),
+          options,
+        })
+      : await executePlan(todo, problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
+  const runs = [...done.values(), ...fresh].filter((r) => selected.some((s) => s.planIndex === r.planIndex));
+  const results = await assembleResults({
+    plan,
+    problems: problems.items,
+    methods: methods.items,
+    runs,
+    timed: Boolean(req.timing),
+    interrupted: runs.length < selected.length,
+  });
+  if (req.shard) results.shard = { index: req.shard.index, count: req.shard.count, planSha256: plan.sha256 };
+  results.request = sweepRequestRecord(req);
+  return results;
+}
+
+function absoluteEntries(entries: ReadonlyMap<string, string>): Map<string, string> {
+  return new Map([...entries].map(([id, e]) => [id, resolvePath(e)]));
+}
+
+/** The serialisable part of a request, stored so an interrupted sweep can be resumed as asked. */
+export function sweepRequestRecord(req: SweepRequest): Record<string, unknown> {
+  const rec: Record<string, unknown> = {};
+  for (const k of ['problem', 'method', 'tolerances', 'steps', 'maxSteps', 'timing', 'controller', 'runTimeoutSeconds', 'shard'] as const) {
+    if (req[k] !== undefined) rec[k] = req[k];
+  }
+  return rec;
 }

@@ -1,25 +1,27 @@
 // `stepgauge run`: plan the sweep, integrate, write results.json/results.csv (and the report).
 import type { Command } from 'commander';
+import { availableParallelism } from 'node:os';
 import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { RegisterCommand } from './index.js';
 import { parsePositive, parsePositiveInt, parseSteps, parseTolerances } from '../options.js';
 import { checkWritableTarget, defaultOutDir, pointLatest } from '../output-folder.js';
-import { progressLine } from '../progress.js';
+import { progressLine, type ProgressLine } from '../progress.js';
 import { summaryText } from '../summary.js';
-import { DEFAULT_STEPS, DEFAULT_TOLERANCES, planSweep } from '../../sweep/plan.js';
-import { resolveMethods, resolveProblems } from '../../sweep/resolve.js';
-import { assembleResults, executePlan } from '../../sweep/run.js';
+import { DEFAULT_STEPS } from '../../sweep/plan.js';
+import { runSweep, type SweepRequest } from '../../sweep/run.js';
+import { parseShardSpec } from '../../sweep/shard.js';
 import { DEFAULT_TIMING } from '../../measure/timing.js';
 import { writeFolderAtomically } from '../../report/atomic.js';
 import { resultsCsv } from '../../report/csv.js';
 import { resultsJson } from '../../report/json.js';
+import type { ResultsFile } from '../../core/results.js';
 import { InputError } from '../../core/errors.js';
 
 interface RunFlags {
   problem?: string;
   method?: string;
-  tolerances?: string;
+  tolerances: string;
   steps?: string;
   out?: string;
   timing: boolean;
@@ -29,6 +31,42 @@ interface RunFlags {
   controller: string;
   report: boolean;
   quiet?: boolean;
+  jobs?: string;
+  runTimeout?: string;
+  shard?: string;
+}
+
+/** Turns validated flags into a sweep request; every bad value names its flag. */
+export function requestFromFlags(flags: RunFlags): SweepRequest {
+  if (flags.controller !== 'standard' && flags.controller !== 'pi') {
+    throw new InputError(`'${flags.controller}' is not a controller; expected standard or pi`, '--controller');
+  }
+  const req: SweepRequest = {
+    tolerances: parseTolerances(flags.tolerances),
+    steps: flags.steps === undefined ? [...DEFAULT_STEPS] : parseSteps(flags.steps),
+    maxSteps: parsePositiveInt(flags.maxSteps, '--max-steps'),
+    timing: flags.timing ? { ...DEFAULT_TIMING, budgetSeconds: parsePositive(flags.timeBudget, '--time-budget') } : null,
+    controller: flags.controller,
+    jobs: flags.jobs === undefined ? availableParallelism() : parsePositiveInt(flags.jobs, '--jobs'),
+  };
+  if (flags.problem !== undefined) req.problem = flags.problem;
+  if (flags.method !== undefined) req.method = flags.method;
+  if (flags.runTimeout !== undefined) req.runTimeoutSeconds = parsePositive(flags.runTimeout, '--run-timeout');
+  if (flags.shard !== undefined) req.shard = parseShardSpec(flags.shard);
+  return req;
+}
+
+export async function writeSweepFolder(outDir: string, results: ResultsFile, withReport: boolean): Promise<void> {
+  await writeFolderAtomically(outDir, async (tmp) => {
+    await writeFile(join(tmp, 'results.json'), resultsJson(results));
+    await writeFile(join(tmp, 'results.csv'), resultsCsv(results));
+    if (withReport) {
+      // TEMPORARY until the report module lands: resolved at run time.
+      const reportModule: string = '../../report/index.js';
+      const { writeReport } = (await import(reportModule)) as { writeReport: (r: unknown, d: string) => Promise<unknown> };
+      await writeReport(results, tmp);
+    }
+  });
 }
 
 export const registerRun: RegisterCommand = (program: Command, setExit) => {
@@ -44,48 +82,33 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('--time-budget <seconds>', 'timing budget per run; long solves get fewer samples', String(DEFAULT_TIMING.budgetSeconds))
     .option('--max-steps <n>', 'step limit per run (accepted + rejected); past it the run ends with status step-limit', '100000')
     .option('--controller <kind>', 'step-size controller for explicit pairs: standard or pi', 'standard')
+    .option('-j, --jobs <n>', 'worker threads (default: available cores)')
+    .option('--run-timeout <seconds>', 'end a run that takes longer (its worker is terminated); status timeout')
+    .option('--shard <K/N>', 'run only the K-th of N balanced slices of the plan (merge them with `stepgauge merge`)')
     .option('--no-report', 'write only results.json and results.csv, no plots or report')
     .option('--json', 'print results.json to standard output instead of the summary')
     .option('-q, --quiet', 'no progress line')
     .action(async (flags: RunFlags) => {
-      const tolerances = flags.tolerances === undefined ? [...DEFAULT_TOLERANCES] : parseTolerances(flags.tolerances);
-      const steps = flags.steps === undefined ? [...DEFAULT_STEPS] : parseSteps(flags.steps);
-      const maxSteps = parsePositiveInt(flags.maxSteps, '--max-steps');
-      const budget = parsePositive(flags.timeBudget, '--time-budget');
-      if (flags.controller !== 'standard' && flags.controller !== 'pi') {
-        throw new InputError(`'${flags.controller}' is not a controller; expected standard or pi`, '--controller');
-      }
-      const problems = await resolveProblems(flags.problem);
-      const methods = await resolveMethods(flags.method);
+      const req = requestFromFlags(flags);
       const outDir = flags.out ?? defaultOutDir();
       checkWritableTarget(outDir);
-
-      const plan = planSweep({ problems: problems.items, methods: methods.items, tolerances, steps, methodsNamed: methods.named });
       const log = (s: string) => (flags.json ? process.stderr : process.stdout).write(`${s}\n`);
-      if (methods.named || problems.named) for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
-      if (plan.runs.length === 0) throw new InputError('the selection pairs no method with any problem (see the skipped lines above)', '--method');
-
-      const progress = progressLine(plan.runs.length, Boolean(flags.quiet || flags.json));
-      const timing = flags.timing ? { ...DEFAULT_TIMING, budgetSeconds: budget } : null;
-      const runs = await executePlan(
-        plan.runs,
-        new Map(problems.items.map((p) => [p.id, p])),
-        new Map(methods.items.map((m) => [m.id, m])),
-        { maxSteps, timing, controller: flags.controller as 'standard' | 'pi', onRun: (p) => progress.update(p) },
-      );
-      progress.stop();
-      const results = await assembleResults({ plan, problems: problems.items, methods: methods.items, runs, timed: timing !== null });
-
-      await writeFolderAtomically(outDir, async (tmp) => {
-        await writeFile(join(tmp, 'results.json'), resultsJson(results));
-        await writeFile(join(tmp, 'results.csv'), resultsCsv(results));
-        if (flags.report) {
-          // TEMPORARY until the report module lands: resolved at run time.
-          const reportModule: string = '../../report/index.js';
-          const { writeReport } = (await import(reportModule)) as { writeReport: (r: unknown, d: string) => Promise<unknown> };
-          await writeReport(results, tmp);
+      let progress: ProgressLine = { update() {}, stop() {} };
+      req.onPlan = (plan, selected) => {
+        if (req.method !== undefined || req.problem !== undefined) {
+          for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
         }
-      });
+        if (selected.length === 0) throw new InputError('the selection pairs no method with any problem', req.method ? '--method' : '--problem');
+        progress = progressLine(selected.length, Boolean(flags.quiet || flags.json));
+      };
+      req.onRun = (p) => progress.update(p);
+      let results: ResultsFile;
+      try {
+        results = await runSweep(req);
+      } finally {
+        progress.stop();
+      }
+      await writeSweepFolder(outDir, results, flags.report);
       if (!flags.out) pointLatest(outDir);
 
       if (flags.json) process.stdout.write(resultsJson(results));

@@ -1,0 +1,49 @@
+// Worker-thread side of a parallel sweep: resolves the problem and method by the same entries the
+// user gave (built-in ids or file paths), caches them for the worker's life, executes one run.
+import type { Method, Problem } from '../core/types.js';
+import type { RunResult } from '../core/results.js';
+import { messageOf } from '../core/errors.js';
+import { executeRun, type ExecuteOptions } from './execute.js';
+import { failedRun } from '../measure/run-one.js';
+import type { PlannedRun } from './plan.js';
+import { resolveMethods, resolveProblems } from './resolve.js';
+
+export interface WorkerTask {
+  planned: PlannedRun;
+  /** The --problem entry (id or path) that yields this run's problem. */
+  problemEntry: string;
+  methodEntry: string;
+  options: ExecuteOptions;
+}
+
+const problems = new Map<string, Problem>();
+const methods = new Map<string, Method>();
+
+async function problemFor(entry: string): Promise<Problem> {
+  let p = problems.get(entry);
+  if (!p) {
+    p = (await resolveProblems(entry)).items[0]!;
+    problems.set(entry, p);
+  }
+  return p;
+}
+
+async function methodFor(entry: string): Promise<Method> {
+  let m = methods.get(entry);
+  if (!m) {
+    m = (await resolveMethods(entry)).items[0]!;
+    methods.set(entry, m);
+  }
+  return m;
+}
+
+export default async function runTask(task: WorkerTask): Promise<RunResult> {
+  const problem = await problemFor(task.problemEntry);
+  let method: Method;
+  try {
+    method = await methodFor(task.methodEntry);
+  } catch (e) {
+    return { ...failedRun(problem, { id: task.planned.method }, task.planned.setting, messageOf(e)), planIndex: task.planned.planIndex };
+  }
+  return executeRun(problem, method, task.planned, task.options);
+}
