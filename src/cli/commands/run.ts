@@ -9,7 +9,7 @@ import { checkWritableTarget, defaultOutDir, pointLatest } from '../output-folde
 import { progressLine, type ProgressLine } from '../progress.js';
 import { summaryText } from '../summary.js';
 import { DEFAULT_STEPS } from '../../sweep/plan.js';
-import { runSweep, type SweepRequest } from '../../sweep/run.js';
+import { runSweep, sweepRequestRecord, type SweepRequest } from '../../sweep/run.js';
 import { parseShardSpec } from '../../sweep/shard.js';
 import { DEFAULT_TIMING } from '../../measure/timing.js';
 import { writeFolderAtomically } from '../../report/atomic.js';
@@ -17,6 +17,21 @@ import { resultsCsv } from '../../report/csv.js';
 import { resultsJson } from '../../report/json.js';
 import type { ResultsFile } from '../../core/results.js';
 import { InputError } from '../../core/errors.js';
+import { Journal, readJournal } from '../../sweep/journal.js';
+import { readResultsFile } from '../../report/read-results.js';
+import { existsSync } from 'node:fs';
+
+/** The request and finished runs of an interrupted sweep in `dir` (journal first, then results.json). */
+function resumeState(dir: string): { request: SweepRequest; finished: ResultsFile['runs'] } {
+  const journal = readJournal(dir);
+  if (journal) return { request: journal.header.request as SweepRequest, finished: journal.runs };
+  const file = join(dir, 'results.json');
+  if (!existsSync(file)) throw new InputError(`no interrupted sweep here (neither a journal nor results.json)`, `--resume ${dir}`);
+  const old = readResultsFile(file);
+  if (!old.interrupted) throw new InputError('that sweep finished; nothing to resume', `--resume ${dir}`);
+  if (!old.request) throw new InputError('results.json has no request record to resume from', file);
+  return { request: old.request as SweepRequest, finished: old.runs };
+}
 
 interface RunFlags {
   problem?: string;
@@ -34,6 +49,7 @@ interface RunFlags {
   jobs?: string;
   runTimeout?: string;
   shard?: string;
+  resume?: string;
 }
 
 /** Turns validated flags into a sweep request; every bad value names its flag. */
@@ -88,9 +104,15 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('--no-report', 'write only results.json and results.csv, no plots or report')
     .option('--json', 'print results.json to standard output instead of the summary')
     .option('-q, --quiet', 'no progress line')
+    .option('--resume <dir>', 'finish an interrupted sweep written to <dir>, without repeating its finished runs')
     .action(async (flags: RunFlags) => {
-      const req = requestFromFlags(flags);
-      const outDir = flags.out ?? defaultOutDir();
+      let req = requestFromFlags(flags);
+      let outDir = flags.out ?? defaultOutDir();
+      if (flags.resume !== undefined) {
+        const state = resumeState(flags.resume);
+        req = { ...state.request, finished: state.finished, jobs: req.jobs ?? 1 };
+        outDir = flags.resume;
+      }
       checkWritableTarget(outDir);
       const log = (s: string) => (flags.json ? process.stderr : process.stdout).write(`${s}\n`);
       let progress: ProgressLine = { update() {}, stop() {} };
@@ -101,15 +123,42 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
         if (selected.length === 0) throw new InputError('the selection pairs no method with any problem', req.method ? '--method' : '--problem');
         progress = progressLine(selected.length, Boolean(flags.quiet || flags.json));
       };
-      req.onRun = (p) => progress.update(p);
+      let journal: Journal | undefined;
+      const onPlan = req.onPlan;
+      req.onPlan = (plan, selected) => {
+        onPlan(plan, selected);
+        journal = new Journal(outDir, { planSha256: plan.sha256, request: sweepRequestRecord(req) }, req.finished ?? []);
+      };
+      req.onRun = (p) => {
+        journal?.append(p.last);
+        progress.update(p);
+      };
+      // First Ctrl-C (or SIGTERM): start no new run, write what finished; a second one leaves at once.
+      let stopping = false;
+      const onSignal = () => {
+        if (stopping) process.exit(130);
+        stopping = true;
+        process.stderr.write('\nstepgauge: stopping after the runs in flight (press Ctrl-C again to quit now)\n');
+      };
+      process.on('SIGINT', onSignal);
+      process.on('SIGTERM', onSignal);
+      req.shouldStop = () => stopping;
       let results: ResultsFile;
       try {
         results = await runSweep(req);
       } finally {
         progress.stop();
+        process.off('SIGINT', onSignal);
+        process.off('SIGTERM', onSignal);
       }
       await writeSweepFolder(outDir, results, flags.report);
-      if (!flags.out) pointLatest(outDir);
+      journal?.remove();
+      if (!flags.out && flags.resume === undefined) pointLatest(outDir);
+      if (results.interrupted) {
+        process.stderr.write(`stepgauge: interrupted; ${results.runs.length} finished runs written to ${outDir}; finish with: stepgauge run --resume ${outDir}\n`);
+        setExit(130);
+        return;
+      }
 
       if (flags.json) process.stdout.write(resultsJson(results));
       else {

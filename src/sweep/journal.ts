@@ -1,0 +1,63 @@
+// The sweep journal: one JSON line per finished run, appended as each run ends, so a crash, a
+// Ctrl-C or a killed CI job loses at most the runs in flight. `run --resume` reads it back.
+import { appendFileSync, existsSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
+import type { RunResult } from '../core/results.js';
+import { InputError } from '../core/errors.js';
+
+const JOURNAL_KIND = 'stepgauge-journal';
+const JOURNAL_VERSION = 1;
+
+export interface JournalHeader {
+  kind: typeof JOURNAL_KIND;
+  version: typeof JOURNAL_VERSION;
+  planSha256: string;
+  request: Record<string, unknown>;
+}
+
+/** The journal of output folder `outDir` lives beside it, since the folder appears only at the end. */
+export function journalPath(outDir: string): string {
+  const abs = resolve(outDir);
+  return join(dirname(abs), `.${basename(abs)}.journal.jsonl`);
+}
+
+export class Journal {
+  readonly path: string;
+  constructor(outDir: string, header: Omit<JournalHeader, 'kind' | 'version'>, keep: readonly RunResult[] = []) {
+    this.path = journalPath(outDir);
+    const head: JournalHeader = { kind: JOURNAL_KIND, version: JOURNAL_VERSION, ...header };
+    writeFileSync(this.path, [head, ...keep].map((x) => JSON.stringify(x)).join('\n') + '\n');
+  }
+  append(run: RunResult): void {
+    appendFileSync(this.path, `${JSON.stringify(run)}\n`);
+  }
+  remove(): void {
+    rmSync(this.path, { force: true });
+  }
+}
+
+export interface JournalContents {
+  header: JournalHeader;
+  runs: RunResult[];
+}
+
+/** Reads a journal; a torn last line (the process died mid-write) is dropped, anything else malformed is an error. */
+export function readJournal(outDir: string): JournalContents | null {
+  const path = journalPath(outDir);
+  if (!existsSync(path)) return null;
+  const lines = readFileSync(path, 'utf8').split('\n');
+  if (lines.at(-1) === '') lines.pop();
+  const parsed: unknown[] = [];
+  lines.forEach((line, i) => {
+    try {
+      parsed.push(JSON.parse(line));
+    } catch {
+      if (i !== lines.length - 1) throw new InputError(`line ${i + 1} is not valid JSON`, path);
+    }
+  });
+  const header = parsed[0] as JournalHeader | undefined;
+  if (!header || header.kind !== JOURNAL_KIND || header.version !== JOURNAL_VERSION) {
+    throw new InputError(`not a ${JOURNAL_KIND} version ${JOURNAL_VERSION} file`, path);
+  }
+  return { header, runs: parsed.slice(1) as RunResult[] };
+}
