@@ -2,8 +2,12 @@
 import type { Command } from 'commander';
 import { registerRun } from './run.js';
 import { registerList } from './list.js';
+import { registerCheck } from './check.js';
+import { registerBaseline } from './baseline.js';
+import { registerMerge } from './merge.js';
+import { registerReport } from './report.js';
 
 /** Registers a subcommand; `setExit` raises the process exit code (max wins). */
 export type RegisterCommand = (program: Command, setExit: (code: number) => void) => void;
 
-export const commands: RegisterCommand[] = [registerRun, registerList];
+export const commands: RegisterCommand[] = [registerRun, registerList, registerCheck, registerBaseline, registerMerge, registerReport];

@@ -1,0 +1,21 @@
+// `stepgauge report`: redraw plots, report.html and report.md from a results file, without
+// integrating again.
+import { dirname } from 'node:path';
+import { readResultsFile } from '../../report/read-results.js';
+import { installReport } from '../../report/install.js';
+import type { RegisterCommand } from './index.js';
+
+export const registerReport: RegisterCommand = (program) => {
+  program
+    .command('report')
+    .description('write plots/*.png, report.html and report.md from a results.json')
+    .argument('<results>', 'results.json written by `stepgauge run` (or `merge`)')
+    .option('-o, --out <dir>', 'folder to write the report into (default: the folder of the results file)')
+    .option('--title <text>', 'report title')
+    .action(async (path: string, flags: { out?: string; title?: string }) => {
+      // The validating reader throws InputError naming the file and the field.
+      const results = readResultsFile(path);
+      const written = await installReport(results, flags.out ?? dirname(path), flags.title ? { title: flags.title } : {});
+      for (const f of written) process.stdout.write(`wrote ${f}\n`);
+    });
+};

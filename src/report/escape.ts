@@ -1,0 +1,19 @@
+// Every string that comes from a results file (ids, titles, sources, messages, method names) is
+// user data: it goes through here before it reaches HTML or Markdown.
+
+const HTML: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
+
+/** Safe in element text and in double- or single-quoted attribute values. */
+export function escapeHtml(s: string): string {
+  return String(s).replace(/[&<>"']/g, (c) => HTML[c]!);
+}
+
+/**
+ * Safe as Markdown inline text and inside a table cell: HTML-escaped (renderers pass raw HTML
+ * through), Markdown punctuation backslash-escaped, line breaks folded so a cell stays one row.
+ */
+export function escapeMarkdown(s: string): string {
+  return escapeHtml(String(s))
+    .replace(/[\\`*_[\]{}()#+!|~]/g, (c) => `\\${c}`)
+    .replace(/\r?\n|\r/g, ' ');
+}

@@ -1,0 +1,48 @@
+// Putting a finished report in place. The report shares its folder with results.json (by
+// default the folder of the results file), so the folder itself cannot be swapped; instead the
+// report is written to a temporary folder inside the target (same file system, so renames are
+// atomic) and its top-level entries are renamed over the old ones one by one.
+import { randomBytes } from 'node:crypto';
+import { lstat, mkdir, rename, rm } from 'node:fs/promises';
+import { join, resolve } from 'node:path';
+import type { ResultsFile } from '../core/results.js';
+import { writeReport } from './index.js';
+
+async function exists(p: string): Promise<boolean> {
+  try {
+    await lstat(p);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** Writes the report for `results` into `target` (created if missing); returns absolute paths. */
+export async function installReport(results: ResultsFile, target: string, options: { title?: string } = {}): Promise<string[]> {
+  const dir = resolve(target);
+  await mkdir(dir, { recursive: true });
+  const tag = `${process.pid}-${randomBytes(4).toString('hex')}`;
+  const tmp = join(dir, `.report-tmp-${tag}`);
+  await mkdir(tmp);
+  try {
+    const { files } = await writeReport(results, tmp, options);
+    const entries = [...new Set(files.map((f) => f.split('/')[0]!))];
+    for (const name of entries) {
+      const dest = join(dir, name);
+      // A folder cannot be renamed over a non-empty one: move the old entry aside first, and
+      // drop it only after the new one is in place (stale plots of an earlier report go with it).
+      const old = (await exists(dest)) ? join(dir, `.report-old-${tag}-${name}`) : null;
+      if (old) await rename(dest, old);
+      try {
+        await rename(join(tmp, name), dest);
+      } catch (e) {
+        if (old) await rename(old, dest);
+        throw e;
+      }
+      if (old) await rm(old, { recursive: true, force: true });
+    }
+    return files.map((f) => join(dir, f));
+  } finally {
+    await rm(tmp, { recursive: true, force: true });
+  }
+}
