@@ -1,0 +1,363 @@
+// Behaviour of the explicit methods against analytic solutions and exact work-count identities.
+import { describe, expect, it } from 'vitest';
+import { InputError } from '../src/core/errors.js';
+import type { Method, Problem } from '../src/core/types.js';
+import {
+  bogackiShampine32,
+  cashKarp45,
+  dormandPrince54,
+  dormandPrince853,
+  euler,
+  explicitMethods,
+  fehlberg45,
+  midpoint,
+  rk4,
+  rk438,
+  stormerVerlet,
+  tsitouras54,
+  verner65,
+  yoshida4,
+} from '../src/methods/explicit/index.js';
+import { decay, exactAt, makeProblem, maxAbsDiff, oscillator, oscillatorEnergy } from './methods-explicit-helpers.js';
+
+const OPTS = { maxSteps: 1_000_000 };
+const adaptive = explicitMethods.filter((m) => m.adaptive);
+const fixedStep = explicitMethods.filter((m) => !m.adaptive);
+
+function finalError(m: Method, p: Problem, setting: Parameters<Method['solve']>[1]): number {
+  const r = m.solve(p, setting, OPTS);
+  expect(r.status).toBe('ok');
+  expect(r.tFinal).toBe(p.tEnd);
+  return maxAbsDiff(r.yFinal, exactAt(p, p.tEnd));
+}
+
+describe('method metadata', () => {
+  it('lists the thirteen explicit methods with their published orders', () => {
+    // Orders from the papers cited in each tableau file.
+    const orders = Object.fromEntries(explicitMethods.map((m) => [m.id, [m.order, m.embeddedOrder ?? null]]));
+    expect(orders).toEqual({
+      euler: [1, null],
+      midpoint: [2, null],
+      rk4: [4, null],
+      'rk4-38': [4, null],
+      'bogacki-shampine-32': [3, 2],
+      'fehlberg-45': [4, 5],
+      'cash-karp-45': [5, 4],
+      'dormand-prince-54': [5, 4],
+      'tsitouras-54': [5, 4],
+      'verner-65': [6, 5],
+      'dormand-prince-853': [8, 5],
+      'stormer-verlet': [2, null],
+      'yoshida-4': [4, null],
+    });
+    for (const m of explicitMethods) {
+      expect(m.stiff).toBe(false);
+      expect(m.source.length).toBeGreaterThan(20);
+      expect(m.needsSeparable ?? false).toBe(m.family === 'symplectic');
+    }
+  });
+});
+
+describe('harmonic oscillator q\' = p, p\' = -(2 pi)^2 q over [0, 20] (exact: cos, sin)', () => {
+  const p = oscillator(20);
+  it.each(adaptive.map((m) => [m.id, m] as const))('%s: error < 1e-5 at rtol=atol=1e-8, shrinking with tol', (_id, m) => {
+    const e8 = finalError(m, p, { rtol: 1e-8, atol: 1e-8 });
+    const e5 = finalError(m, p, { rtol: 1e-5, atol: 1e-5 });
+    const e10 = finalError(m, p, { rtol: 1e-10, atol: 1e-10 });
+    // Fehlberg propagates the 4th-order solution whose local error the estimate measures, so its
+    // global error is ~ (number of steps) x tol: about 7e-5 over 1400 steps here. The pairs with
+    // local extrapolation stay well below 1e-5 (threshold: common practice, no source).
+    expect(e8).toBeLessThan(m === fehlberg45 ? 1e-4 : 1e-5);
+    expect(e10).toBeLessThan(e8);
+    expect(e8).toBeLessThan(e5);
+  });
+  it('the PI controller also meets the tolerance, with a different step sequence', () => {
+    const rPi = dormandPrince54.solve(p, { rtol: 1e-8, atol: 1e-8 }, { ...OPTS, controller: 'pi' });
+    const rStd = dormandPrince54.solve(p, { rtol: 1e-8, atol: 1e-8 }, OPTS);
+    expect(rPi.status).toBe('ok');
+    expect(maxAbsDiff(rPi.yFinal, exactAt(p, 20))).toBeLessThan(1e-5);
+    expect(rPi.counts.accepted).not.toBe(rStd.counts.accepted);
+  });
+});
+
+describe('observed convergence order of fixed-step methods (oscillator over one period)', () => {
+  // Step counts picked so that halving h changes the error by ~2^p (asymptotic range; checked by
+  // hand, common practice, no source). Expected slopes are the published orders.
+  const p = oscillator(1);
+  const cases: [Method, number, number][] = [
+    [euler, 1, 20000],
+    [midpoint, 2, 400],
+    [rk4, 4, 100],
+    [rk438, 4, 100],
+    [stormerVerlet, 2, 400],
+    [yoshida4, 4, 100],
+  ];
+  it.each(cases.map(([m, q, n]) => [m.id, m, q, n] as const))('%s: slope within 0.2 of its order', (_id, m, q, n) => {
+    const e1 = finalError(m, p, { steps: n });
+    const e2 = finalError(m, p, { steps: 2 * n });
+    const e4 = finalError(m, p, { steps: 4 * n });
+    const slope1 = Math.log2(e1 / e2);
+    const slope2 = Math.log2(e2 / e4);
+    expect(Math.abs(slope1 - q)).toBeLessThan(0.2);
+    expect(Math.abs(slope2 - q)).toBeLessThan(0.2);
+  });
+  it('returns h = (tEnd - t0)/steps and lands exactly on tEnd', () => {
+    const r = rk4.solve(oscillator(1), { steps: 3 }, OPTS);
+    expect(r.h).toBe(1 / 3);
+    expect(r.tFinal).toBe(1);
+  });
+});
+
+describe('energy behaviour over 20 periods, h = 1/50', () => {
+  // Symplectic methods keep energy errors bounded (no secular drift): HLW 2003 Acta Numerica,
+  // sec. 5 (backward error analysis). RK4 is not symplectic; its energy error grows linearly.
+  const p = oscillator(20);
+  const e0 = oscillatorEnergy(p.y0);
+  const drift = (m: Method): [number, number] => {
+    let firstHalf = 0;
+    let whole = 0;
+    m.solve(p, { steps: 1000 }, {
+      ...OPTS,
+      observer: (t, y) => {
+        const d = Math.abs(oscillatorEnergy(y) - e0) / e0;
+        whole = Math.max(whole, d);
+        if (t <= 10) firstHalf = Math.max(firstHalf, d);
+      },
+    });
+    return [firstHalf, whole];
+  };
+  it.each([stormerVerlet, yoshida4].map((m) => [m.id, m] as const))('%s: max drift over the first half ~ over all', (_id, m) => {
+    const [half, whole] = drift(m);
+    expect(whole).toBeLessThan(1.05 * half);
+    expect(whole).toBeLessThan(m === stormerVerlet ? 0.02 : 1e-4);
+  });
+  it('rk4 at the same step: drift keeps growing (whole ~ 2 x first half)', () => {
+    const [half, whole] = drift(rk4);
+    expect(whole / half).toBeGreaterThan(1.9);
+    expect(whole / half).toBeLessThan(2.1);
+  });
+});
+
+describe("y' = -y", () => {
+  const p = decay(1);
+  // A p-stage explicit method of order p (p <= 4) has stability function R(z) = sum_{k<=p} z^k/k!
+  // (HNW I, sec. IV.2), so N steps of size h give exactly R(-h)^N.
+  it.each([
+    ['euler', euler, 1],
+    ['midpoint', midpoint, 2],
+    ['rk4', rk4, 4],
+    ['rk4-38', rk438, 4],
+  ] as const)('%s reproduces R(-h)^N', (_id, m, q) => {
+    const n = 10;
+    const h = 1 / n;
+    let r = 0;
+    let term = 1;
+    for (let k = 0; k <= q; k++) {
+      r += term;
+      term *= -h / (k + 1);
+    }
+    const res = m.solve(p, { steps: n }, OPTS);
+    expect(Math.abs(res.yFinal[0]! - r ** n)).toBeLessThan(1e-15);
+  });
+  it('dormand-prince-54: every accepted step multiplies y by R(-h), R(z) = sum_{k<=5} z^k/k! + z^6/600', () => {
+    // z^6/600 is b^T A^5 1 of DOPRI5 (HNW I, sec. IV.2; from memory).
+    const ts: number[] = [];
+    const ys: number[] = [];
+    const r = dormandPrince54.solve(p, { rtol: 1e-6, atol: 1e-6 }, {
+      ...OPTS,
+      observer: (t, y) => {
+        ts.push(t);
+        ys.push(y[0]!);
+      },
+    });
+    expect(r.status).toBe('ok');
+    expect(ts.length).toBeGreaterThan(3);
+    for (let i = 1; i < ts.length; i++) {
+      const z = -(ts[i]! - ts[i - 1]!);
+      const R = 1 + z + z ** 2 / 2 + z ** 3 / 6 + z ** 4 / 24 + z ** 5 / 120 + z ** 6 / 600;
+      expect(Math.abs(ys[i]! / ys[i - 1]! - R)).toBeLessThan(1e-14);
+    }
+    expect(Math.abs(r.yFinal[0]! - Math.exp(-1))).toBeLessThan(1e-6);
+  });
+});
+
+describe('landing, observer and counts', () => {
+  const p = oscillator(4);
+  const checkTimes = [0.3, 1.7, Math.PI, 3.999];
+  it.each(adaptive.map((m) => [m.id, m] as const))('%s lands exactly on each check time and on tEnd', (_id, m) => {
+    const ts: number[] = [];
+    const r = m.solve(p, { rtol: 1e-7, atol: 1e-7 }, { ...OPTS, checkTimes, observer: (t) => ts.push(t) });
+    expect(r.status).toBe('ok');
+    for (const tc of checkTimes) expect(ts).toContain(tc);
+    expect(ts[ts.length - 1]).toBe(4);
+    expect(r.tFinal).toBe(4);
+    for (let i = 1; i < ts.length; i++) {
+      expect(ts[i]!).toBeGreaterThan(ts[i - 1]!);
+      for (const tc of checkTimes) expect(ts[i - 1]! < tc && ts[i]! > tc).toBe(false);
+    }
+    // Landing must not shrink the step for good: a few extra steps per check time at most.
+    const plain = m.solve(p, { rtol: 1e-7, atol: 1e-7 }, OPTS);
+    expect(r.counts.accepted).toBeLessThanOrEqual(plain.counts.accepted + 2 * checkTimes.length);
+  });
+
+  it.each(explicitMethods.map((m) => [m.id, m] as const))('%s: observer at t0 and after each accepted step', (_id, m) => {
+    const ts: number[] = [];
+    let first: number[] = [];
+    const setting = m.adaptive ? { rtol: 1e-6, atol: 1e-6 } : { steps: 37 };
+    const r = m.solve(p, setting, {
+      ...OPTS,
+      observer: (t, y) => {
+        if (ts.length === 0) first = Array.from(y);
+        ts.push(t);
+      },
+    });
+    expect(ts[0]).toBe(0);
+    expect(first).toEqual([1, 0]);
+    expect(ts.length).toBe(r.counts.accepted + 1);
+  });
+
+  it('nfev identities: FSAL, non-FSAL, fixed-step and symplectic', () => {
+    const s = { rtol: 1e-7, atol: 1e-7 };
+    // FSAL with s stages: f(t0,y0) + initial-step probe + (s-1) per attempted step.
+    for (const [m, stages] of [
+      [dormandPrince54, 7],
+      [tsitouras54, 7],
+      [bogackiShampine32, 4],
+    ] as const) {
+      const c = m.solve(p, s, OPTS).counts;
+      expect(c.rejected + c.accepted).toBeGreaterThan(10);
+      expect(c.nfev).toBe(2 + (stages - 1) * (c.accepted + c.rejected));
+      expect([c.njev, c.nlu]).toEqual([0, 0]);
+    }
+    // Non-FSAL: also a fresh first stage after every accepted step but the last.
+    for (const [m, stages] of [
+      [cashKarp45, 6],
+      [fehlberg45, 6],
+      [verner65, 8],
+      [dormandPrince853, 12],
+    ] as const) {
+      const c = m.solve(p, s, OPTS).counts;
+      expect(c.nfev).toBe(2 + (stages - 1) * (c.accepted + c.rejected) + c.accepted - 1);
+    }
+    // A given initial step skips the probe.
+    const c0 = dormandPrince54.solve(p, s, { ...OPTS, initialStep: 1e-3 }).counts;
+    expect(c0.nfev).toBe(1 + 6 * (c0.accepted + c0.rejected));
+    expect(rk4.solve(p, { steps: 50 }, OPTS).counts).toEqual({ nfev: 200, njev: 0, nlu: 0, accepted: 50, rejected: 0 });
+    expect(euler.solve(p, { steps: 50 }, OPTS).counts.nfev).toBe(50);
+    expect(stormerVerlet.solve(p, { steps: 50 }, OPTS).counts.nfev).toBe(1 + 2 * 50);
+    expect(yoshida4.solve(p, { steps: 50 }, OPTS).counts.nfev).toBe(1 + 6 * 50);
+  });
+
+  it('a repeated solve gives identical counts and state', () => {
+    for (const m of [dormandPrince54, dormandPrince853, bogackiShampine32]) {
+      const a = m.solve(p, { rtol: 1e-9, atol: 1e-9 }, { ...OPTS, checkTimes });
+      const b = m.solve(p, { rtol: 1e-9, atol: 1e-9 }, { ...OPTS, checkTimes });
+      expect(b.counts).toEqual(a.counts);
+      expect(Array.from(b.yFinal)).toEqual(Array.from(a.yFinal));
+    }
+  });
+});
+
+describe('failure statuses', () => {
+  it('step-limit after exactly maxSteps attempts', () => {
+    const r = dormandPrince54.solve(oscillator(20), { rtol: 1e-10, atol: 1e-10 }, { maxSteps: 5 });
+    expect(r.status).toBe('step-limit');
+    expect(r.counts.accepted + r.counts.rejected).toBe(5);
+    expect(r.tFinal).toBeLessThan(20);
+    const f = rk4.solve(oscillator(20), { steps: 100 }, { maxSteps: 7 });
+    expect(f.status).toBe('step-limit');
+    expect(f.counts.accepted).toBe(7);
+  });
+  it('timeout when the deadline has passed', () => {
+    const r = dormandPrince54.solve(oscillator(20), { rtol: 1e-8, atol: 1e-8 }, { ...OPTS, deadline: performance.now() - 1 });
+    expect(r.status).toBe('timeout');
+    expect(r.counts.accepted).toBe(0);
+  });
+  const nanAfterHalf = makeProblem({
+    id: 'nan-after-half',
+    y0: [1],
+    tEnd: 1,
+    f: (t, y, dy) => {
+      dy[0] = t > 0.5 ? NaN : -y[0]!;
+    },
+  });
+  it.each(explicitMethods.filter((m) => m.family !== 'symplectic').map((m) => [m.id, m] as const))(
+    '%s: a RHS that turns NaN gives status diverged, stopping near t = 0.5',
+    (_id, m) => {
+      const r = m.solve(nanAfterHalf, m.adaptive ? { rtol: 1e-6, atol: 1e-6 } : { steps: 10 }, OPTS);
+      expect(r.status).toBe('diverged');
+      expect(r.tFinal).toBeGreaterThan(m.adaptive ? 0.49 : 0.5);
+      expect(r.tFinal).toBeLessThanOrEqual(m.adaptive ? 0.5 : 0.71);
+      if (m.adaptive) expect(Number.isFinite(r.yFinal[0]!)).toBe(true);
+    },
+  );
+  it("y' = y^2, y(0) = 1 blows up at t = 1: the adaptive solve stops just before it", () => {
+    // Exact solution 1/(1 - t).
+    const blowUp = makeProblem({
+      id: 'blow-up',
+      y0: [1],
+      tEnd: 2,
+      f: (_t, y, dy) => {
+        dy[0] = y[0]! * y[0]!;
+      },
+    });
+    const r = dormandPrince54.solve(blowUp, { rtol: 1e-8, atol: 1e-8 }, OPTS);
+    expect(['step-underflow', 'diverged']).toContain(r.status);
+    expect(Math.abs(r.tFinal - 1)).toBeLessThan(1e-6);
+  });
+});
+
+describe('bad input', () => {
+  const p = oscillator(1);
+  it('wrong setting kind names the field', () => {
+    expect(() => dormandPrince54.solve(p, { steps: 10 }, OPTS)).toThrow(InputError);
+    expect(() => dormandPrince54.solve(p, { steps: 10 }, OPTS)).toThrow(/rtol/);
+    expect(() => rk4.solve(p, { rtol: 1e-6, atol: 1e-6 }, OPTS)).toThrow(/steps/);
+    expect(() => rk4.solve(p, { steps: 0 }, OPTS)).toThrow(/setting.steps/);
+    expect(() => dormandPrince54.solve(p, { rtol: -1, atol: 1e-6 }, OPTS)).toThrow(/setting.rtol/);
+    expect(() => dormandPrince54.solve(p, { rtol: 1e-6, atol: [1e-6] }, OPTS)).toThrow(/setting.atol/);
+    expect(() => dormandPrince54.solve(p, { rtol: 1e-6, atol: 1e-6 }, { maxSteps: 0 })).toThrow(/maxSteps/);
+  });
+  it('symplectic methods explain why they need problem.separable', () => {
+    const noSplit = { ...p, separable: undefined };
+    expect(() => stormerVerlet.solve(noSplit, { steps: 10 }, OPTS)).toThrow(InputError);
+    expect(() => yoshida4.solve(noSplit, { steps: 10 }, OPTS)).toThrow(/separable.*positions/);
+    const bad = { ...p, separable: { positions: [0], velocities: [0] } };
+    expect(() => stormerVerlet.solve(bad, { steps: 10 }, OPTS)).toThrow(/more than once/);
+  });
+  it('per-component atol is accepted', () => {
+    const r = dormandPrince54.solve(p, { rtol: 1e-8, atol: [1e-8, 1e-7] }, OPTS);
+    expect(r.status).toBe('ok');
+    expect(maxAbsDiff(r.yFinal, exactAt(p, 1))).toBeLessThan(1e-6);
+  });
+});
+
+describe('dormand-prince-54 dense output', () => {
+  it('interpolates inside every step to within the tolerance of the exact solution', () => {
+    const p = oscillator(2);
+    let worst = 0;
+    let steps = 0;
+    const out = new Float64Array(2);
+    const r = dormandPrince54.dense.solve(p, { rtol: 1e-9, atol: 1e-9 }, OPTS, (tOld, tNew, evaluate) => {
+      steps++;
+      for (const th of [0.25, 0.5, 0.75]) {
+        const t = tOld + th * (tNew - tOld);
+        evaluate(t, out);
+        worst = Math.max(worst, maxAbsDiff(out, exactAt(p, t)));
+      }
+    });
+    expect(r.status).toBe('ok');
+    expect(steps).toBe(r.counts.accepted);
+    expect(worst).toBeLessThan(1e-6);
+    // The kept last step reproduces its right end.
+    r.evaluate(r.lastStep!.tNew, out);
+    expect(maxAbsDiff(out, r.yFinal)).toBeLessThan(1e-14);
+    expect(() => r.evaluate(r.lastStep!.tOld - 1, out)).toThrow(InputError);
+  });
+  it('costs no extra f evaluations', () => {
+    const p = oscillator(2);
+    const a = dormandPrince54.dense.solve(p, { rtol: 1e-7, atol: 1e-7 }, OPTS);
+    const b = dormandPrince54.solve(p, { rtol: 1e-7, atol: 1e-7 }, OPTS);
+    expect(a.counts).toEqual(b.counts);
+  });
+});
