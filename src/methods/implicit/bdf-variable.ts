@@ -1,0 +1,227 @@
+// Variable-order (1..5), variable-step BDF in backward-difference form with quasi-constant steps.
+// L. F. Shampine & M. W. Reichelt, The MATLAB ODE Suite, SIAM J. Sci. Comput. 18 (1997) 1-22,
+// sec. 2 (the NDF/BDF family, here with kappa = 0, i.e. the classical BDF): predictor
+// sum_j D_j, corrector gamma_k (y - y_pred) + sum_j gamma_j D_j = h f, local error
+// ||y - y_pred|| / (k + 1), order chosen among k-1, k, k+1 after k+1 steps of constant size,
+// simplified Newton with the Jacobian kept until Newton fails.
+import { luFactor, luSolve } from '../../core/lu.js';
+import { makeJacobianSource } from '../../core/jacobian.js';
+import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
+import { zeroCounts } from '../../core/types.js';
+import { rescaleDifferences } from './bdf-rescale.js';
+import { checkProblem, drive, EPS, parseAdaptive, startingStep, type Attempt, type Stepper, type Tolerances } from './common.js';
+
+const MAX_ORDER = 5;
+const NEWTON_MAXITER = 4;
+/** Step ratio bounds after a rejection and after an acceptance. */
+const MIN_FACTOR = 0.2;
+const MAX_FACTOR = 10;
+/** A proposed ratio in [1, HOLD_RATIO) keeps h, so the factorization is reused. */
+const HOLD_RATIO = 1.2;
+/** Newton stopping constant in tolerance units (cf. Hairer & Wanner II, sec. IV.8, eq. (8.12)). */
+const KAPPA = 0.03;
+
+/** gamma_k = sum_{m=1..k} 1/m. */
+const GAMMA: number[] = [0];
+for (let k = 1; k <= MAX_ORDER + 1; k++) GAMMA.push(GAMMA[k - 1]! + 1 / k);
+
+function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
+  const n = problem.dimension;
+  const f = problem.f;
+  const { rtol, atol } = tol;
+  const y = Float64Array.from(problem.y0);
+  const f0 = new Float64Array(n);
+  const D = new Float64Array((MAX_ORDER + 3) * n);
+  const yPred = new Float64Array(n), psi = new Float64Array(n), dcor = new Float64Array(n);
+  const ycur = new Float64Array(n), fcur = new Float64Array(n), delta = new Float64Array(n);
+  const w = new Float64Array(n), fy = new Float64Array(n);
+  const M = new Float64Array(n * n);
+  const piv = new Int32Array(n);
+  const work = new Float64Array(3 * (MAX_ORDER + 1) ** 2 + (MAX_ORDER + 1) * n);
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts);
+  const jac = jacSrc.jac;
+  const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
+
+  let k = 1;
+  let hCur = NaN;
+  let nEqual = 0;
+  let luValid = false;
+  let needJac = true;
+  let jacCurrent = false;
+  let eta = 1;
+  let started = false;
+
+  f(problem.t0, y, f0);
+  counts.nfev++;
+
+  function norm(v: Float64Array): number {
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      const r = v[i]! * w[i]!;
+      s += r * r;
+    }
+    return Math.sqrt(s / n);
+  }
+
+  function attempt(t: number, h: number): Attempt {
+    if (!started) {
+      for (let i = 0; i < n; i++) {
+        D[i] = y[i]!;
+        D[n + i] = h * f0[i]!;
+      }
+      hCur = h;
+      started = true;
+    } else if (h !== hCur) {
+      rescaleDifferences(D, n, k, h / hCur, work);
+      hCur = h;
+      nEqual = 0;
+      luValid = false;
+    }
+    if (needJac) {
+      if (!jacSrc.analytic) {
+        f(t, y, fy);
+        counts.nfev++;
+      }
+      jacSrc.evaluate(t, y, fy);
+      needJac = false;
+      jacCurrent = true;
+      luValid = false;
+    }
+    const c = h / GAMMA[k]!;
+    if (!luValid) {
+      for (let q = 0; q < n * n; q++) M[q] = -c * jac[q]!;
+      for (let i = 0; i < n; i++) M[i * n + i] = M[i * n + i]! + 1;
+      counts.nlu++;
+      if (!luFactor(M, n, piv)) {
+        if (!jacCurrent) needJac = true;
+        return { accepted: false, hNext: 0.5 * h };
+      }
+      luValid = true;
+    }
+    // Predictor and the history term psi = sum_{j=1..k} gamma_j D_j / gamma_k.
+    for (let i = 0; i < n; i++) {
+      let p = 0;
+      let s = 0;
+      for (let j = 0; j <= k; j++) p += D[j * n + i]!;
+      for (let j = 1; j <= k; j++) s += GAMMA[j]! * D[j * n + i]!;
+      yPred[i] = p;
+      psi[i] = s / GAMMA[k]!;
+      ycur[i] = p;
+      dcor[i] = 0;
+      w[i] = 1 / (atol[i]! + rtol * Math.abs(p));
+    }
+    // Simplified Newton on d - c f(t+h, y_pred + d) + psi = 0.
+    let converged = false;
+    let iters = 0;
+    let dyOld = 0;
+    let rate = 0;
+    eta = Math.max(eta, EPS) ** 0.8;
+    for (let it = 0; it < NEWTON_MAXITER; it++) {
+      f(t + h, ycur, fcur);
+      counts.nfev++;
+      for (let i = 0; i < n; i++) delta[i] = c * fcur[i]! - psi[i]! - dcor[i]!;
+      luSolve(M, n, piv, delta);
+      const dy = norm(delta);
+      iters = it + 1;
+      if (!Number.isFinite(dy)) break;
+      if (it > 0) {
+        rate = dy / dyOld;
+        if (rate >= 1 || (rate ** (NEWTON_MAXITER - it) / (1 - rate)) * dy > newtonTol) break;
+        eta = rate / (1 - rate);
+      }
+      for (let i = 0; i < n; i++) {
+        ycur[i] = ycur[i]! + delta[i]!;
+        dcor[i] = dcor[i]! + delta[i]!;
+      }
+      if (dy === 0 || eta * dy <= newtonTol) {
+        converged = true;
+        break;
+      }
+      dyOld = dy;
+    }
+    if (!converged) {
+      eta = 1;
+      if (!jacCurrent) {
+        needJac = true;
+        return { accepted: false, hNext: h };
+      }
+      return { accepted: false, hNext: 0.5 * h };
+    }
+    for (let i = 0; i < n; i++) {
+      const a = Math.abs(y[i]!);
+      const b = Math.abs(ycur[i]!);
+      w[i] = 1 / (atol[i]! + rtol * (a > b ? a : b));
+    }
+    const safety = (0.9 * (2 * NEWTON_MAXITER + 1)) / (2 * NEWTON_MAXITER + iters);
+    const err = norm(dcor) / (k + 1);
+    if (!(err <= 1)) {
+      const factor = Number.isFinite(err) ? Math.max(MIN_FACTOR, safety * err ** (-1 / (k + 1))) : MIN_FACTOR;
+      return { accepted: false, hNext: h * factor };
+    }
+    // Accepted: update the differences, newest first.
+    const o1 = (k + 1) * n;
+    const o2 = (k + 2) * n;
+    for (let i = 0; i < n; i++) {
+      D[o2 + i] = dcor[i]! - D[o1 + i]!;
+      D[o1 + i] = dcor[i]!;
+    }
+    for (let j = k; j >= 0; j--) {
+      const oj = j * n;
+      for (let i = 0; i < n; i++) D[oj + i] = D[oj + i]! + D[oj + n + i]!;
+    }
+    for (let i = 0; i < n; i++) y[i] = D[i]!;
+    jacCurrent = false;
+    nEqual++;
+    if (nEqual < k + 1) return { accepted: true, hNext: h };
+    // Order and step selection among k-1, k, k+1.
+    const errM = k > 1 ? norm(D.subarray(k * n, (k + 1) * n)) / k : Infinity;
+    const errP = k < MAX_ORDER ? norm(D.subarray(o2, o2 + n)) / (k + 2) : Infinity;
+    const fM = k > 1 ? Math.max(errM, 1e-10) ** (-1 / k) : 0;
+    const f0k = Math.max(err, 1e-10) ** (-1 / (k + 1));
+    const fP = k < MAX_ORDER ? Math.max(errP, 1e-10) ** (-1 / (k + 2)) : 0;
+    let newK = k;
+    let best = f0k;
+    if (fM > best) {
+      best = fM;
+      newK = k - 1;
+    }
+    if (fP > best) {
+      best = fP;
+      newK = k + 1;
+    }
+    const factor = Math.min(MAX_FACTOR, safety * best);
+    if (newK === k && factor >= 1 && factor < HOLD_RATIO) return { accepted: true, hNext: h };
+    if (newK !== k) {
+      k = newK;
+      luValid = false;
+    }
+    nEqual = 0;
+    return { accepted: true, hNext: h * factor };
+  }
+
+  return { y, f0, attempt } satisfies Stepper & { f0: Float64Array };
+}
+
+export const bdfVariable: Method = {
+  id: 'bdf-variable',
+  name: 'Variable-order BDF 1-5 (Shampine-Reichelt quasi-constant step)',
+  family: 'implicit',
+  order: 5,
+  embeddedOrder: 5,
+  source:
+    'L. F. Shampine, M. W. Reichelt, The MATLAB ODE Suite, SIAM J. Sci. Comput. 18 (1997) 1-22, sec. 2 (BDF, kappa = 0)',
+  adaptive: true,
+  stiff: true,
+  notes:
+    'Orders 1 to 5 (order is the maximum). Error estimated from the corrector-predictor difference. ' +
+    'Jacobian kept until Newton fails; LU redone when h or the order changes. Newton failures count as rejected steps.',
+  solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
+    checkProblem(problem);
+    const tol = parseAdaptive(problem, setting, 'bdf-variable');
+    const counts = zeroCounts();
+    const stepper = createStepper(problem, tol, counts);
+    const n = problem.dimension;
+    const h0 = options.initialStep ?? startingStep(problem, stepper.y, stepper.f0, 1, tol, counts, new Float64Array(n), new Float64Array(n));
+    return drive(problem, options, stepper, h0, counts);
+  },
+};

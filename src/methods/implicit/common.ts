@@ -1,0 +1,199 @@
+// Plumbing shared by the implicit integrators: setting validation, the adaptive step driver
+// (check times, step limit, deadline, underflow, observer) and the starting step heuristic.
+// Each integrator supplies only its step attempt; the driver owns the bookkeeping so that every
+// method honours SolveOptions the same way.
+import { InputError } from '../../core/errors.js';
+import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
+import { isAdaptiveSetting, zeroCounts } from '../../core/types.js';
+import { allFinite, toleranceVector } from '../../core/vector.js';
+
+const EPS = 2.220446049250313e-16;
+
+export interface Tolerances {
+  readonly rtol: number;
+  readonly atol: Float64Array;
+}
+
+export function parseAdaptive(problem: Problem, setting: Setting, methodId: string): Tolerances {
+  if (!isAdaptiveSetting(setting)) throw new InputError(`method ${methodId} is adaptive and needs {rtol, atol}`);
+  const { rtol, atol } = setting;
+  if (!(rtol > 0) || !Number.isFinite(rtol)) throw new InputError(`rtol must be a positive number, got ${rtol}`);
+  const n = problem.dimension;
+  if (typeof atol !== 'number' && atol.length !== n) {
+    throw new InputError(`atol has ${atol.length} entries but problem ${problem.id} has dimension ${n}`);
+  }
+  const a = toleranceVector(atol, n);
+  for (let i = 0; i < n; i++) {
+    if (!(a[i]! >= 0) || !Number.isFinite(a[i]!)) throw new InputError(`atol must be non-negative, got ${a[i]}`);
+  }
+  return { rtol, atol: a };
+}
+
+export function parseFixed(problem: Problem, setting: Setting, methodId: string): { steps: number; h: number } {
+  if (isAdaptiveSetting(setting) || !('steps' in setting)) {
+    throw new InputError(`method ${methodId} is fixed-step and needs {steps}`);
+  }
+  const steps = setting.steps;
+  if (!Number.isInteger(steps) || steps < 1) throw new InputError(`steps must be a positive integer, got ${steps}`);
+  return { steps, h: (problem.tEnd - problem.t0) / steps };
+}
+
+export function checkProblem(problem: Problem): void {
+  const n = problem.dimension;
+  if (!Number.isInteger(n) || n < 1) throw new InputError(`problem ${problem.id} has invalid dimension ${n}`);
+  if (problem.y0.length !== n) throw new InputError(`problem ${problem.id}: y0 has ${problem.y0.length} entries, expected ${n}`);
+  if (!(problem.tEnd > problem.t0)) throw new InputError(`problem ${problem.id}: tEnd must exceed t0`);
+}
+
+/** Sorted stop times strictly inside (t0, tEnd), then tEnd itself. */
+export function stopTimes(problem: Problem, options: SolveOptions): number[] {
+  const inner = (options.checkTimes ?? []).filter((c) => c > problem.t0 && c < problem.tEnd);
+  inner.sort((a, b) => a - b);
+  const out: number[] = [];
+  for (const c of inner) if (out.length === 0 || c > out[out.length - 1]!) out.push(c);
+  out.push(problem.tEnd);
+  return out;
+}
+
+/** Step size control: error-norm weights 1/(atol_i + rtol*max(|y_i|, |yNew_i|)) inverted. */
+export function errorWeights(y: Float64Array, yNew: Float64Array, tol: Tolerances, out: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) {
+    const a = Math.abs(y[i]!);
+    const b = Math.abs(yNew[i]!);
+    out[i] = 1 / (tol.atol[i]! + tol.rtol * (a > b ? a : b));
+  }
+}
+
+/** RMS norm of v with precomputed inverse weights w. */
+export function weightedRms(v: Float64Array, w: Float64Array, n: number): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) {
+    const r = v[i]! * w[i]!;
+    s += r * r;
+  }
+  return Math.sqrt(s / n);
+}
+
+/**
+ * Starting step of Hairer, Norsett & Wanner, Solving ODEs I, sec. II.4 (algorithm "starting step
+ * size"): one explicit Euler probe, so it costs one f evaluation (counted). f0 = f(t0, y0).
+ */
+export function startingStep(
+  problem: Problem,
+  y0: Float64Array,
+  f0: Float64Array,
+  order: number,
+  tol: Tolerances,
+  counts: Counts,
+  yWork: Float64Array,
+  fWork: Float64Array,
+): number {
+  const n = problem.dimension;
+  const span = problem.tEnd - problem.t0;
+  let d0 = 0;
+  let d1 = 0;
+  for (let i = 0; i < n; i++) {
+    const sc = tol.atol[i]! + tol.rtol * Math.abs(y0[i]!);
+    const w = sc > 0 ? 1 / sc : 1 / EPS;
+    d0 += (y0[i]! * w) ** 2;
+    d1 += (f0[i]! * w) ** 2;
+  }
+  d0 = Math.sqrt(d0 / n);
+  d1 = Math.sqrt(d1 / n);
+  let h0 = d0 < 1e-5 || d1 < 1e-5 ? 1e-6 : 0.01 * (d0 / d1);
+  h0 = Math.min(h0, span);
+  for (let i = 0; i < n; i++) yWork[i] = y0[i]! + h0 * f0[i]!;
+  problem.f(problem.t0 + h0, yWork, fWork);
+  counts.nfev++;
+  let d2 = 0;
+  for (let i = 0; i < n; i++) {
+    const sc = tol.atol[i]! + tol.rtol * Math.abs(y0[i]!);
+    const w = sc > 0 ? 1 / sc : 1 / EPS;
+    d2 += ((fWork[i]! - f0[i]!) * w) ** 2;
+  }
+  d2 = Math.sqrt(d2 / n) / h0;
+  if (!Number.isFinite(d2)) return Math.max(1e-6 * Math.min(1, span), 1e-12 * span);
+  const m = Math.max(d1, d2);
+  const h1 = m <= 1e-15 ? Math.max(1e-6, h0 * 1e-3) : (0.01 / m) ** (1 / (order + 1));
+  return Math.min(100 * h0, h1, span);
+}
+
+/** What one step attempt reports back to the driver. */
+export interface Attempt {
+  accepted: boolean;
+  /** Step size proposed for the next attempt (after acceptance or for the retry). */
+  hNext: number;
+}
+
+/**
+ * A one-step or multistep integrator as the driver sees it: `attempt` tries to advance the state
+ * held in `y` from t by h; on acceptance y holds the new state, otherwise y is unchanged.
+ */
+export interface Stepper {
+  readonly y: Float64Array;
+  attempt(t: number, h: number): Attempt;
+}
+
+/** Stop a stretch of h this close to a stop (relative), so no sliver step is left over. */
+const LANDING_STRETCH = 1.01;
+
+/**
+ * Run an adaptive stepper from problem.t0 to problem.tEnd with step h0. Honours maxSteps
+ * (accepted + rejected attempts), observer, checkTimes (landing exactly, resuming with the step
+ * proposed before the landing), deadline, step underflow and non-finite states.
+ */
+export function drive(problem: Problem, options: SolveOptions, stepper: Stepper, h0: number, counts: Counts): SolveResult {
+  const n = problem.dimension;
+  const y = stepper.y;
+  const stops = stopTimes(problem, options);
+  const observer = options.observer;
+  const deadline = options.deadline;
+  const maxSteps = options.maxSteps;
+  let t = problem.t0;
+  let h = h0;
+  let stopIdx = 0;
+  observer?.(t, y);
+  const finish = (status: Status, message?: string): SolveResult => {
+    const r: SolveResult = { status, tFinal: t, yFinal: Float64Array.from(y), counts };
+    if (message !== undefined) r.message = message;
+    return r;
+  };
+  while (stopIdx < stops.length) {
+    const stop = stops[stopIdx]!;
+    if (counts.accepted + counts.rejected >= maxSteps) {
+      return finish('step-limit', `step limit ${maxSteps} reached at t=${t}`);
+    }
+    if (deadline !== undefined && performance.now() > deadline) return finish('timeout', `deadline passed at t=${t}`);
+    if (!(h > 0) || !Number.isFinite(h)) return finish('step-underflow', `step size became ${h} at t=${t}`);
+    let hTry = h;
+    let landing = false;
+    if (t + LANDING_STRETCH * hTry >= stop) {
+      hTry = stop - t;
+      landing = true;
+    }
+    const hMin = 16 * EPS * Math.max(Math.abs(t), 1e-300);
+    if (hTry < hMin) return finish('step-underflow', `step size ${hTry} below ${hMin} at t=${t}`);
+    const r = stepper.attempt(t, hTry);
+    if (!r.accepted) {
+      counts.rejected++;
+      h = Math.min(r.hNext, hTry);
+      continue;
+    }
+    counts.accepted++;
+    if (landing) {
+      t = stop;
+      stopIdx++;
+      // The landing step was cut short by the stop, not by accuracy: resume with the larger of
+      // the step proposed before the cut and the one the controller proposes now.
+      h = Math.max(r.hNext, h);
+    } else {
+      t = t + hTry;
+      h = r.hNext;
+    }
+    if (!allFinite(y, n)) return finish('diverged', `non-finite state at t=${t}`);
+    observer?.(t, y);
+  }
+  return finish('ok');
+}
+
+export { zeroCounts, EPS };

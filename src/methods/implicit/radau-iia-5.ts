@@ -1,0 +1,312 @@
+// Radau IIA of order 5 (3 stages), adaptive.
+// E. Hairer & G. Wanner, Solving Ordinary Differential Equations II, 2nd ed., Springer 1996,
+// sec. IV.8: simplified Newton on the stage system transformed by T into one real and one
+// complex linear system (eq. (8.14)-(8.15)), starting values from the previous collocation
+// polynomial (8.16), convergence-rate monitoring with theta and eta (8.10)-(8.13), embedded
+// error estimate (8.19)-(8.20) with its second, filtered evaluation on first and rejected steps,
+// and the predictive step-size controller of Gustafsson (8.25).
+import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/lu.js';
+import { makeJacobianSource } from '../../core/jacobian.js';
+import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
+import { zeroCounts } from '../../core/types.js';
+import { checkProblem, drive, EPS, parseAdaptive, startingStep, type Attempt, type Stepper } from './common.js';
+import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
+
+/** Step-size safety factor and the bounds on h_new / h (1/FACL .. 1/FACR). */
+const SAFE = 0.9;
+const FACL = 5;
+const FACR = 1 / 8;
+/** Most Newton iterations per step. */
+const NIT = 7;
+/** Jacobian is kept when the Newton contraction theta stays below this. */
+const THET = 0.001;
+/** LU is kept (and h frozen) when h_new / h falls in [QUOT1, QUOT2] and the Jacobian is kept. */
+const QUOT1 = 1;
+const QUOT2 = 1.2;
+/**
+ * Newton stopping constant: iterate until eta * ||dW|| <= KAPPA in tolerance units, sec. IV.8
+ * eq. (8.12), which suggests kappa between 1e-2 and 1e-1.
+ */
+const KAPPA = 0.03;
+/** Factor of the tolerance transformation rtol' = TOL_FACTOR * rtol^(2/3). */
+const TOL_FACTOR = 0.1;
+/** Step factor after a Newton failure. */
+const NEWTON_FAIL_FACTOR = 0.5;
+
+const C1 = RADAU5_C[0]!;
+const C2 = RADAU5_C[1]!;
+const { gamma: GAM, alpha: ALPH, beta: BETA, t: T, tinv: TI, d: D } = RADAU5_TRANSFORM;
+
+function createStepper(problem: Problem, rtol: number, atol: Float64Array, counts: ReturnType<typeof zeroCounts>) {
+  const n = problem.dimension;
+  const f = problem.f;
+  const y = Float64Array.from(problem.y0);
+  const f0 = new Float64Array(n);
+  const z1 = new Float64Array(n), z2 = new Float64Array(n), z3 = new Float64Array(n);
+  const w1 = new Float64Array(n), w2 = new Float64Array(n), w3 = new Float64Array(n);
+  const g1 = new Float64Array(n), g2 = new Float64Array(n), g3 = new Float64Array(n);
+  const ytmp = new Float64Array(n), ftmp = new Float64Array(n);
+  const cont1 = new Float64Array(n), cont2 = new Float64Array(n), cont3 = new Float64Array(n);
+  const scal = new Float64Array(n);
+  const e1 = new Float64Array(n * n), e2r = new Float64Array(n * n), e2i = new Float64Array(n * n);
+  const piv1 = new Int32Array(n), piv2 = new Int32Array(n);
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts);
+  const jac = jacSrc.jac;
+  const fnewt = Math.max((10 * EPS) / rtol, KAPPA);
+  const cfac = SAFE * (1 + 2 * NIT);
+
+  let needJac = true;
+  let jacCurrent = false;
+  let hLU = NaN;
+  let first = true;
+  let reject = false;
+  let havePoly = false;
+  let hOld = 0;
+  let faccon = 1;
+  let theta = THET;
+  let hacc = 0;
+  let erracc = 0;
+
+  f(problem.t0, y, f0);
+  counts.nfev++;
+
+  function factor(h: number): boolean {
+    const fac1 = GAM / h;
+    const alphn = ALPH / h;
+    const betan = BETA / h;
+    for (let k = 0; k < n * n; k++) {
+      e1[k] = -jac[k]!;
+      e2r[k] = -jac[k]!;
+      e2i[k] = 0;
+    }
+    for (let i = 0; i < n; i++) {
+      e1[i * n + i] = e1[i * n + i]! + fac1;
+      e2r[i * n + i] = e2r[i * n + i]! + alphn;
+      e2i[i * n + i] = betan;
+    }
+    counts.nlu++;
+    hLU = NaN;
+    if (!luFactor(e1, n, piv1)) return false;
+    if (!complexLuFactor(e2r, e2i, n, piv2)) return false;
+    hLU = h;
+    return true;
+  }
+
+  function errorNorm(v: Float64Array): number {
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      const a = Math.abs(y[i]!);
+      const b = Math.abs(y[i]! + z3[i]!);
+      const r = v[i]! / (atol[i]! + rtol * (a > b ? a : b));
+      s += r * r;
+    }
+    return Math.max(Math.sqrt(s / n), 1e-10);
+  }
+
+  function attempt(t: number, h: number): Attempt {
+    if (needJac) {
+      jacSrc.evaluate(t, y, f0);
+      needJac = false;
+      jacCurrent = true;
+      hLU = NaN;
+    }
+    if (h !== hLU && !factor(h)) {
+      // Singular iteration matrix: a smaller h moves it away from singularity of J - (gamma/h) I.
+      reject = true;
+      if (!jacCurrent) needJac = true;
+      return { accepted: false, hNext: h * NEWTON_FAIL_FACTOR };
+    }
+    // Starting values from the previous step's collocation polynomial, else zero.
+    if (first || !havePoly) {
+      z1.fill(0); z2.fill(0); z3.fill(0);
+      w1.fill(0); w2.fill(0); w3.fill(0);
+    } else {
+      const r = h / hOld;
+      const s1 = 1 + C1 * r, s2 = 1 + C2 * r, s3 = 1 + r;
+      for (let i = 0; i < n; i++) {
+        const a1 = cont1[i]!, a2 = cont2[i]!, a3 = cont3[i]!;
+        const v1 = (s1 - 1) * (a1 + (s1 - C2) * (a2 + (s1 - C1) * a3));
+        const v2 = (s2 - 1) * (a1 + (s2 - C2) * (a2 + (s2 - C1) * a3));
+        const v3 = (s3 - 1) * (a1 + (s3 - C2) * (a2 + (s3 - C1) * a3));
+        z1[i] = v1; z2[i] = v2; z3[i] = v3;
+        w1[i] = TI[0]! * v1 + TI[1]! * v2 + TI[2]! * v3;
+        w2[i] = TI[3]! * v1 + TI[4]! * v2 + TI[5]! * v3;
+        w3[i] = TI[6]! * v1 + TI[7]! * v2 + TI[8]! * v3;
+      }
+    }
+    for (let i = 0; i < n; i++) scal[i] = atol[i]! + rtol * Math.abs(y[i]!);
+
+    // Simplified Newton iteration on the transformed stage system.
+    const fac1 = GAM / h, alphn = ALPH / h, betan = BETA / h;
+    faccon = Math.max(faccon, EPS) ** 0.8;
+    theta = THET;
+    let newt = 0;
+    let dynold = 0;
+    let thqold = 0;
+    let converged = false;
+    let hFail = h * NEWTON_FAIL_FACTOR;
+    while (true) {
+      if (newt >= NIT) break;
+      for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z1[i]!;
+      f(t + C1 * h, ytmp, g1);
+      for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z2[i]!;
+      f(t + C2 * h, ytmp, g2);
+      for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z3[i]!;
+      f(t + h, ytmp, g3);
+      counts.nfev += 3;
+      // Right-hand sides: (T^{-1} F) - (Lambda/h) W, in place in g1..g3.
+      for (let i = 0; i < n; i++) {
+        const a1 = g1[i]!, a2 = g2[i]!, a3 = g3[i]!;
+        const x1 = TI[0]! * a1 + TI[1]! * a2 + TI[2]! * a3;
+        const x2 = TI[3]! * a1 + TI[4]! * a2 + TI[5]! * a3;
+        const x3 = TI[6]! * a1 + TI[7]! * a2 + TI[8]! * a3;
+        g1[i] = x1 - fac1 * w1[i]!;
+        g2[i] = x2 - alphn * w2[i]! + betan * w3[i]!;
+        g3[i] = x3 - betan * w2[i]! - alphn * w3[i]!;
+      }
+      luSolve(e1, n, piv1, g1);
+      complexLuSolve(e2r, e2i, n, piv2, g2, g3);
+      let s = 0;
+      for (let i = 0; i < n; i++) {
+        const q = 1 / scal[i]!;
+        const a = g1[i]! * q, b = g2[i]! * q, c = g3[i]! * q;
+        s += a * a + b * b + c * c;
+      }
+      const dyno = Math.sqrt(s / (3 * n));
+      if (!Number.isFinite(dyno)) break;
+      if (newt >= 1) {
+        const thq = dyno / dynold;
+        theta = newt === 1 ? thq : Math.sqrt(thq * thqold);
+        thqold = thq;
+        if (theta < 0.99) {
+          faccon = theta / (1 - theta);
+          const dyth = (faccon * dyno * theta ** (NIT - 1 - newt)) / fnewt;
+          if (dyth >= 1) {
+            // Convergence predicted too slow: shrink h by the factor that would make it fit.
+            const qnewt = Math.max(1e-4, Math.min(20, dyth));
+            hFail = h * 0.8 * qnewt ** (-1 / (4 + NIT - 1 - newt));
+            break;
+          }
+        } else {
+          break;
+        }
+      }
+      dynold = Math.max(dyno, EPS);
+      for (let i = 0; i < n; i++) {
+        const a1 = (w1[i] = w1[i]! + g1[i]!);
+        const a2 = (w2[i] = w2[i]! + g2[i]!);
+        const a3 = (w3[i] = w3[i]! + g3[i]!);
+        z1[i] = T[0]! * a1 + T[1]! * a2 + T[2]! * a3;
+        z2[i] = T[3]! * a1 + T[4]! * a2 + T[5]! * a3;
+        z3[i] = T[6]! * a1 + T[7]! * a2 + T[8]! * a3;
+      }
+      newt++;
+      if (faccon * dyno <= fnewt) {
+        converged = true;
+        break;
+      }
+    }
+    if (!converged) {
+      reject = true;
+      if (!jacCurrent) needJac = true;
+      return { accepted: false, hNext: hFail };
+    }
+
+    // Embedded error estimate: (gamma/h I - J)^{-1} (f0 + sum d_j z_j / h).
+    const dz1 = D[0]! / h, dz2 = D[1]! / h, dz3 = D[2]! / h;
+    for (let i = 0; i < n; i++) {
+      const c = dz1 * z1[i]! + dz2 * z2[i]! + dz3 * z3[i]!;
+      ftmp[i] = c; // kept for the filtered second estimate
+      g1[i] = f0[i]! + c;
+    }
+    luSolve(e1, n, piv1, g1);
+    let err = errorNorm(g1);
+    if (err >= 1 && (first || reject)) {
+      for (let i = 0; i < n; i++) ytmp[i] = y[i]! + g1[i]!;
+      f(t, ytmp, g2);
+      counts.nfev++;
+      for (let i = 0; i < n; i++) g2[i] = g2[i]! + ftmp[i]!;
+      luSolve(e1, n, piv1, g2);
+      err = errorNorm(g2);
+    }
+    const fac = Math.min(SAFE, cfac / (newt + 2 * NIT));
+    let quot = Math.max(FACR, Math.min(FACL, err ** 0.25 / fac));
+    let hnew = h / quot;
+    if (!(err < 1)) {
+      reject = true;
+      if (!jacCurrent) needJac = true;
+      return { accepted: false, hNext: first ? h * 0.1 : hnew };
+    }
+
+    // Accepted.
+    if (!first && hacc > 0) {
+      let facgus = ((hacc / h) * (err * err / erracc) ** 0.25) / SAFE;
+      facgus = Math.max(FACR, Math.min(FACL, facgus));
+      quot = Math.max(quot, facgus);
+      hnew = h / quot;
+    }
+    hacc = h;
+    erracc = Math.max(1e-2, err);
+    first = false;
+    // Divided differences of the collocation polynomial on nodes 1, c2, c1, 0 (values z3, z2, z1, 0).
+    for (let i = 0; i < n; i++) {
+      const a = z1[i]!, b = z2[i]!, c = z3[i]!;
+      const d1 = (b - c) / (C2 - 1);
+      const ak = (a - b) / (C1 - C2);
+      const acont3 = a / C1;
+      const d2 = (ak - d1) / (C1 - 1);
+      const ak2 = (ak - acont3) / C2; // [c2, c1, 0]
+      const d3 = (ak2 - d2) / (0 - 1);
+      cont1[i] = d1;
+      cont2[i] = d2;
+      cont3[i] = d3;
+      y[i] = y[i]! + c;
+    }
+    havePoly = true;
+    hOld = h;
+    f(t + h, y, f0);
+    counts.nfev++;
+    if (reject) hnew = Math.min(hnew, h);
+    reject = false;
+    jacCurrent = false;
+    const qt = hnew / h;
+    if (theta <= THET && qt >= QUOT1 && qt <= QUOT2) {
+      // Keep both the Jacobian and the factorization: h stays as it is.
+      return { accepted: true, hNext: h };
+    }
+    if (theta > THET) needJac = true;
+    return { accepted: true, hNext: hnew };
+  }
+
+  return { y, f0, attempt } satisfies Stepper & { f0: Float64Array };
+}
+
+export const radauIIA5: Method = {
+  id: 'radau-iia-5',
+  name: 'Radau IIA 5 (Hairer-Wanner)',
+  family: 'implicit',
+  order: 5,
+  embeddedOrder: 3,
+  source: 'E. Hairer, G. Wanner, Solving Ordinary Differential Equations II, 2nd ed., Springer 1996, sec. IV.8',
+  adaptive: true,
+  stiff: true,
+  notes:
+    'Simplified Newton on the T-transformed stage system (one real, one complex LU per factorization, counted as 1 nlu). ' +
+    "Newton failures count as rejected steps. Tolerances are transformed as in the authors' code: rtol' = 0.1 rtol^(2/3), atol' = atol rtol'/rtol.",
+  solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
+    checkProblem(problem);
+    const tol = parseAdaptive(problem, setting, 'radau-iia-5');
+    // The authors' tolerance transformation (their code RADAU5, described with sec. IV.8): the
+    // order-3 estimate controls an order-5 solution, so the requested rtol is mapped to
+    // 0.1 rtol^(2/3) and atol keeps its ratio to rtol.
+    const rtol = TOL_FACTOR * tol.rtol ** (2 / 3);
+    const atol = tol.atol.map((a) => (a * rtol) / tol.rtol);
+    const counts = zeroCounts();
+    const stepper = createStepper(problem, rtol, atol, counts);
+    const n = problem.dimension;
+    const h0 =
+      options.initialStep ??
+      startingStep(problem, stepper.y, stepper.f0, 5, { rtol, atol }, counts, new Float64Array(n), new Float64Array(n));
+    return drive(problem, options, stepper, h0, counts);
+  },
+};
