@@ -1,0 +1,31 @@
+// `stepgauge baseline`: reduce a results file to a committed baseline with reproducible bytes.
+import { InputError } from '../../core/errors.js';
+import { makeBaseline, serializeBaseline } from '../../gate/baseline.js';
+import { writeFileAtomic } from '../../report/atomic.js';
+import { readResultsFile } from '../../report/read-results.js';
+import type { RegisterCommand } from './index.js';
+
+export const registerBaseline: RegisterCommand = (program) => {
+  program
+    .command('baseline')
+    .description('write the baseline a later `check` compares against (sorted, byte-stable)')
+    .argument('<results>', 'results.json of a complete sweep')
+    .requiredOption('--out <file>', 'baseline file to write (atomically)')
+    .option('--keep-time', 'keep run times and the calibration, for `check --time`')
+    .action(async (resultsPath: string, flags: { out: string; keepTime?: boolean }) => {
+      const results = readResultsFile(resultsPath);
+      // A baseline from a partial sweep would silently stop gating the runs it lacks.
+      if (results.interrupted) throw new InputError('is from an interrupted sweep; rerun it to completion before making a baseline', resultsPath);
+      if (results.shard) {
+        throw new InputError(`is shard ${results.shard.index}/${results.shard.count}; merge all shards (stepgauge merge) before making a baseline`, resultsPath);
+      }
+      if (flags.keepTime && results.environment.calibrationSeconds === undefined) {
+        throw new InputError('has no environment.calibrationSeconds, so --keep-time would keep times that cannot be compared', resultsPath);
+      }
+      const baseline = makeBaseline(results, { keepTime: flags.keepTime ?? false });
+      await writeFileAtomic(flags.out, serializeBaseline(baseline));
+      process.stdout.write(
+        `wrote ${flags.out}: ${baseline.runs.length} runs over ${baseline.problems.length} problems${flags.keepTime ? ', with calibrated times' : ''}\n`,
+      );
+    });
+};

@@ -1,0 +1,19 @@
+// `stepgauge merge`: join the shards of one sweep (or separate sweeps) into one results file.
+import { writeFileAtomic } from '../../report/atomic.js';
+import { readResultsFile } from '../../report/read-results.js';
+import { mergeResults } from '../../sweep/merge.js';
+import type { RegisterCommand } from './index.js';
+
+export const registerMerge: RegisterCommand = (program) => {
+  program
+    .command('merge')
+    .description('merge results files (e.g. all shards of a sweep) into one, in plan order')
+    .argument('<files...>', 'results.json files to merge')
+    .requiredOption('--out <file>', 'merged results file to write (atomically)')
+    .action(async (paths: string[], flags: { out: string }) => {
+      const files = paths.map((path) => ({ path, results: readResultsFile(path) }));
+      const merged = mergeResults(files, (w) => process.stderr.write(`stepgauge: warning: ${w}\n`));
+      await writeFileAtomic(flags.out, `${JSON.stringify(merged, null, 2)}\n`);
+      process.stdout.write(`wrote ${flags.out}: ${merged.runs.length} runs from ${files.length} file(s)\n`);
+    });
+};
