@@ -1,0 +1,88 @@
+// `stepgauge choose`: which method and setting meets an accuracy target at the least cost.
+import type { RegisterCommand } from './index.js';
+import { InputError } from '../../core/errors.js';
+import { parsePositive, parsePositiveInt } from '../options.js';
+import { resolveMethods, resolveProblems } from '../../sweep/resolve.js';
+import { chooseMethod, type Candidate, type Choice } from '../../sweep/choose.js';
+import { DEFAULT_TIMING } from '../../measure/timing.js';
+import { DEFAULT_MAX_STEPS } from '../../sweep/run.js';
+import { sig3 } from '../../report/format.js';
+import { CAUTION_TEXT } from '../caution.js';
+
+interface ChooseFlags {
+  problem?: string;
+  method?: string;
+  target?: string;
+  measure: string;
+  cost: string;
+  json?: boolean;
+  maxSteps: string;
+}
+
+function settingText(c: Candidate): string {
+  const s = c.run?.setting;
+  if (!s) return '—';
+  return 'rtol' in s ? `rtol ${sig3(s.rtol)}` : `${s.steps} steps (h ${sig3(s.h)})`;
+}
+
+export function choiceText(choice: Choice): string {
+  const rows = [['rank', 'method', 'setting', 'achieved error', 'margin', 'nfev', 'njev', 'nlu', 'time', 'note']];
+  choice.candidates.forEach((c, i) => {
+    rows.push([
+      c.met ? String(i + 1) : '—',
+      c.method,
+      c.met ? settingText(c) : '—',
+      sig3(c.achieved),
+      c.margin === null ? '—' : `${sig3(c.margin)}x`,
+      c.run ? String(c.run.counts.nfev) : '—',
+      c.run ? String(c.run.counts.njev) : '—',
+      c.run ? String(c.run.counts.nlu) : '—',
+      c.run?.time.medianSeconds != null ? `${sig3(c.run.time.medianSeconds * 1000)} ms` : '—',
+      c.note ?? '',
+    ]);
+  });
+  const widths = rows[0]!.map((_, k) => Math.max(...rows.map((r) => r[k]!.length)));
+  const lines = rows.map((r) => r.map((v, k) => v.padEnd(widths[k]!)).join('  ').trimEnd());
+  const head = `${choice.problem}: target error ${sig3(choice.target)} (${choice.measure}), ranked by ${choice.cost}`;
+  const rec = choice.recommended;
+  const verdict = rec
+    ? `recommended: ${rec.method} at ${settingText(rec)}; confirmed error ${sig3(rec.achieved)} is ${sig3(rec.margin)}x inside the target`
+    : 'no method met the target on this problem; loosen the target or add methods';
+  return [head, '', ...lines, '', verdict, '', CAUTION_TEXT].join('\n');
+}
+
+export const registerChoose: RegisterCommand = (program, setExit) => {
+  program
+    .command('choose')
+    .description('find, per method, the loosest tolerance or fewest equal steps that meet an error target, and rank them by cost')
+    .requiredOption('-p, --problem <id|file>', 'one problem id or problem file')
+    .requiredOption('--target <error>', 'largest acceptable error in the problem\'s error scale, e.g. 1e-8')
+    .option('-m, --method <list>', 'methods to consider (default: all that apply)')
+    .option('--measure <which>', 'final (at the end of the span) or max (over check times)', 'final')
+    .option('--cost <what>', 'time (median wall time) or nfev (function evaluations, free of timing noise)', 'time')
+    .option('--max-steps <n>', 'step limit per run', String(DEFAULT_MAX_STEPS))
+    .option('--json', 'print the ranked table as JSON')
+    .action(async (flags: ChooseFlags) => {
+      const target = parsePositive(flags.target ?? '', '--target');
+      if (flags.measure !== 'final' && flags.measure !== 'max') throw new InputError(`'${flags.measure}' is not final or max`, '--measure');
+      if (flags.cost !== 'time' && flags.cost !== 'nfev') throw new InputError(`'${flags.cost}' is not time or nfev`, '--cost');
+      const problems = await resolveProblems(flags.problem);
+      if (problems.items.length !== 1) throw new InputError('choose takes exactly one problem', '--problem');
+      const methods = await resolveMethods(flags.method);
+      const choice = await chooseMethod(problems.items[0]!, methods.items, {
+        target,
+        measure: flags.measure,
+        cost: flags.cost,
+        timing: DEFAULT_TIMING,
+        maxSteps: parsePositiveInt(flags.maxSteps, '--max-steps'),
+      });
+      if (flags.json) process.stdout.write(`${JSON.stringify(choice, (_k, v) => (k(_k) ? undefined : v), 2)}\n`);
+      else process.stdout.write(`${choiceText(choice)}\n`);
+      if (!choice.recommended) setExit(1);
+    });
+};
+
+/** Trajectory traces are bulky and say nothing about the choice. */
+function k(key: string): boolean {
+  return key === 'trace';
+}

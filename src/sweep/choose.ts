@@ -1,0 +1,177 @@
+// Choosing a method and setting for an accuracy target: for each method the loosest tolerance
+// (adaptive) or the fewest equal steps (fixed-step) whose measured error meets the target, found on
+// a decade grid and refined by bisection, then confirmed by a final measured (and timed) run.
+import type { Method, Problem, Setting } from '../core/types.js';
+import type { RunResult } from '../core/results.js';
+import { measureRun, type RunOptions } from '../measure/run-one.js';
+import { timeRun, type TimingOptions } from '../measure/timing.js';
+import { pairingGap } from './plan.js';
+
+/** Decade grid searched for adaptive methods, loosest first. */
+const RTOL_GRID = [1e-2, 1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10, 1e-11, 1e-12, 1e-13];
+/** Bisection steps in log10(rtol) between the last failing and the first passing decade. */
+const RTOL_BISECTIONS = 8;
+/** Smallest and largest equal-step counts tried for fixed-step methods. */
+const MIN_STEPS = 4;
+const MAX_STEPS = 1 << 22;
+
+export type ErrorMeasure = 'final' | 'max';
+export type CostMeasure = 'nfev' | 'time';
+
+export interface ChooseOptions extends RunOptions {
+  target: number;
+  measure: ErrorMeasure;
+  cost: CostMeasure;
+  timing: TimingOptions;
+}
+
+export interface Candidate {
+  method: string;
+  family: string;
+  met: boolean;
+  /** The confirmed run at the chosen setting (or the most accurate run tried when not met). */
+  run: RunResult | null;
+  achieved: number | null;
+  /** target / achieved: how far inside the target the confirmed error is. */
+  margin: number | null;
+  cost: number | null;
+  /** Solves spent searching (for the record). */
+  trials: number;
+  note?: string;
+}
+
+export interface Choice {
+  problem: string;
+  target: number;
+  measure: ErrorMeasure;
+  cost: CostMeasure;
+  candidates: Candidate[];
+  recommended: Candidate | null;
+}
+
+function errorOf(run: RunResult, measure: ErrorMeasure): number | null {
+  if (run.status !== 'ok') return null;
+  return measure === 'final' ? run.error.final : run.error.max;
+}
+
+function meets(run: RunResult, o: ChooseOptions): boolean {
+  const e = errorOf(run, o.measure);
+  return e !== null && e <= o.target;
+}
+
+function atolFor(p: Problem, rtol: number): number | number[] {
+  const s = p.atolScale;
+  return s === undefined ? rtol : typeof s === 'number' ? rtol * s : s.map((v) => rtol * v);
+}
+
+interface Search {
+  best: RunResult | null;
+  setting: Setting | null;
+  trials: number;
+  closest: RunResult | null;
+}
+
+function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
+  let trials = 0;
+  const at = (rtol: number) => {
+    trials++;
+    return measureRun(p, m, { rtol, atol: atolFor(p, rtol) }, o);
+  };
+  let failing: number | null = null;
+  let closest: RunResult | null = null;
+  for (const rtol of RTOL_GRID) {
+    const run = at(rtol);
+    if (meets(run, o)) {
+      let hi = Math.log10(rtol);
+      let best = run;
+      if (failing !== null) {
+        let lo = Math.log10(failing);
+        for (let k = 0; k < RTOL_BISECTIONS; k++) {
+          const mid: number = (lo + hi) / 2;
+          const r = at(10 ** mid);
+          if (meets(r, o)) {
+            hi = mid;
+            best = r;
+          } else lo = mid;
+        }
+      }
+      const rt = 10 ** hi;
+      return { best, setting: { rtol: rt, atol: atolFor(p, rt) }, trials, closest: best };
+    }
+    failing = rtol;
+    const e = errorOf(run, o.measure);
+    if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
+  }
+  return { best: null, setting: null, trials, closest };
+}
+
+function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
+  let trials = 0;
+  const at = (steps: number) => {
+    trials++;
+    return measureRun(p, m, { steps }, o);
+  };
+  let closest: RunResult | null = null;
+  let lo = 0; // largest step count known to fail
+  let n = MIN_STEPS;
+  for (; n <= MAX_STEPS && n <= o.maxSteps; n *= 2) {
+    const run = at(n);
+    if (meets(run, o)) {
+      let hi = n;
+      let best = run;
+      while (hi - lo > 1) {
+        const mid = Math.floor((lo + hi) / 2);
+        const r = at(mid);
+        if (meets(r, o)) {
+          hi = mid;
+          best = r;
+        } else lo = mid;
+      }
+      return { best, setting: { steps: hi }, trials, closest: best };
+    }
+    lo = n;
+    const e = errorOf(run, o.measure);
+    if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
+  }
+  return { best: null, setting: null, trials, closest };
+}
+
+export async function chooseMethod(problem: Problem, methods: readonly Method[], o: ChooseOptions): Promise<Choice> {
+  const candidates: Candidate[] = [];
+  for (const m of methods) {
+    const gap = pairingGap(problem, m);
+    if (gap && (m.needsSeparable || problem.stiff)) {
+      candidates.push({ method: m.id, family: m.family, met: false, run: null, achieved: null, margin: null, cost: null, trials: 0, note: gap });
+      continue;
+    }
+    const search = m.adaptive ? searchAdaptive(problem, m, o) : searchFixed(problem, m, o);
+    if (!search.setting || !search.best) {
+      const best = search.closest ? errorOf(search.closest, o.measure) : null;
+      candidates.push({
+        method: m.id, family: m.family, met: false, run: search.closest, achieved: best, margin: null, cost: null, trials: search.trials,
+        note: best === null ? 'no run succeeded' : `target not reached; best error ${best.toExponential(2)}`,
+      });
+      continue;
+    }
+    // Confirmation: a fresh measured run at the chosen setting, then timing when time is the cost.
+    const confirmed = measureRun(problem, m, search.setting, o);
+    const achieved = errorOf(confirmed, o.measure);
+    const ok = meets(confirmed, o);
+    let cost: number | null = confirmed.counts.nfev;
+    if (o.cost === 'time' && ok) {
+      const t = await timeRun(problem, m, search.setting, o, o.timing);
+      if (t) confirmed.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds };
+      cost = t ? t.medianSeconds : null;
+    }
+    candidates.push({
+      method: m.id, family: m.family, met: ok, run: confirmed, achieved,
+      margin: achieved && achieved > 0 ? o.target / achieved : null, cost, trials: search.trials + 1,
+    });
+  }
+  const ranked = [...candidates].sort((a, b) => {
+    if (a.met !== b.met) return a.met ? -1 : 1;
+    if (a.met && b.met) return (a.cost ?? Infinity) - (b.cost ?? Infinity);
+    return (a.achieved ?? Infinity) - (b.achieved ?? Infinity);
+  });
+  return { problem: problem.id, target: o.target, measure: o.measure, cost: o.cost, candidates: ranked, recommended: ranked[0]?.met ? ranked[0] : null };
+}
