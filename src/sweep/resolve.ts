@@ -3,6 +3,7 @@ import type { Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { builtinMethods } from '../methods/registry.js';
 import { catalogue } from '../../problems/index.js';
+import { withCertifiedReference } from '../measure/certify.js';
 
 /** True when a list entry names a file rather than a built-in id. */
 export function looksLikePath(entry: string): boolean {
@@ -38,7 +39,7 @@ export async function resolveProblems(list: string | undefined): Promise<Resolve
   for (const entry of entries) {
     if (looksLikePath(entry)) {
       const { loadUserProblem } = await import('./user-files.js');
-      const p = await loadUserProblem(entry);
+      const p = withCertifiedReference(await loadUserProblem(entry));
       items.push(p);
       sources.set(p.id, entry);
       continue;
