@@ -1,0 +1,189 @@
+// Builds a Problem from an equation file: checks every name and expression, orders definitions,
+// compiles f, invariants, outputs and the exact reference to JavaScript, forms the symbolic
+// Jacobian and finds (or checks) the separable split.
+import { basename } from 'node:path';
+import type { Reference, SeparableSplit } from '../../core/types.js';
+import { DERIVATIVE_FUNCTIONS } from '../expression/functions.js';
+import { ExpressionRejected, symbolsOf, type AstNode } from '../expression/emit.js';
+import { parseExpression } from '../expression/parse.js';
+import { canonicalJson } from '../file/canonical.js';
+import { fail } from '../file/fail.js';
+import type { FieldPath, StructuredFile } from '../file/read-structured.js';
+import type { EquationFile } from '../file/schema.js';
+import type { UserProblem } from '../user-problem.js';
+import { compileJacobian, compileScalarFunction, compileTimeFunction, compileVectorFunction, neededDefinitions, type DefinitionCode } from './codegen.js';
+import { readCheckTimes, readErrorScale, readReferencePoints, readSpan } from './common-fields.js';
+import { constantValue, emitField, evaluateParameters } from './constants.js';
+import { definitionOrderProblem } from './definition-order.js';
+import { inlineDefinitions, symbolicJacobian } from './jacobian.js';
+import { checkName, makeScope } from './names.js';
+import { checkSeparableSplit, findSeparableSplit, type Dependencies } from './separable.js';
+
+type Expr = string | number;
+
+function keysMatchStates(site: StructuredFile, path: FieldPath, given: Record<string, Expr>, states: readonly string[], what: string): void {
+  for (const key of Object.keys(given)) {
+    if (!states.includes(key)) fail(site, [...path, key], `'${key}' is not a state (states: ${states.join(', ')})`);
+  }
+  const missing = states.find((s) => !(s in given));
+  if (missing !== undefined) fail(site, path, `state '${missing}' has no ${what}`);
+}
+
+export function buildEquationProblem(site: StructuredFile, spec: EquationFile): UserProblem {
+  const taken = new Map<string, string>();
+  const states = spec.states;
+  states.forEach((s, i) => checkName(site, ['states', i], s, taken, 'state'));
+  const n = states.length;
+  const parameters = evaluateParameters(site, spec.parameters, (path, name) => checkName(site, path, name, taken, 'parameter'));
+
+  // Definitions: parse all first, so order problems are reported before unknown symbols.
+  const defSpecs = spec.definitions ?? {};
+  const defNames = Object.keys(defSpecs);
+  defNames.forEach((d) => checkName(site, ['definitions', d], d, taken, 'definition'));
+  const defNodes = new Map<string, AstNode>();
+  for (const d of defNames) {
+    try {
+      defNodes.set(d, parseExpression(defSpecs[d]!));
+    } catch (e) {
+      if (e instanceof ExpressionRejected) fail(site, ['definitions', d], e.message);
+      throw e;
+    }
+  }
+  const defUses = new Map(defNames.map((d) => [d, new Set([...symbolsOf(defNodes.get(d)!)].filter((s) => defNodes.has(s)))] as const));
+  const orderProblem = definitionOrderProblem(defNames, defUses);
+  if (orderProblem) fail(site, ['definitions', orderProblem.name], orderProblem.message);
+
+  const definitions: DefinitionCode[] = [];
+  const visibleDefs = new Map<string, number>();
+  const inlined = new Map<string, AstNode>();
+  defNames.forEach((d, index) => {
+    const scope = makeScope({ time: true, states, parameters, definitions: visibleDefs });
+    const { js, node } = emitField(site, ['definitions', d], defSpecs[d]!, scope);
+    definitions.push({ index, name: d, js, uses: symbolsOf(node) });
+    inlined.set(d, inlineDefinitions(node, inlined));
+    visibleDefs.set(d, index);
+  });
+  const fullScope = makeScope({ time: true, states, parameters, definitions: visibleDefs });
+
+  keysMatchStates(site, ['equations'], spec.equations, states, 'equation');
+  const equations = states.map((s) => emitField(site, ['equations', s], spec.equations[s]!, fullScope));
+  const eqSymbols = equations.flatMap((e) => [...symbolsOf(e.node)]);
+  const f = compileVectorFunction(n, equations.map((e) => e.js), neededDefinitions(eqSymbols, definitions));
+
+  keysMatchStates(site, ['initial'], spec.initial, states, 'initial value');
+  const y0 = states.map((s) => constantValue(site, ['initial', s], spec.initial[s]!, parameters));
+  const { t0, tEnd } = readSpan(site, spec.span, parameters);
+  const checkTimes = readCheckTimes(site, spec.checkTimes, t0, tEnd, parameters);
+
+  const invariants = Object.entries(spec.invariants ?? {}).map(([name, text]) => {
+    const { js, node } = emitField(site, ['invariants', name], text, fullScope);
+    return { name, fn: compileScalarFunction(n, js, neededDefinitions(symbolsOf(node), definitions)) };
+  });
+
+  const outputNames = Object.keys(spec.outputs ?? {});
+  const outputs = outputNames.length
+    ? (() => {
+        const code = outputNames.map((o) => emitField(site, ['outputs', o], spec.outputs![o]!, fullScope));
+        const defs = neededDefinitions(code.flatMap((c) => [...symbolsOf(c.node)]), definitions);
+        return { names: outputNames, fn: compileVectorFunction(n, code.map((c) => c.js), defs) };
+      })()
+    : undefined;
+
+  const errorOn = spec.error?.measure ?? 'states';
+  if (errorOn === 'outputs' && !outputs) fail(site, ['error', 'measure'], 'measure: outputs needs an `outputs` section');
+  const errorScale = readErrorScale(site, spec.error, errorOn === 'outputs' ? outputNames : states);
+
+  // Dependencies and the Jacobian both read the equations with definitions inlined.
+  const inlinedEquations = equations.map((e) => inlineDefinitions(e.node, inlined));
+  const dependencies: Dependencies = {
+    names: states,
+    deps: inlinedEquations.map((node) => {
+      const used = symbolsOf(node);
+      return new Set(states.flatMap((s, j) => (used.has(s) ? [j] : [])));
+    }),
+    usesTime: inlinedEquations.map((node) => symbolsOf(node).has('t')),
+  };
+  const { separable, separableReason } = separability(site, spec, dependencies);
+
+  const jac = symbolicJacobian(inlinedEquations, states, makeScope({ time: true, states, parameters, functions: DERIVATIVE_FUNCTIONS }));
+  const jacobian = 'entries' in jac ? compileJacobian(n, jac.entries) : undefined;
+
+  return {
+    id: spec.id,
+    title: spec.title,
+    source: spec.source ?? `user problem file ${basename(site.file)} (no source named)`,
+    description: spec.description ?? describe(states, spec.equations, defSpecs),
+    dimension: n,
+    stateNames: states,
+    t0,
+    tEnd,
+    y0,
+    f,
+    ...(jacobian ? { jacobian } : {}),
+    jacobianSource: jacobian ? 'symbolic' : 'finite-difference',
+    ...('reason' in jac ? { jacobianNote: jac.reason } : {}),
+    stiff: spec.stiff ?? false,
+    invariants,
+    errorScale,
+    errorOn,
+    ...(outputs ? { outputs } : {}),
+    reference: readReference(site, spec, states, parameters, t0, tEnd),
+    checkTimes,
+    ...(separable ? { separable } : {}),
+    ...(separableReason ? { separableReason } : {}),
+    ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
+    definition: canonicalJson(site.data),
+    origin: site.file,
+  };
+}
+
+function separability(site: StructuredFile, spec: EquationFile, d: Dependencies): { separable?: SeparableSplit; separableReason?: string } {
+  if (spec.separable) {
+    const index = (field: 'positions' | 'velocities', name: string, k: number): number => {
+      const i = d.names.indexOf(name);
+      if (i < 0) fail(site, ['separable', field, k], `'${name}' is not a state`);
+      return i;
+    };
+    const positions = spec.separable.positions.map((s, k) => index('positions', s, k));
+    const velocities = spec.separable.velocities.map((s, k) => index('velocities', s, k));
+    const all = new Set([...positions, ...velocities]);
+    if (all.size !== positions.length + velocities.length) fail(site, ['separable'], 'a state is listed more than once');
+    if (all.size !== d.names.length) {
+      fail(site, ['separable'], `every state must be a position or a velocity; missing ${d.names.filter((_, i) => !all.has(i)).join(', ')}`);
+    }
+    const split = { positions, velocities };
+    const broken = checkSeparableSplit(d, split);
+    if (broken) fail(site, ['separable'], `the split does not hold: ${broken}`);
+    return { separable: split };
+  }
+  const found = findSeparableSplit(d);
+  return 'split' in found ? { separable: found.split } : { separableReason: found.reason };
+}
+
+function readReference(site: StructuredFile, spec: EquationFile, states: readonly string[], parameters: ReadonlyMap<string, number>, t0: number, tEnd: number): Reference {
+  const ref = spec.reference;
+  if (!ref) return { kind: 'certified', points: [] };
+  if (ref.exact && ref.at) fail(site, ['reference'], 'give either `exact` or `at`, not both');
+  const digits = ref.digits !== undefined ? { digits: ref.digits } : {};
+  if (ref.exact) {
+    const exact = ref.exact;
+    keysMatchStates(site, ['reference', 'exact'], exact, states, 'exact expression');
+    const scope = makeScope({ time: true, parameters });
+    const code = states.map((s) => emitField(site, ['reference', 'exact', s], exact[s]!, scope).js);
+    return { kind: 'exact', source: ref.source ?? 'exact solution given in the problem file', exact: compileTimeFunction(code), ...digits };
+  }
+  if (!ref.at) fail(site, ['reference'], 'needs `exact` (expressions of t) or `at` (a list of times and states)');
+  const points = readReferencePoints(site, ref.at, states, t0, tEnd);
+  return {
+    kind: 'published',
+    source: ref.source ?? 'values given in the problem file; the file names no source for them',
+    points,
+    ...digits,
+  };
+}
+
+function describe(states: readonly string[], equations: Record<string, Expr>, definitions: Record<string, Expr>): string {
+  const defs = Object.entries(definitions).map(([k, v]) => `${k} = ${v}`);
+  const eqs = states.map((s) => `${s}' = ${equations[s]}`);
+  return [...defs, ...eqs].join('; ');
+}

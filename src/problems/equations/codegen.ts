@@ -1,0 +1,67 @@
+// Assembles function bodies from emitted expression code: state reads, the definitions an
+// expression needs (in file order), then the writes. Buffers come from the caller; nothing here
+// allocates at run time.
+import { compileFunction } from '../expression/compile.js';
+
+export interface DefinitionCode {
+  readonly index: number;
+  readonly name: string;
+  readonly js: string;
+  /** Symbols the definition mentions directly. */
+  readonly uses: ReadonlySet<string>;
+}
+
+/** Definitions reachable from the given symbols, in file order. */
+export function neededDefinitions(symbols: Iterable<string>, definitions: readonly DefinitionCode[]): DefinitionCode[] {
+  const byName = new Map(definitions.map((d) => [d.name, d] as const));
+  const needed = new Set<string>();
+  const visit = (name: string): void => {
+    const d = byName.get(name);
+    if (!d || needed.has(name)) return;
+    needed.add(name);
+    for (const u of d.uses) visit(u);
+  };
+  for (const s of symbols) visit(s);
+  return definitions.filter((d) => needed.has(d.name));
+}
+
+function prologue(n: number, defs: readonly DefinitionCode[]): string {
+  const lines: string[] = [];
+  for (let i = 0; i < n; i++) lines.push(`const s${i} = y[${i}];`);
+  for (const d of defs) lines.push(`const d${d.index} = ${d.js};`);
+  return lines.join('\n');
+}
+
+/** function (t, y, out) { out[k] = expr_k } */
+export function compileVectorFunction(
+  n: number,
+  exprs: readonly string[],
+  defs: readonly DefinitionCode[],
+): (t: number, y: Float64Array, out: Float64Array) => void {
+  const writes = exprs.map((js, k) => `out[${k}] = ${js};`).join('\n');
+  return compileFunction(['t', 'y', 'out'], `${prologue(n, defs)}\n${writes}`);
+}
+
+/** function (t, y) { return expr } */
+export function compileScalarFunction(n: number, expr: string, defs: readonly DefinitionCode[]): (t: number, y: Float64Array) => number {
+  return compileFunction(['t', 'y'], `${prologue(n, defs)}\nreturn ${expr};`);
+}
+
+/** function (t, jac) writing a dense row-major n x n matrix from its nonzero entries. */
+export function compileJacobian(
+  n: number,
+  entries: readonly { row: number; col: number; js: string }[],
+): (t: number, y: Float64Array, jac: Float64Array) => void {
+  const writes = entries.map((e) => `jac[${e.row * n + e.col}] = ${e.js};`).join('\n');
+  return compileFunction(['t', 'y', 'jac'], `${prologue(n, [])}\njac.fill(0);\n${writes}`);
+}
+
+/** function (t, out) { out[k] = expr_k(t) } for exact solutions. */
+export function compileTimeFunction(exprs: readonly string[]): (t: number, out: Float64Array) => void {
+  return compileFunction(['t', 'out'], exprs.map((js, k) => `out[${k}] = ${js};`).join('\n'));
+}
+
+/** A constant: function () { return expr }. */
+export function compileConstant(expr: string): () => number {
+  return compileFunction([], `return ${expr};`);
+}

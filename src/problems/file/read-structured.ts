@@ -1,0 +1,104 @@
+// Reads a YAML or JSON problem file into plain data plus a locator that maps a field path back to
+// the line and column it came from, so every later message can point into the file.
+import { readFile } from 'node:fs/promises';
+import { extname } from 'node:path';
+import { LineCounter, parseDocument, isNode, type Document } from 'yaml';
+import { InputError } from '../../core/errors.js';
+
+export type FieldPath = readonly (string | number)[];
+
+export interface StructuredFile {
+  readonly file: string;
+  readonly data: unknown;
+  /** "file:line:col" of the value at path (or of its nearest located ancestor), else "file". */
+  locate(path: FieldPath): string;
+}
+
+/** "equations.omega", "reference.at[0].t"; "(top level)" for the empty path. */
+export function fieldPath(path: FieldPath): string {
+  let out = '';
+  for (const part of path) out += typeof part === 'number' ? `[${part}]` : out ? `.${part}` : part;
+  return out || '(top level)';
+}
+
+function lineColumnOf(text: string, offset: number): { line: number; col: number } {
+  let line = 1;
+  let start = 0;
+  for (let i = 0; i < offset && i < text.length; i++) {
+    if (text.charCodeAt(i) === 10) {
+      line++;
+      start = i + 1;
+    }
+  }
+  return { line, col: offset - start + 1 };
+}
+
+function jsonErrorPosition(text: string, message: string): { line: number; col: number } | undefined {
+  const lc = /line (\d+) column (\d+)/.exec(message);
+  if (lc) return { line: Number(lc[1]), col: Number(lc[2]) };
+  const pos = /position (\d+)/.exec(message);
+  if (pos) return lineColumnOf(text, Number(pos[1]));
+  // "Unexpected end of JSON input" carries no position: the problem is at the end.
+  if (/end of JSON/i.test(message)) return lineColumnOf(text, text.length);
+  return undefined;
+}
+
+function makeLocator(file: string, doc: Document, counter: LineCounter): (path: FieldPath) => string {
+  return (path) => {
+    for (let k = path.length; k >= 0; k--) {
+      const node = k === 0 ? doc.contents : doc.getIn(path.slice(0, k), true);
+      if (isNode(node) && node.range) {
+        const { line, col } = counter.linePos(node.range[0]);
+        return `${file}:${line}:${col}`;
+      }
+    }
+    return file;
+  };
+}
+
+export function parseStructuredText(file: string, text: string): StructuredFile {
+  const ext = extname(file).toLowerCase();
+  if (ext !== '.yaml' && ext !== '.yml' && ext !== '.json') {
+    throw new InputError(`problem files must end in .yaml, .yml or .json (got '${ext || 'no extension'}')`, file);
+  }
+  const counter = new LineCounter();
+  const doc = parseDocument(text, { lineCounter: counter, prettyErrors: false, uniqueKeys: true });
+  let data: unknown;
+  if (ext === '.json') {
+    try {
+      data = JSON.parse(text);
+    } catch (e) {
+      const message = e instanceof Error ? e.message : String(e);
+      const at = jsonErrorPosition(text, message);
+      throw new InputError(`JSON syntax error: ${message}`, at ? `${file}:${at.line}:${at.col}` : file);
+    }
+    // JSON.parse keeps the last of two equal keys silently; a repeated equation is a mistake.
+    const duplicate = doc.errors.find((e) => e.code === 'DUPLICATE_KEY');
+    if (duplicate) {
+      const pos = duplicate.linePos?.[0];
+      throw new InputError('a key appears twice in the same object', pos ? `${file}:${pos.line}:${pos.col}` : file);
+    }
+  } else {
+    const first = doc.errors[0];
+    if (first) {
+      const pos = first.linePos?.[0];
+      const reason = first.message.split('\n')[0] ?? first.message;
+      throw new InputError(`YAML syntax error: ${reason}`, pos ? `${file}:${pos.line}:${pos.col}` : file);
+    }
+    data = doc.toJS({ maxAliasCount: 100 });
+  }
+  // For JSON the YAML parse serves only to find positions; it may fail on exotic JSON, then
+  // messages fall back to naming the file and the field.
+  const locate = doc.errors.length === 0 ? makeLocator(file, doc, counter) : () => file;
+  return { file, data, locate };
+}
+
+export async function readStructuredFile(file: string): Promise<StructuredFile> {
+  let text: string;
+  try {
+    text = await readFile(file, 'utf8');
+  } catch (e) {
+    throw new InputError(`cannot read problem file: ${(e as NodeJS.ErrnoException).code ?? String(e)}`, file);
+  }
+  return parseStructuredText(file, text);
+}

@@ -1,0 +1,96 @@
+// Shape of a problem file, checked with zod before any expression is read. Meaning (symbols,
+// dimensions, spans) is checked afterwards by the builders, which know the names involved.
+// The JSON Schema for editors (schema/problem.schema.json) describes the same shape.
+import { z } from 'zod';
+
+/** A number, or an expression text (mathjs syntax, restricted; see src/problems/expression). */
+export const expressionValue = z.union([z.number(), z.string()]);
+const namedExpressions = z.record(z.string(), expressionValue);
+
+const errorSpec = z.strictObject({
+  measure: z.enum(['states', 'outputs']).optional(),
+  scale: z.enum(['absolute', 'relative']).optional(),
+  /** Floor of the relative scale: one number, one per component in order, or by name. */
+  floor: z.union([z.number().positive(), z.array(z.number().positive()), z.record(z.string(), z.number().positive())]).optional(),
+});
+
+const atolScale = z.union([z.number().positive(), z.array(z.number().positive())]);
+
+const common = {
+  id: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'must be kebab-case (lowercase letters, digits and single hyphens)'),
+  title: z.string().min(1),
+  source: z.string().optional(),
+  description: z.string().optional(),
+  parameters: namedExpressions.optional(),
+  span: z.tuple([expressionValue, expressionValue]),
+  checkTimes: z.array(expressionValue).optional(),
+  invariants: namedExpressions.optional(),
+  error: errorSpec.optional(),
+  stiff: z.boolean().optional(),
+  atolScale: atolScale.optional(),
+};
+
+export const equationFileSchema = z.strictObject({
+  ...common,
+  states: z.array(z.string()).min(1),
+  definitions: namedExpressions.optional(),
+  equations: namedExpressions,
+  initial: namedExpressions,
+  outputs: namedExpressions.optional(),
+  separable: z.strictObject({ positions: z.array(z.string()).min(1), velocities: z.array(z.string()).min(1) }).optional(),
+  reference: z
+    .strictObject({
+      exact: namedExpressions.optional(),
+      at: z.array(z.record(z.string(), z.number())).min(1).optional(),
+      source: z.string().optional(),
+      digits: z.number().int().min(1).max(17).optional(),
+    })
+    .optional(),
+});
+export type EquationFile = z.infer<typeof equationFileSchema>;
+
+/** Inline rows of numbers (or parameter expressions), or a CSV path relative to the problem file. */
+const matrixSpec = z.union([z.array(z.array(expressionValue)), z.string()]);
+
+const waveSpec = z.strictObject({
+  amplitude: expressionValue.optional(),
+  /** Angular frequency, radians per unit of t. */
+  omega: expressionValue,
+  phase: expressionValue.optional(),
+  /** Exponential envelope rate: amplitude * exp(growth * t); negative for decay. */
+  growth: expressionValue.optional(),
+});
+
+/** One term of an input signal. A bare string is any expression of t (no exact reference). */
+export const signalTerm = z.union([
+  z.number(),
+  z.string(),
+  z.strictObject({ constant: expressionValue }),
+  z.strictObject({ poly: z.array(expressionValue).min(1) }),
+  z.strictObject({ exp: z.strictObject({ amplitude: expressionValue.optional(), rate: expressionValue }) }),
+  z.strictObject({ sin: waveSpec }),
+  z.strictObject({ cos: waveSpec }),
+]);
+export type SignalTerm = z.infer<typeof signalTerm>;
+/** An input channel: one term, or a list of terms that are added. */
+export const signalSpec = z.union([signalTerm, z.array(signalTerm).min(1)]);
+export type SignalSpec = z.infer<typeof signalSpec>;
+
+export const linearFileSchema = z.strictObject({
+  ...common,
+  states: z.array(z.string()).min(1).optional(),
+  linear: z.strictObject({ A: matrixSpec, B: matrixSpec.optional(), C: matrixSpec.optional(), D: matrixSpec.optional() }),
+  inputs: z.array(signalSpec).optional(),
+  initial: z.array(expressionValue).min(1),
+  /** Names of the outputs y = C x + D u, in row order of C. */
+  outputs: z.array(z.string()).optional(),
+  reference: z
+    .strictObject({
+      at: z.array(z.record(z.string(), z.number())).min(1),
+      source: z.string().optional(),
+      digits: z.number().int().min(1).max(17).optional(),
+    })
+    .optional(),
+});
+export type LinearFile = z.infer<typeof linearFileSchema>;
+export type MatrixSpec = z.infer<typeof matrixSpec>;
