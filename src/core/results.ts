@@ -27,6 +27,8 @@ export interface RunResult {
   yFinal: number[];
   /** True when the error is below what the reference can resolve (certified references). */
   errorBelowReference?: boolean;
+  /** Reference-free indicator: error after integrating to the end and back (null: not measured). */
+  roundTrip?: number | null;
   /** Position of this run in the sweep plan (keeps merged shards in plan order). */
   planIndex?: number;
   trace?: DriftTrace;

@@ -7,6 +7,7 @@ import { messageOf } from '../core/errors.js';
 import { scaleFloors, scaledMaxError } from './error-norm.js';
 import { referenceLookup } from './reference.js';
 import { watchRun } from './observer.js';
+import { roundTripError } from './round-trip.js';
 
 export interface RunOptions {
   maxSteps: number;
@@ -70,6 +71,11 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   const trace = watch.trace();
   if (trace) run.trace = trace;
   if (result.status !== 'ok') return run;
+  try {
+    run.roundTrip = roundTripError(problem, method, setting, result.yFinal, options);
+  } catch (e) {
+    run.roundTrip = null;
+  }
 
   const ref = new Float64Array(n);
   if (referenceLookup(problem).at(problem.tEnd, ref)) {

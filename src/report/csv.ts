@@ -6,7 +6,7 @@ import type { ResultsFile, RunResult } from '../core/results.js';
 export const CSV_COLUMNS = [
   'problem', 'method', 'rtol', 'atol', 'steps', 'h', 'status',
   'error_final', 'error_max', 'drift_max', 'nfev', 'njev', 'nlu', 'accepted', 'rejected', 'time_median_s',
-  'time_samples', 'error_below_reference', 'message',
+  'time_samples', 'error_below_reference', 'round_trip', 'message',
 ] as const;
 
 function cell(v: number | null | undefined): string {
@@ -40,6 +40,7 @@ function row(run: RunResult): string[] {
     cell(run.time.medianSeconds),
     cell(run.time.samples),
     run.errorBelowReference ? 'true' : '',
+    cell(run.roundTrip),
     run.message ?? '',
   ];
 }
