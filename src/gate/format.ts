@@ -26,5 +26,6 @@ export function num3(x: number | string | null): string {
   if (Number.isInteger(x) && Math.abs(x) < 1e9) return String(x);
   if (x === 0) return '0';
   const a = Math.abs(x);
-  return a >= 1e-3 && a < 1e4 ? String(Number(x.toPrecision(3))) : x.toExponential(2);
+  const r = Number(x.toPrecision(3));
+  return a >= 1e-3 && a < 1e4 ? String(r) : r.toExponential().replace('e+', 'e');
 }
