@@ -7,6 +7,7 @@ import {
   cashKarp45,
   dormandPrince54,
   dormandPrince853,
+  embeddedMethod,
   euler,
   explicitMethods,
   fehlberg45,
@@ -18,7 +19,8 @@ import {
   verner65,
   yoshida4,
 } from '../src/methods/explicit/index.js';
-import { decay, exactAt, makeProblem, maxAbsDiff, oscillator, oscillatorEnergy } from './methods-explicit-helpers.js';
+import { DORMAND_PRINCE_54 } from '../src/methods/explicit/tableaus/dormand-prince-54.js';
+import { decay, exactAt, kepler, makeProblem, maxAbsDiff, oscillator, oscillatorEnergy } from './methods-explicit-helpers.js';
 
 const OPTS = { maxSteps: 1_000_000 };
 const adaptive = explicitMethods.filter((m) => m.adaptive);
@@ -359,5 +361,19 @@ describe('dormand-prince-54 dense output', () => {
     const a = dormandPrince54.dense.solve(p, { rtol: 1e-7, atol: 1e-7 }, OPTS);
     const b = dormandPrince54.solve(p, { rtol: 1e-7, atol: 1e-7 }, OPTS);
     expect(a.counts).toEqual(b.counts);
+  });
+});
+
+describe('dormand-prince-54 unrolled kernel', () => {
+  // The kernel must be the generic sweep written out: same steps, same state to rounding.
+  const generic = embeddedMethod({ id: 'dp54-generic', name: 'generic', source: 'test' }, DORMAND_PRINCE_54);
+  it.each([
+    ['oscillator', oscillator(5), 1e-9],
+    ['kepler e=0.6', kepler(0.6, 4 * Math.PI), 1e-10],
+  ] as const)('%s: same counts and final state as the generic engine', (_name, p, tol) => {
+    const a = dormandPrince54.solve(p, { rtol: tol, atol: tol }, OPTS);
+    const b = generic.solve(p, { rtol: tol, atol: tol }, OPTS);
+    expect(a.counts).toEqual(b.counts);
+    expect(maxAbsDiff(a.yFinal, b.yFinal)).toBeLessThan(1e-12);
   });
 });

@@ -29,15 +29,20 @@ export const PI_ERR_FLOOR = 1e-4;
 /** Checking the clock is not free: look every this many attempted steps. */
 export const DEADLINE_EVERY = 16;
 
+// Powers are taken as exp(log(x) * e): Math.pow with a fractional exponent costs about twice as
+// much in V8, and the controller runs once per step.
+
 /** Standard controller: h_new / h = min(facmax, max(facmin, safety * err^(-1/k))). */
 export function standardFactor(err: number, k: number, facMax: number): number {
-  const fac = SAFETY * Math.pow(err, -1 / k);
+  if (!(err > 0)) return facMax;
+  const fac = SAFETY * Math.exp(Math.log(err) * (-1 / k));
   return fac > facMax ? facMax : fac < FAC_MIN ? FAC_MIN : fac;
 }
 
 /** Gustafsson's PI controller: safety * err^(-alpha) * errPrev^beta, clamped like the standard. */
 export function piFactor(err: number, errPrev: number, k: number, facMax: number): number {
-  const fac = SAFETY * Math.pow(err, -PI_ALPHA / k) * Math.pow(errPrev, PI_BETA / k);
+  if (!(err > 0)) return facMax;
+  const fac = SAFETY * Math.exp((Math.log(errPrev) * PI_BETA - Math.log(err) * PI_ALPHA) / k);
   return fac > facMax ? facMax : fac < FAC_MIN ? FAC_MIN : fac;
 }
 

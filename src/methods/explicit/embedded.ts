@@ -68,6 +68,7 @@ export function solveEmbedded(
   const ne2 = e2Col.length;
   const combined = ne2 > 0;
   const last = s - 1;
+  const kernel = tab.kernel;
   const lastFromA = fsal ? last - 1 : last;
   const kExp = tab.controlOrder + 1;
   const usePi = options.controller === 'pi';
@@ -76,6 +77,10 @@ export function solveEmbedded(
   const maxSteps = options.maxSteps;
 
   const K = new Float64Array(s * n);
+  const aOff = offsets(aCol, n);
+  const bOff = offsets(bCol, n);
+  const eOff = offsets(eCol, n);
+  const e2Off = offsets(e2Col, n);
   const kRow: Float64Array[] = [];
   for (let i = 0; i < s; i++) kRow.push(K.subarray(i * n, (i + 1) * n));
   let y = Float64Array.from(problem.y0);
@@ -145,54 +150,63 @@ export function solveEmbedded(
         break;
       }
     }
-    for (let i = 1; i <= lastFromA; i++) {
-      const p0 = aStart[i]!;
-      const p1 = aStart[i + 1]!;
-      for (let j = 0; j < n; j++) {
-        let acc = 0;
-        for (let p = p0; p < p1; p++) acc += aVal[p]! * K[aCol[p]! * n + j]!;
-        yStage[j] = y[j]! + hs * acc;
-      }
-      f(t + c[i]! * hs, yStage, kRow[i]!);
-    }
-    counts.nfev += lastFromA;
-    for (let j = 0; j < n; j++) {
-      let acc = 0;
-      for (let p = 0; p < nb; p++) acc += bVal[p]! * K[bCol[p]! * n + j]!;
-      yNew[j] = y[j]! + hs * acc;
-    }
-    if (fsal) {
-      f(tNew, yNew, kRow[last]!);
-      counts.nfev++;
-    }
-
     let err: number;
-    if (combined) {
-      let s5 = 0;
-      let s3 = 0;
-      for (let j = 0; j < n; j++) {
-        let a5 = 0;
-        for (let p = 0; p < ne; p++) a5 += eVal[p]! * K[eCol[p]! * n + j]!;
-        let a3 = 0;
-        for (let p = 0; p < ne2; p++) a3 += e2Val[p]! * K[e2Col[p]! * n + j]!;
-        const ya = Math.abs(y[j]!);
-        const yb = Math.abs(yNew[j]!);
-        const sk = atol[j]! + rtol * (ya > yb ? ya : yb);
-        a5 /= sk;
-        a3 /= sk;
-        s5 += a5 * a5;
-        s3 += a3 * a3;
-      }
-      let deno = s5 + COMBINED_ERR3_WEIGHT * s3;
-      if (!(deno > 0)) deno = 1;
-      err = Math.abs(hs) * s5 * Math.sqrt(1 / (n * deno));
-    } else {
-      for (let j = 0; j < n; j++) {
-        let acc = 0;
-        for (let p = 0; p < ne; p++) acc += eVal[p]! * K[eCol[p]! * n + j]!;
-        errVec[j] = hs * acc;
-      }
+    if (kernel !== null) {
+      kernel(f, t, tNew, hs, y, yNew, yStage, K, kRow, errVec, n);
+      counts.nfev += last;
       err = scaledRmsNorm(errVec, y, yNew, rtol, atol, n);
+    } else {
+      // Stage sums as axpy sweeps over the nonzero couplings (offsets into K precomputed).
+      for (let i = 1; i <= lastFromA; i++) {
+        for (let j = 0; j < n; j++) yStage[j] = y[j]!;
+        const p1 = aStart[i + 1]!;
+        for (let p = aStart[i]!; p < p1; p++) {
+          const cf = hs * aVal[p]!;
+          const off = aOff[p]!;
+          for (let j = 0; j < n; j++) yStage[j]! += cf * K[off + j]!;
+        }
+        f(t + c[i]! * hs, yStage, kRow[i]!);
+      }
+      counts.nfev += lastFromA;
+      for (let j = 0; j < n; j++) yNew[j] = y[j]!;
+      for (let p = 0; p < nb; p++) {
+        const cf = hs * bVal[p]!;
+        const off = bOff[p]!;
+        for (let j = 0; j < n; j++) yNew[j]! += cf * K[off + j]!;
+      }
+      if (fsal) {
+        f(tNew, yNew, kRow[last]!);
+        counts.nfev++;
+      }
+
+      if (combined) {
+        let s5 = 0;
+        let s3 = 0;
+        for (let j = 0; j < n; j++) {
+          let a5 = 0;
+          for (let p = 0; p < ne; p++) a5 += eVal[p]! * K[eOff[p]! + j]!;
+          let a3 = 0;
+          for (let p = 0; p < ne2; p++) a3 += e2Val[p]! * K[e2Off[p]! + j]!;
+          const ya = Math.abs(y[j]!);
+          const yb = Math.abs(yNew[j]!);
+          const sk = atol[j]! + rtol * (ya > yb ? ya : yb);
+          a5 /= sk;
+          a3 /= sk;
+          s5 += a5 * a5;
+          s3 += a3 * a3;
+        }
+        let deno = s5 + COMBINED_ERR3_WEIGHT * s3;
+        if (!(deno > 0)) deno = 1;
+        err = Math.abs(hs) * s5 * Math.sqrt(1 / (n * deno));
+      } else {
+        for (let j = 0; j < n; j++) errVec[j] = 0;
+        for (let p = 0; p < ne; p++) {
+          const cf = hs * eVal[p]!;
+          const off = eOff[p]!;
+          for (let j = 0; j < n; j++) errVec[j]! += cf * K[off + j]!;
+        }
+        err = scaledRmsNorm(errVec, y, yNew, rtol, atol, n);
+      }
     }
 
     const finite = err === err && allFinite(yNew, n) && (!fsal || allFinite(kRow[last]!, n));
@@ -212,7 +226,10 @@ export function solveEmbedded(
       y = yNew;
       yNew = swap;
       t = tNew;
-      if (fsal) K.copyWithin(0, last * n, s * n);
+      if (fsal) {
+        const off = last * n;
+        for (let j = 0; j < n; j++) K[j] = K[off + j]!;
+      }
       else k0Fresh = false;
       counts.accepted++;
       lastRejected = false;
@@ -233,4 +250,11 @@ export function solveEmbedded(
     }
   }
   return finish(status, message, t, y, counts);
+}
+
+/** Start of each referenced stage row in the flat stage buffer. */
+function offsets(cols: Int32Array, n: number): Int32Array {
+  const out = new Int32Array(cols.length);
+  for (let p = 0; p < cols.length; p++) out[p] = cols[p]! * n;
+  return out;
 }

@@ -5,7 +5,8 @@ import { denseDormandPrince54, type DenseCapability } from './dense-dp54.js';
 import { solveEmbedded } from './embedded.js';
 import { solveFixed } from './fixed.js';
 import { YOSHIDA4_WEIGHTS, VERLET_WEIGHTS, solveVerletComposition } from './symplectic.js';
-import { compileTableau, type Tableau, type TableauData } from './tableau.js';
+import { compileTableau, type StageKernel, type Tableau, type TableauData } from './tableau.js';
+import { dormandPrince54Kernel } from './kernels/dormand-prince-54.js';
 import { BOGACKI_SHAMPINE_32 } from './tableaus/bogacki-shampine-32.js';
 import { CASH_KARP_45 } from './tableaus/cash-karp-45.js';
 import { DORMAND_PRINCE_54 } from './tableaus/dormand-prince-54.js';
@@ -16,7 +17,9 @@ import { TSITOURAS_54 } from './tableaus/tsitouras-54.js';
 import { VERNER_65 } from './tableaus/verner-65.js';
 
 export { dormandPrince54Dense, type DenseCapability, type DenseEvaluate, type DenseSolveResult } from './dense-dp54.js';
-export { compileTableau, type Tableau, type TableauData } from './tableau.js';
+export { compileTableau, type StageKernel, type Tableau, type TableauData } from './tableau.js';
+export { solveEmbedded, type AcceptHook } from './embedded.js';
+export { solveFixed } from './fixed.js';
 
 interface Meta {
   readonly id: string;
@@ -44,8 +47,12 @@ export function fixedStepMethod(meta: Meta, data: TableauData): Method {
   };
 }
 
-export function embeddedMethod(meta: Meta, data: TableauData): Method & { readonly tableau: Tableau } {
-  const tab = compileTableau(data);
+export function embeddedMethod(
+  meta: Meta,
+  data: TableauData,
+  kernel?: StageKernel,
+): Method & { readonly tableau: Tableau } {
+  const tab = compileTableau(data, kernel);
   return {
     ...describe(meta, 'embedded-explicit', data.order, true),
     embeddedOrder: tab.embeddedOrder,
@@ -128,6 +135,7 @@ const dp54Base = embeddedMethod(
     notes: 'dense output: Shampine (1986) 4th-order continuous extension, HNW I sec. II.6',
   },
   DORMAND_PRINCE_54,
+  dormandPrince54Kernel,
 );
 export const dormandPrince54: DenseMethod & { readonly tableau: Tableau } = {
   ...dp54Base,

@@ -1,6 +1,26 @@
 // Explicit Runge-Kutta tableaux as data: authored as plain nested arrays beside their paper,
 // compiled once into Float64Array form (with the zero couplings skipped) for the engines.
 import { InputError } from '../../core/errors.js';
+import type { Rhs } from '../../core/types.js';
+
+/**
+ * Optional straight-line step for one tableau: stages 2..s (the FSAL stage included, evaluated
+ * at tNew), y_new and the error vector h * sum (b_i - bHat_i) k_i, exactly what the generic sweep
+ * computes. Costs s - 1 evaluations.
+ */
+export type StageKernel = (
+  f: Rhs,
+  t: number,
+  tNew: number,
+  h: number,
+  y: Float64Array,
+  yNew: Float64Array,
+  yStage: Float64Array,
+  K: Float64Array,
+  kRow: readonly Float64Array[],
+  errVec: Float64Array,
+  n: number,
+) => void;
 
 /** A tableau as written in its paper: strictly lower triangular A, weights b, nodes c. */
 export interface TableauData {
@@ -53,6 +73,8 @@ export interface Tableau {
    * first stage and costs nothing extra there.
    */
   readonly fsal: boolean;
+  /** Unrolled step, when one exists (single error estimate, FSAL pairs only). */
+  readonly kernel: StageKernel | null;
   readonly data: TableauData;
 }
 
@@ -75,7 +97,7 @@ function difference(b: readonly number[], bHat: readonly number[]): number[] {
   return b.map((v, i) => v - (bHat[i] ?? 0));
 }
 
-export function compileTableau(d: TableauData): Tableau {
+export function compileTableau(d: TableauData, kernel?: StageKernel): Tableau {
   const s = d.c.length;
   if (d.a.length !== s || d.b.length !== s) {
     throw new InputError(`tableau has ${s} nodes but ${d.a.length} rows of A and ${d.b.length} weights`);
@@ -105,6 +127,7 @@ export function compileTableau(d: TableauData): Tableau {
   const es = sparse(d.bHat ? difference(d.b, d.bHat) : []);
   const e2s = sparse(d.bHat2 ? difference(d.b, d.bHat2) : []);
   const embeddedOrder = d.embeddedOrder ?? 0;
+  if (kernel && (!fsal || d.bHat2)) throw new InputError('a stage kernel needs an FSAL pair with one error estimate');
   return {
     stages: s,
     order: d.order,
@@ -121,6 +144,7 @@ export function compileTableau(d: TableauData): Tableau {
     e2Col: e2s.col,
     e2Val: e2s.val,
     fsal,
+    kernel: kernel ?? null,
     data: d,
   };
 }
