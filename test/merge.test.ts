@@ -77,6 +77,19 @@ describe('mergeResults', () => {
     expect(() => mergeResults([v2])).toThrow(/^v2\.json: is stepgauge-results version 2/);
   });
 
+  it('keeps top-level extras, dropping each shard\'s own shard entry and joining lists', () => {
+    const files = shardFiles(syntheticSweep(), 2);
+    files.forEach((f, k) => {
+      f.results.plan = { sha256: PLAN, runs: 18 };
+      f.results.request = { tolerances: [1e-3], shard: { index: k + 1, count: 2 } };
+      f.results.methods = [{ id: 'm-adaptive' }, { id: k === 0 ? 'm-fixed' : 'm-adaptive' }];
+    });
+    const merged = mergeResults(files);
+    expect(merged.plan).toEqual({ sha256: PLAN, runs: 18 });
+    expect(merged.request).toEqual({ tolerances: [1e-3] });
+    expect(merged.methods).toEqual([{ id: 'm-adaptive' }, { id: 'm-fixed' }]);
+  });
+
   it('joins separate sweeps in the order given and marks interrupted input', () => {
     const a = { path: 'a.json', results: syntheticResults([syntheticRun({ problem: 'zeta' })]) };
     const b = { path: 'b.json', results: syntheticResults([syntheticRun({ problem: 'alpha' })], { interrupted: true }) };

@@ -85,7 +85,7 @@ export interface Comparison {
   ok: boolean;
   options: ResolvedOptions;
   summary: { baselineRuns: number; currentRuns: number; compared: number; missing: number; added: number; regressions: number; improvements: number };
-  /** Baseline runs and new runs, sorted by key. */
+  /** Baseline runs and new runs: by problem, method, then loose to tight setting. */
   runs: RunComparison[];
   regressions: Finding[];
   improvements: Finding[];
@@ -173,7 +173,7 @@ export function compareResults(baseline: Baseline | ResultsFile, current: Baseli
     rc.notes.push('not in the baseline (new run; not checked)');
     runs.push(rc);
   }
-  runs.sort((x, y) => (x.key < y.key ? -1 : x.key > y.key ? 1 : 0));
+  runs.sort(readingOrder);
   const missingAllowed = runs.filter((r) => r.state === 'missing').length;
   if (opt.allowMissing && missingAllowed > 0) warnings.push(`${missingAllowed} baseline run(s) missing from ${cur.label} (allowed)`);
   const regressions = runs.flatMap((r) => r.regressions);
@@ -195,6 +195,19 @@ export function compareResults(baseline: Baseline | ResultsFile, current: Baseli
     improvements,
     warnings,
   };
+}
+
+const text = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+
+/** Reading order for reports: loose to tight tolerance, few to many steps, as a sweep goes. */
+function readingOrder(x: RunComparison, y: RunComparison): number {
+  const byName = text(x.problem, y.problem) || text(x.method, y.method);
+  if (byName !== 0) return byName;
+  const sx = x.setting;
+  const sy = y.setting;
+  if ('rtol' in sx && 'rtol' in sy && sx.rtol !== sy.rtol) return sy.rtol - sx.rtol;
+  if ('steps' in sx && 'steps' in sy && sx.steps !== sy.steps) return sx.steps - sy.steps;
+  return text(x.key, y.key);
 }
 
 function indexRuns(set: GateSet): Map<string, BaselineRun> {

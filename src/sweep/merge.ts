@@ -48,13 +48,57 @@ export function mergeResults(files: MergeInput[], onWarning: (message: string) =
   if (distinctEnv.size > 1) onWarning(`the merged files come from ${distinctEnv.size} different environments; the merged environment is that of ${ordered[0]!.path}`);
 
   const createdAt = ordered.map((f) => f.results.createdAt).reduce((a, b) => (b > a ? b : a));
-  const out: ResultsFile = { format: RESULTS_FORMAT, version: RESULTS_VERSION, createdAt, environment, runs, problems };
+  const out: ResultsFile = { format: RESULTS_FORMAT, version: RESULTS_VERSION, createdAt, environment, runs, problems, ...mergeExtras(ordered, onWarning) };
   const interrupted = ordered.filter((f) => f.results.interrupted);
   if (interrupted.length > 0) {
     out.interrupted = true;
     onWarning(`interrupted sweep(s) merged: ${interrupted.map((f) => f.path).join(', ')}; the merged file is marked interrupted`);
   }
   return out;
+}
+
+const CONTRACT_KEYS = new Set(['format', 'version', 'createdAt', 'environment', 'runs', 'problems', 'interrupted', 'shard']);
+
+/**
+ * Top-level fields beyond the contract (plan, request, method list, ...). Equal everywhere: kept.
+ * A nested `shard` entry is a shard's own identity and is dropped before comparing. Arrays are
+ * joined (by `id` where elements have one). Anything else keeps the first file's value, with a
+ * warning, rather than inventing a combination.
+ */
+function mergeExtras(files: MergeInput[], onWarning: (m: string) => void): Record<string, unknown> {
+  const keys: string[] = [];
+  for (const f of files) for (const k of Object.keys(f.results)) if (!CONTRACT_KEYS.has(k) && !keys.includes(k)) keys.push(k);
+  const out: Record<string, unknown> = {};
+  for (const k of keys) {
+    const present = files.filter((f) => f.results[k] !== undefined);
+    const values = present.map((f) => withoutShard(f.results[k]));
+    const texts = values.map((v) => JSON.stringify(v));
+    if (present.length === files.length && texts.every((t) => t === texts[0])) {
+      out[k] = values[0];
+    } else if (values.every(Array.isArray)) {
+      const seen = new Set<string>();
+      const joined: unknown[] = [];
+      for (const item of (values as unknown[][]).flat()) {
+        const id = (item as { id?: unknown } | null)?.id;
+        const key = typeof id === 'string' ? `id:${id}` : JSON.stringify(item);
+        if (!seen.has(key)) {
+          seen.add(key);
+          joined.push(item);
+        }
+      }
+      out[k] = joined;
+    } else {
+      out[k] = values[0];
+      onWarning(`field "${k}" differs between the merged files; kept the value from ${present[0]!.path}`);
+    }
+  }
+  return out;
+}
+
+function withoutShard(v: unknown): unknown {
+  if (typeof v !== 'object' || v === null || Array.isArray(v) || !('shard' in v)) return v;
+  const { shard: _shard, ...rest } = v as Record<string, unknown>;
+  return rest;
 }
 
 /** Validates the shard set and returns the files in shard order (or as given when unsharded). */
