@@ -62,7 +62,7 @@ export function parseStructuredText(file: string, text: string): StructuredFile 
     throw new InputError(`problem files must end in .yaml, .yml or .json (got '${ext || 'no extension'}')`, file);
   }
   const counter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter: counter, prettyErrors: false, uniqueKeys: true });
+  const doc = parseDocument(text, { lineCounter: counter, prettyErrors: true, uniqueKeys: true });
   let data: unknown;
   if (ext === '.json') {
     try {
