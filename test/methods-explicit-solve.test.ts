@@ -377,3 +377,14 @@ describe('dormand-prince-54 unrolled kernel', () => {
     expect(maxAbsDiff(a.yFinal, b.yFinal)).toBeLessThan(1e-12);
   });
 });
+
+describe('automatic initial step (HNW I, sec. II.4 starting step size)', () => {
+  it("y' = -y, y0 = 1, rtol = atol = 1e-6, order 5: first step (0.01 / 5e5)^(1/6)", () => {
+    // By hand from the algorithm: sc = 2e-6, d0 = d1 = 5e5, h0 = 0.01, d2 = |f1 - f0| / h0 / sc = 5e5,
+    // h1 = (0.01 / max(d1, d2))^(1/(p+1)) = (2e-8)^(1/6), h = min(100 h0, h1).
+    const ts: number[] = [];
+    const r = dormandPrince54.solve(decay(1), { rtol: 1e-6, atol: 1e-6 }, { ...OPTS, observer: (t) => ts.push(t) });
+    expect(r.counts.rejected).toBe(0);
+    expect(Math.abs(ts[1]! - (2e-8) ** (1 / 6)) / ts[1]!).toBeLessThan(1e-14);
+  });
+});

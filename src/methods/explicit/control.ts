@@ -48,8 +48,8 @@ export function piFactor(err: number, errPrev: number, k: number, facMax: number
 
 /**
  * Initial step of Hairer, Norsett and Wanner, Solving ODEs I, sec. II.4 ("Starting step size"):
- * one extra f evaluation at t0 + h0 (the caller counts it). f0 = f(t0, y0) is given. y1 and f1
- * are scratch buffers of length n.
+ * one extra f evaluation at t0 + h0 (the caller counts it). f0 = f(t0, y0) is given; `order` is
+ * the order of the method (p in the book). y1 and f1 are scratch buffers of length n.
  */
 export function initialStep(
   f: Rhs,

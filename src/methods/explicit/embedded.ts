@@ -98,7 +98,7 @@ export function solveEmbedded(
   let h: number;
   if (options.initialStep !== undefined) h = Math.min(options.initialStep, tEnd - t0);
   else {
-    h = initialStep(f, t0, y, kRow[0]!, kExp - 1, rtol, atol, tEnd - t0, yStage, kRow[1 % s]!, n);
+    h = initialStep(f, t0, y, kRow[0]!, tab.order, rtol, atol, tEnd - t0, yStage, kRow[1 % s]!, n);
     counts.nfev++;
   }
   if (observer) observer(t, y);

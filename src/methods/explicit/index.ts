@@ -47,16 +47,14 @@ export function fixedStepMethod(meta: Meta, data: TableauData): Method {
   };
 }
 
-export function embeddedMethod(
-  meta: Meta,
-  data: TableauData,
-  kernel?: StageKernel,
-): Method & { readonly tableau: Tableau } {
-  const tab = compileTableau(data, kernel);
+export function embeddedMethod(meta: Meta, data: TableauData, kernel?: StageKernel): Method {
+  return embeddedFromTableau(meta, compileTableau(data, kernel));
+}
+
+function embeddedFromTableau(meta: Meta, tab: Tableau): Method {
   return {
-    ...describe(meta, 'embedded-explicit', data.order, true),
+    ...describe(meta, 'embedded-explicit', tab.order, true),
     embeddedOrder: tab.embeddedOrder,
-    tableau: tab,
     solve: (problem: Problem, setting: Setting, options: SolveOptions): SolveResult =>
       solveEmbedded(tab, meta.id, problem, setting, options),
   };
@@ -127,19 +125,16 @@ export const cashKarp45 = embeddedMethod(
   },
   CASH_KARP_45,
 );
-const dp54Base = embeddedMethod(
-  {
-    id: 'dormand-prince-54',
-    name: 'Dormand-Prince 5(4)',
-    source: 'J. R. Dormand and P. J. Prince, A family of embedded Runge-Kutta formulae, J. Comput. Appl. Math. 6 (1980) 19-26',
-    notes: 'dense output: Shampine (1986) 4th-order continuous extension, HNW I sec. II.6',
-  },
-  DORMAND_PRINCE_54,
-  dormandPrince54Kernel,
-);
-export const dormandPrince54: DenseMethod & { readonly tableau: Tableau } = {
-  ...dp54Base,
-  dense: denseDormandPrince54(dp54Base.tableau, dp54Base.id),
+const DP54_TABLEAU = compileTableau(DORMAND_PRINCE_54, dormandPrince54Kernel);
+const DP54_META: Meta = {
+  id: 'dormand-prince-54',
+  name: 'Dormand-Prince 5(4)',
+  source: 'J. R. Dormand and P. J. Prince, A family of embedded Runge-Kutta formulae, J. Comput. Appl. Math. 6 (1980) 19-26',
+  notes: 'dense output: Shampine (1986) 4th-order continuous extension, HNW I sec. II.6',
+};
+export const dormandPrince54: DenseMethod = {
+  ...embeddedFromTableau(DP54_META, DP54_TABLEAU),
+  dense: denseDormandPrince54(DP54_TABLEAU, DP54_META.id),
 };
 export const tsitouras54 = embeddedMethod(
   {
