@@ -18,9 +18,10 @@ export const UNDERFLOW_ULPS = 16;
  */
 export const LANDING_STRETCH = 1 + 1e-6;
 /**
- * PI controller exponents alpha = 0.7/k, beta = 0.4/k with k = q + 1: K. Gustafsson, "Control
+ * PI controller h_new = h * safety * err^(-alpha) * errPrev^beta with alpha = 0.7/k, beta = 0.4/k
+ * (k = q + 1), i.e. integral gain 0.3/k and proportional gain 0.4/k: K. Gustafsson, "Control
  * theoretic techniques for stepsize selection in explicit Runge-Kutta methods", ACM Trans. Math.
- * Softw. 17 (1991) 533-554 (values as recommended there; quoted from memory).
+ * Softw. 17 (1991) 533-554; the same form in HNW II, sec. IV.2. Values quoted from memory.
  */
 export const PI_ALPHA = 0.7;
 export const PI_BETA = 0.4;
