@@ -1,5 +1,6 @@
 // CLI entry: builds the command tree and maps failures to exit codes
-// (0 success, 1 a check or run failed, 2 bad input, 130 interrupted).
+// (0 success, 1 a check found regressions or nothing met a target, 2 bad input,
+// 3 a sweep completed with failed runs, 130 interrupted).
 import { Command, CommanderError } from 'commander';
 import { isInputError, messageOf } from '../core/errors.js';
 import { commands } from './commands/index.js';

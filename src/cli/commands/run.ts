@@ -165,6 +165,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
         log(summaryText(results));
         log(`\nwrote ${join(outDir, 'results.json')}, results.csv${flags.report ? ', report.html, report.md and plots/' : ''}`);
       }
-      if (results.runs.some((r) => r.status !== 'ok')) setExit(1);
+      // 3: the sweep completed and was written, but some runs ended with a failure status.
+      if (results.runs.some((r) => r.status !== 'ok')) setExit(3);
     });
 };
