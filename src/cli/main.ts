@@ -1,6 +1,6 @@
 // CLI entry: builds the command tree and maps failures to exit codes
 // (0 success, 1 a check found regressions or nothing met a target, 2 bad input,
-// 3 a sweep completed with failed runs, 130 interrupted).
+// 3 a sweep completed with failed runs, 70 internal error, 130 interrupted).
 import { Command, CommanderError } from 'commander';
 import { isInputError, messageOf } from '../core/errors.js';
 import { commands } from './commands/index.js';
@@ -33,6 +33,7 @@ export async function main(argv: string[]): Promise<number> {
     }
     process.stderr.write(`stepgauge: internal error: ${messageOf(e)}\n`);
     if (process.env.STEPGAUGE_DEBUG) process.stderr.write(`${(e as Error).stack ?? ''}\n`);
-    return 1;
+    else process.stderr.write('stepgauge: set STEPGAUGE_DEBUG=1 for a stack trace, and please report this\n');
+    return 70;
   }
 }
