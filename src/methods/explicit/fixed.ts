@@ -1,5 +1,6 @@
 // The one engine for fixed-step explicit Runge-Kutta methods: equal steps h = (tEnd - t0)/steps
-// over the span with any compiled tableau. Buffers allocated once per solve.
+// over the span with any compiled tableau. Buffers allocated once per solve. options.checkTimes
+// does not apply: the grid is fixed by the setting, and moving a step would change the method.
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
