@@ -30,9 +30,8 @@ const BINARY: Record<string, string> = { add: '+', subtract: '-', multiply: '*',
 const COMPARE: Record<string, string> = {
   smaller: '<', larger: '>', smallerEq: '<=', largerEq: '>=', equal: '===', unequal: '!==',
 };
-const RELATIONAL_OPS: Record<string, string> = {
-  '<': '<', '>': '>', '<=': '<=', '>=': '>=', '==': '===', '!=': '!==',
-};
+/** RelationalNode (chained comparisons, `a < b < c`) names its comparisons by function name. */
+const RELATIONAL_OPS: Record<string, string> = COMPARE;
 
 const CONSTRUCT_NAMES: Record<string, string> = {
   AccessorNode: 'property access or indexing',
