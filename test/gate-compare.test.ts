@@ -127,6 +127,15 @@ describe('compareResults', () => {
     expect(c.summary).toMatchObject({ compared: 1, missing: 1, added: 1 });
   });
 
+  it('warns when the current file is a single shard or an interrupted sweep', () => {
+    const shard = syntheticResults([syntheticRun()], { shard: { index: 2, count: 3, planSha256: 'p' }, interrupted: true });
+    const c = compareResults(base, shard, { labels: { current: 's2.json' } });
+    expect(c.warnings).toEqual([
+      's2.json is shard 2/3; runs of the other shards count as missing (merge the shards first)',
+      "s2.json is from an interrupted sweep; runs it did not reach count as missing",
+    ]);
+  });
+
   it('warns when a problem definition changed', () => {
     const changed = syntheticResults([syntheticRun()]);
     changed.problems[0]!.sha256 = 'sha-other';

@@ -137,6 +137,9 @@ export function compareResults(baseline: Baseline | ResultsFile, current: Baseli
   const curRuns = indexRuns(cur);
   if (opt.timeFactor !== null) requireCalibration(base, baseRuns, 'baseline');
   if (opt.timeFactor !== null) requireCalibration(cur, curRuns, 'current');
+  if ('environment' in current && current.shard) {
+    warnings.push(`${cur.label} is shard ${current.shard.index}/${current.shard.count}; runs of the other shards count as missing (merge the shards first)`);
+  }
   if (cur.interrupted) warnings.push(`${cur.label} is from an interrupted sweep; runs it did not reach count as missing`);
 
   const changedProblems = new Set<string>();
