@@ -5,6 +5,7 @@ import { RESULTS_FORMAT, RESULTS_VERSION } from '../core/results.js';
 import { sha256 } from '../core/hash.js';
 import { environmentFingerprint } from '../measure/environment.js';
 import { calibrationSeconds } from '../measure/timing.js';
+import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 import { resolve as resolvePath } from 'node:path';
 import { executeRun, type ExecuteOptions } from './execute.js';
 import { DEFAULT_STEPS, DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
@@ -30,7 +31,16 @@ export function problemRecord(p: Problem): ProblemRecord {
   const ref: ProblemRecord['reference'] = { kind: p.reference.kind };
   if (p.reference.digits !== undefined) ref.digits = p.reference.digits;
   if (p.reference.source !== undefined) ref.source = p.reference.source;
-  return { id: p.id, title: p.title, sha256: sha256(p.definition), stiff: p.stiff, reference: ref, source: p.source, dimension: p.dimension };
+  return {
+    id: p.id,
+    title: p.title,
+    sha256: sha256(p.definition),
+    stiff: p.stiff,
+    reference: ref,
+    source: p.source,
+    dimension: p.dimension,
+    stiffnessRatio: problemStiffnessRatio(p),
+  };
 }
 
 export function methodRecord(m: Method): Record<string, unknown> {

@@ -11,7 +11,7 @@ export const registerList: RegisterCommand = (program) => {
     .option('--json', 'print { methods, problems } as JSON')
     .action(async (flags: { json?: boolean }) => {
       const methods = builtinMethods().map(methodRecord);
-      const problems = catalogue.map((p) => ({ ...problemRecord(p), stiffnessRatio: stiffnessOf(p.id) }));
+      const problems = catalogue.map(problemRecord);
       if (flags.json) {
         process.stdout.write(`${JSON.stringify({ methods, problems }, null, 2)}\n`);
         return;
@@ -19,7 +19,8 @@ export const registerList: RegisterCommand = (program) => {
       const out: string[] = ['Problems'];
       for (const p of problems) {
         const ref = p.reference.kind + (p.reference.digits ? `, ${p.reference.digits} digits` : '');
-        out.push(`  ${p.id.padEnd(26)} ${p.stiff ? 'stiff   ' : 'non-stiff'} ${String(p.dimension).padStart(2)} states  reference ${ref}`);
+        const ratio = p.stiffnessRatio ? `stiffness ratio ${p.stiffnessRatio.toExponential(1)}` : 'stiffness ratio n/a';
+        out.push(`  ${p.id.padEnd(26)} ${p.stiff ? 'stiff    ' : 'non-stiff'} ${String(p.dimension).padStart(2)} states  reference ${ref}; ${ratio}`);
         out.push(`  ${''.padEnd(26)} ${p.title}; ${String(p.source)}`);
       }
       out.push('', 'Methods');
@@ -31,7 +32,3 @@ export const registerList: RegisterCommand = (program) => {
       process.stdout.write(`${out.join('\n')}\n`);
     });
 };
-
-function stiffnessOf(_id: string): number | null {
-  return null;
-}
