@@ -3,6 +3,7 @@
 import { CAUTION_TEXT, CAUTION_TITLE } from './caution.js';
 import { escapeHtml as h } from './escape.js';
 import { integer, settingLabel, sig3 } from './format.js';
+import { decadeLabel } from './plots/axes.js';
 import type { ProblemSection, ReportModel } from './model.js';
 import type { BestAtLevel } from './summary.js';
 import { COLUMNS, tableRows } from './table.js';
@@ -26,6 +27,8 @@ figure { margin: 20px 0; }
 figure img { display: block; width: 100%; max-width: 1200px; height: auto; border: 1px solid var(--line); }
 figcaption { color: var(--muted); font-size: 13px; margin-top: 4px; }
 .omitted { border-left: 4px solid var(--line); padding: 6px 12px; color: var(--muted); }
+/* Wide tables scroll inside the page instead of pushing it sideways. */
+.scroll { overflow-x: auto; max-width: 100%; }
 table { border-collapse: collapse; font-size: 13px; margin: 8px 0 16px; }
 th, td { border-bottom: 1px solid var(--line); padding: 4px 8px; text-align: left; vertical-align: top; }
 th { background: var(--band); font-weight: 600; white-space: nowrap; }
@@ -87,14 +90,19 @@ function summaryHtml(m: ReportModel): string {
   }
   let best = '<p>No ok run reached any of the summary error levels.</p>';
   if (s.levels.length > 0) {
-    const head = s.levels.map((l) => `<th>error ≤ ${h(sig3(l))}: fewest evaluations</th><th>error ≤ ${h(sig3(l))}: least time</th>`).join('');
+    const head = s.levels
+      .map((l) => {
+        const level = h(decadeLabel(l) ?? sig3(l));
+        return `<th>error ≤ ${level}: fewest evaluations</th><th>error ≤ ${level}: least time</th>`;
+      })
+      .join('');
     const rows = s.best
       .map((b) => {
         const title = m.sections.find((x) => x.id === b.problem)?.title ?? b.problem;
         return `<tr><td>${h(title)}</td>${b.levels.map((l) => bestCell(l.byNfev, 'nfev', m) + bestCell(l.byTime, 'time', m)).join('')}</tr>`;
       })
       .join('\n');
-    best = `<table><thead><tr><th>problem</th>${head}</tr></thead><tbody>${rows}</tbody></table>
+    best = `<div class="scroll"><table><thead><tr><th>problem</th>${head}</tr></thead><tbody>${rows}</tbody></table></div>
 <p class="sub">Among runs with status ok whose final error is at or below the level; ties go to the method listed first in the results file. Time is median wall time and carries timing noise; evaluation counts are exact.</p>`;
   }
   return `<section id="summary"><h2>Summary</h2>${flags.join('')}
@@ -113,7 +121,7 @@ function environmentHtml(m: ReportModel): string {
   return `<section id="environment"><h2>Environment fingerprint</h2>
 <table><tbody>${env}</tbody></table>
 <h3>Problems and their references</h3>
-<table><thead><tr><th>id</th><th>title</th><th>stiff</th><th>reference</th><th class="num">digits</th><th>source</th><th>sha256 of definition</th></tr></thead><tbody>${probs}</tbody></table></section>`;
+<div class="scroll"><table><thead><tr><th>id</th><th>title</th><th>stiff</th><th>reference</th><th class="num">digits</th><th>source</th><th>sha256 of definition</th></tr></thead><tbody>${probs}</tbody></table></div></section>`;
 }
 
 function sectionHtml(sec: ProblemSection, m: ReportModel): string {
@@ -143,9 +151,9 @@ function sectionHtml(sec: ProblemSection, m: ReportModel): string {
 ${figs}
 <h3>Runs</h3>
 <p class="sub">Click a column header to sort. Measured values to 3 significant digits, work counts exact; results.json keeps full precision.</p>
-<table class="sortable"><thead><tr>${head}</tr></thead><tbody>
+<div class="scroll"><table class="sortable"><thead><tr>${head}</tr></thead><tbody>
 ${rows}
-</tbody></table></section>`;
+</tbody></table></div></section>`;
 }
 
 export function renderHtml(m: ReportModel): string {

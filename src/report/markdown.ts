@@ -3,6 +3,7 @@
 import { CAUTION_TEXT, CAUTION_TITLE } from './caution.js';
 import { escapeMarkdown as e } from './escape.js';
 import { integer, settingLabel, sig3 } from './format.js';
+import { decadeLabel } from './plots/axes.js';
 import type { ReportModel } from './model.js';
 import type { BestAtLevel } from './summary.js';
 import { COLUMNS, tableRows } from './table.js';
@@ -36,7 +37,8 @@ export function renderMarkdown(m: ReportModel): string {
   out.push('### Cheapest method reaching each error level', '');
   if (s.levels.length === 0) out.push('No ok run reached any of the summary error levels.', '');
   else {
-    const header = ['problem', ...s.levels.flatMap((l) => [`error ≤ ${sig3(l)}: fewest evaluations`, `error ≤ ${sig3(l)}: least time`])];
+    const level = (l: number) => decadeLabel(l) ?? sig3(l);
+    const header = ['problem', ...s.levels.flatMap((l) => [`error ≤ ${level(l)}: fewest evaluations`, `error ≤ ${level(l)}: least time`])];
     const rows = s.best.map((b) => [
       e(m.sections.find((x) => x.id === b.problem)?.title ?? b.problem),
       ...b.levels.flatMap((l) => [best(l.byNfev, 'nfev', m), best(l.byTime, 'time', m)]),
