@@ -10,10 +10,11 @@ export function escapeHtml(s: string): string {
 
 /**
  * Safe as Markdown inline text and inside a table cell: HTML-escaped (renderers pass raw HTML
- * through), Markdown punctuation backslash-escaped, line breaks folded so a cell stays one row.
+ * through), emphasis, code, link brackets, strike and table pipes backslash-escaped (a link cannot
+ * open without `[`), line breaks folded so a cell stays one row.
  */
 export function escapeMarkdown(s: string): string {
   return escapeHtml(String(s))
-    .replace(/[\\`*_[\]{}()#+!|~]/g, (c) => `\\${c}`)
+    .replace(/[\\`*_[\]|~]/g, (c) => `\\${c}`)
     .replace(/\r?\n|\r/g, ' ');
 }
