@@ -46,6 +46,12 @@ export interface SeparableSplit {
   readonly velocities: readonly number[];
 }
 
+/** Output map y = g(t, x) (like y = Cx + Du): written into out (length names.length), never allocates. */
+export interface ProblemOutputs {
+  readonly names: readonly string[];
+  readonly fn: (t: number, y: Float64Array, out: Float64Array) => void;
+}
+
 export interface Problem {
   /** kebab-case id, unique in a sweep. */
   readonly id: string;
@@ -74,6 +80,11 @@ export interface Problem {
   readonly separable?: SeparableSplit;
   /** Absolute tolerance to use when the user gives only rtol: atol = rtol * atolScale (default 1). */
   readonly atolScale?: number | readonly number[];
+  /** Outputs computed from the state; the error is measured on them when errorOn is 'outputs'. */
+  readonly outputs?: ProblemOutputs;
+  readonly errorOn?: 'states' | 'outputs';
+  /** Why no separable split exists (said when a symplectic method is refused). */
+  readonly separableReason?: string;
   /** Canonical text of the definition, hashed (SHA-256) so auditors can tell two problems apart. */
   readonly definition: string;
 }

@@ -1,6 +1,6 @@
 // Global error of a state against the reference, in the problem's own error scale
 // (the design's `error.final` / `error.max` definition: max over components of |y_i - ref_i| / scale_i).
-import type { ErrorScale } from '../core/types.js';
+import type { ErrorScale, Problem } from '../core/types.js';
 
 /** Per-component floors for relative scales, expanded once per run. */
 export function scaleFloors(scale: ErrorScale, n: number): Float64Array | null {
@@ -25,4 +25,26 @@ export function scaledMaxError(y: ArrayLike<number>, ref: ArrayLike<number>, flo
     if (!(e <= worst)) worst = e; // NaN propagates as the worst value
   }
   return worst;
+}
+
+/**
+ * The problem's error measure as one function of (t, state, reference state): on the states, or
+ * on the outputs computed from both when the problem measures error on its outputs.
+ */
+export function errorMeter(problem: Problem): (t: number, y: Float64Array, ref: Float64Array) => number {
+  const outputs = problem.errorOn === 'outputs' ? problem.outputs : undefined;
+  if (!outputs) {
+    const floors = scaleFloors(problem.errorScale, problem.dimension);
+    const n = problem.dimension;
+    return (_t, y, ref) => scaledMaxError(y, ref, floors, n);
+  }
+  const m = outputs.names.length;
+  const floors = scaleFloors(problem.errorScale, m);
+  const gy = new Float64Array(m);
+  const gr = new Float64Array(m);
+  return (t, y, ref) => {
+    outputs.fn(t, y, gy);
+    outputs.fn(t, ref, gr);
+    return scaledMaxError(gy, gr, floors, m);
+  };
 }

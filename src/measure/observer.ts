@@ -2,7 +2,7 @@
 // exists, the worst drift of every invariant, and a thinned drift trace for plots.
 import type { Problem } from '../core/types.js';
 import type { DriftTrace } from '../core/results.js';
-import { scaleFloors, scaledMaxError } from './error-norm.js';
+import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';
 
 /** Number of time buckets the drift trace is thinned to (one sample per bucket). */
@@ -25,7 +25,7 @@ export interface RunWatch {
 export function watchRun(problem: Problem): RunWatch {
   const n = problem.dimension;
   const lookup = referenceLookup(problem);
-  const floors = scaleFloors(problem.errorScale, n);
+  const meter = errorMeter(problem);
   const ref = new Float64Array(n);
   const invariants = problem.invariants;
   const initial = new Float64Array(invariants.length);
@@ -56,7 +56,7 @@ export function watchRun(problem: Problem): RunWatch {
       if (compare) lastErrorBucket = bucket;
     }
     if (compare && lookup.at(t, ref)) {
-      const e = scaledMaxError(y, ref, floors, n);
+      const e = meter(t, y, ref);
       compared++;
       if (!(e <= worstError)) worstError = e;
     }

@@ -4,7 +4,7 @@ import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../cor
 import { isAdaptiveSetting, zeroCounts } from '../core/types.js';
 import type { RunResult, RunSetting } from '../core/results.js';
 import { messageOf } from '../core/errors.js';
-import { scaleFloors, scaledMaxError } from './error-norm.js';
+import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';
 import { watchRun } from './observer.js';
 import { roundTripError } from './round-trip.js';
@@ -79,7 +79,7 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
 
   const ref = new Float64Array(n);
   if (referenceLookup(problem).at(problem.tEnd, ref)) {
-    const final = scaledMaxError(result.yFinal, ref, scaleFloors(problem.errorScale, n), n);
+    const final = errorMeter(problem)(problem.tEnd, result.yFinal, ref);
     const along = watch.maxError();
     run.error = { final, max: along === null ? final : Math.max(along, final) };
     const resolution = referenceResolution(problem, ref);

@@ -1,12 +1,8 @@
 // What a problem loaded from a user's file carries beyond the core Problem. These fields are
 // optional for every other problem; consumers check for them.
-import type { Problem } from '../core/types.js';
+import type { Problem, ProblemOutputs } from '../core/types.js';
 
-/** Output map y = g(t, x): written into out (length names.length), never allocates. */
-export interface ProblemOutputs {
-  readonly names: readonly string[];
-  readonly fn: (t: number, y: Float64Array, out: Float64Array) => void;
-}
+export type { ProblemOutputs };
 
 export interface UserProblemExtras {
   /** Where the Jacobian comes from: generated from the equations, or left to finite differences. */

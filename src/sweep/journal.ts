@@ -1,6 +1,6 @@
 // The sweep journal: one JSON line per finished run, appended as each run ends, so a crash, a
 // Ctrl-C or a killed CI job loses at most the runs in flight. `run --resume` reads it back.
-import { appendFileSync, existsSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { appendFileSync, existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { RunResult } from '../core/results.js';
 import { InputError } from '../core/errors.js';
@@ -25,6 +25,7 @@ export class Journal {
   readonly path: string;
   constructor(outDir: string, header: Omit<JournalHeader, 'kind' | 'version'>, keep: readonly RunResult[] = []) {
     this.path = journalPath(outDir);
+    mkdirSync(dirname(this.path), { recursive: true });
     const head: JournalHeader = { kind: JOURNAL_KIND, version: JOURNAL_VERSION, ...header };
     writeFileSync(this.path, [head, ...keep].map((x) => JSON.stringify(x)).join('\n') + '\n');
   }

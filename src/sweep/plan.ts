@@ -52,7 +52,7 @@ export function decades(loose: number, tight: number): number[] {
 /** Why a method does not pair with a problem by default (null when it does). */
 export function pairingGap(problem: Problem, method: Method): string | null {
   if (method.needsSeparable && !problem.separable) {
-    const why = (problem as { separableReason?: string }).separableReason;
+    const why = problem.separableReason;
     return `${method.id} needs a separable problem (positions driven only by velocities, velocities only by positions and t)${why ? `: ${why}` : ''}`;
   }
   if (problem.stiff && !method.stiff) return `${problem.id} is stiff and ${method.id} is not meant for stiff problems`;

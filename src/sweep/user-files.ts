@@ -1,11 +1,27 @@
-// Loading user problem and method files (YAML/JSON problem files, TypeScript/JavaScript modules).
+// Loading user problem and method files: YAML/JSON problem files and TypeScript/JavaScript modules.
+import { existsSync, statSync } from 'node:fs';
+import { extname } from 'node:path';
 import type { Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
+import { loadProblemFile } from '../problems/load-file.js';
+import { loadMethodModule, loadProblemModule } from '../problems/module-loader.js';
+
+const MODULE = /\.(?:[cm]?[jt]s)$/i;
+
+function assertFile(path: string, flag: string): void {
+  if (!existsSync(path)) throw new InputError(`file not found`, `${flag} ${path}`);
+  if (!statSync(path).isFile()) throw new InputError(`expected a file, found a folder`, `${flag} ${path}`);
+}
 
 export async function loadUserProblem(path: string): Promise<Problem> {
-  throw new InputError('user problem files are not supported yet', path);
+  assertFile(path, '--problem');
+  if (MODULE.test(path)) return loadProblemModule(path);
+  if (/\.(ya?ml|json)$/i.test(path)) return loadProblemFile(path);
+  throw new InputError(`unknown problem file type '${extname(path)}'; expected .yaml, .yml, .json, .ts or .js`, `--problem ${path}`);
 }
 
 export async function loadUserMethod(path: string): Promise<Method> {
-  throw new InputError('user method modules are not supported yet', path);
+  assertFile(path, '--method');
+  if (!MODULE.test(path)) throw new InputError(`a method is a module; expected a .ts or .js file`, `--method ${path}`);
+  return loadMethodModule(path);
 }

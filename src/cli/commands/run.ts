@@ -15,6 +15,7 @@ import { DEFAULT_TIMING } from '../../measure/timing.js';
 import { writeFolderAtomically } from '../../report/atomic.js';
 import { resultsCsv } from '../../report/csv.js';
 import { resultsJson } from '../../report/json.js';
+import { writeReport } from '../../report/index.js';
 import type { ResultsFile } from '../../core/results.js';
 import { InputError } from '../../core/errors.js';
 import { Journal, readJournal } from '../../sweep/journal.js';
@@ -77,9 +78,6 @@ export async function writeSweepFolder(outDir: string, results: ResultsFile, wit
     await writeFile(join(tmp, 'results.json'), resultsJson(results));
     await writeFile(join(tmp, 'results.csv'), resultsCsv(results));
     if (withReport) {
-      // TEMPORARY until the report module lands: resolved at run time.
-      const reportModule: string = '../../report/index.js';
-      const { writeReport } = (await import(reportModule)) as { writeReport: (r: unknown, d: string) => Promise<unknown> };
       await writeReport(results, tmp);
     }
   });
@@ -117,8 +115,10 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
       const log = (s: string) => (flags.json ? process.stderr : process.stdout).write(`${s}\n`);
       let progress: ProgressLine = { update() {}, stop() {} };
       req.onPlan = (plan, selected) => {
-        if (req.method !== undefined || req.problem !== undefined) {
-          for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
+        // Pairs the user asked for by name deserve a reason; default pairings left out are expected.
+        if (req.method !== undefined) for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
+        else if (plan.skipped.length > 0 && !flags.quiet) {
+          log(`${plan.skipped.length} default pairings left out (stiff problems take stiff methods; symplectic methods need a separable problem); see "skipped" in results.json`);
         }
         if (selected.length === 0) throw new InputError('the selection pairs no method with any problem', req.method ? '--method' : '--problem');
         progress = progressLine(selected.length, Boolean(flags.quiet || flags.json));

@@ -1,0 +1,43 @@
+// The public API of stepgauge as a library. Everything a user module, a script or a team's own
+// test suite needs is re-exported here; the CLI is a thin layer over the same functions.
+
+// Shared types and small helpers
+export type * from './core/types.js';
+export { zeroCounts, isAdaptiveSetting } from './core/types.js';
+export type { ResultsFile, RunResult, RunSetting, ProblemRecord, Environment, DriftTrace } from './core/results.js';
+export { RESULTS_FORMAT, RESULTS_VERSION, runKey } from './core/results.js';
+export { InputError, isInputError } from './core/errors.js';
+export { luFactor, luSolve } from './core/lu.js';
+
+// Authoring problems and methods
+export { defineProblem, stableText, type ProblemSpec } from './problems/define.js';
+export { defineMethod, type MethodSpec } from './methods/define.js';
+export { loadProblemFile } from './problems/load-file.js';
+export { loadModule, loadProblemModule, loadMethodModule } from './problems/module-loader.js';
+
+// Built-ins
+export { builtinMethods, findMethod } from './methods/registry.js';
+export { catalogue, findProblem } from '../problems/index.js';
+
+// Measuring and sweeping
+export { measureRun, type RunOptions } from './measure/run-one.js';
+export { timeRun, DEFAULT_TIMING, type TimingOptions } from './measure/timing.js';
+export { withCertifiedReference, certify } from './measure/certify.js';
+export { roundTripError } from './measure/round-trip.js';
+export { stiffnessRatio } from './measure/stiffness.js';
+export { runSweep, type SweepRequest } from './sweep/run.js';
+export { planSweep, DEFAULT_TOLERANCES, DEFAULT_STEPS, type PlannedRun, type SweepPlan } from './sweep/plan.js';
+export { chooseMethod, type Choice, type Candidate, type ChooseOptions } from './sweep/choose.js';
+export { selectShard, parseShardSpec } from './sweep/shard.js';
+export { mergeResults } from './sweep/merge.js';
+
+// Results files, reports and the gate
+export { readResultsFile, validateResults } from './report/read-results.js';
+export { resultsCsv } from './report/csv.js';
+export { resultsJson } from './report/json.js';
+export { writeReport } from './report/index.js';
+export { writeFileAtomic, writeFolderAtomically } from './report/atomic.js';
+export { compareResults, type Comparison, type CompareOptions } from './gate/compare.js';
+export { makeBaseline, serializeBaseline, readBaselineFile, type Baseline } from './gate/baseline.js';
+export { junitXml } from './gate/junit.js';
+export { compareToBaseline, expectWithinBaseline } from './gate/vitest.js';
