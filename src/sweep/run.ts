@@ -58,6 +58,8 @@ export async function executePlan(
   const out: RunResult[] = [];
   let failed = 0;
   for (const planned of runs) {
+    // Yield to the event loop between runs so signals (Ctrl-C) and progress output get through.
+    await new Promise<void>((resolve) => setImmediate(resolve));
     if (options.shouldStop?.()) break;
     const run = await executeRun(problems.get(planned.problem)!, methods.get(planned.method)!, planned, options);
     if (run.status !== 'ok') failed++;
