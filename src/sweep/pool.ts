@@ -71,10 +71,12 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
     }
   };
 
+  // Costliest first, so no lane is left with one long run at the end (results return in plan order).
+  const queue = [...input.runs].sort((a, b) => b.expectedCost - a.expectedCost || a.planIndex - b.planIndex);
   const lane = async (): Promise<void> => {
-    while (next < input.runs.length) {
+    while (next < queue.length) {
       if (shouldStop?.()) return;
-      const planned = input.runs[next++]!;
+      const planned = queue[next++]!;
       const run = await one(planned);
       if (run.status !== 'ok') failed++;
       out.push(run);
