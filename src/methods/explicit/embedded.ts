@@ -19,7 +19,7 @@ import {
 } from './control.js';
 import { finish } from './finish.js';
 import { stopTimes } from './stops.js';
-import type { Tableau } from './tableau.js';
+import { IO_ERR, IO_H, IO_RTOL, IO_SIZE, IO_T, IO_T_NEW, type Tableau } from './tableau.js';
 import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
 
 /**
@@ -68,7 +68,7 @@ export function solveEmbedded(
   const ne2 = e2Col.length;
   const combined = ne2 > 0;
   const last = s - 1;
-  const kernel = tab.kernel;
+  const kernel = tab.kernel === null ? null : tab.kernel(n);
   const lastFromA = fsal ? last - 1 : last;
   const kExp = tab.controlOrder + 1;
   const usePi = options.controller === 'pi';
@@ -87,6 +87,8 @@ export function solveEmbedded(
   let yNew = new Float64Array(n);
   const yStage = new Float64Array(n);
   const errVec = new Float64Array(n);
+  const io = new Float64Array(IO_SIZE);
+  io[IO_RTOL] = rtol;
   const counts: Counts = zeroCounts();
 
   let t = t0;
@@ -152,9 +154,12 @@ export function solveEmbedded(
     }
     let err: number;
     if (kernel !== null) {
-      kernel(f, t, tNew, hs, y, yNew, yStage, K, kRow, errVec, n);
+      io[IO_T] = t;
+      io[IO_T_NEW] = tNew;
+      io[IO_H] = hs;
+      kernel(f, io, y, yNew, yStage, K, kRow, atol, n);
+      err = io[IO_ERR]!;
       counts.nfev += last;
-      err = scaledRmsNorm(errVec, y, yNew, rtol, atol, n);
     } else {
       // Stage sums as axpy sweeps over the nonzero couplings (offsets into K precomputed).
       for (let i = 1; i <= lastFromA; i++) {

@@ -5,8 +5,8 @@ import { denseDormandPrince54, type DenseCapability } from './dense-dp54.js';
 import { solveEmbedded } from './embedded.js';
 import { solveFixed } from './fixed.js';
 import { YOSHIDA4_WEIGHTS, VERLET_WEIGHTS, solveVerletComposition } from './symplectic.js';
-import { compileTableau, type StageKernel, type Tableau, type TableauData } from './tableau.js';
-import { dormandPrince54Kernel } from './kernels/dormand-prince-54.js';
+import { compileTableau, type KernelFactory, type Tableau, type TableauData } from './tableau.js';
+import { unrolledKernel } from './kernels/unrolled.js';
 import { BOGACKI_SHAMPINE_32 } from './tableaus/bogacki-shampine-32.js';
 import { CASH_KARP_45 } from './tableaus/cash-karp-45.js';
 import { DORMAND_PRINCE_54 } from './tableaus/dormand-prince-54.js';
@@ -17,7 +17,8 @@ import { TSITOURAS_54 } from './tableaus/tsitouras-54.js';
 import { VERNER_65 } from './tableaus/verner-65.js';
 
 export { dormandPrince54Dense, type DenseCapability, type DenseEvaluate, type DenseSolveResult } from './dense-dp54.js';
-export { compileTableau, type StageKernel, type Tableau, type TableauData } from './tableau.js';
+export { compileTableau, isFsal, type KernelFactory, type StageKernel, type Tableau, type TableauData } from './tableau.js';
+export { UNROLL_MAX_N, unrolledKernel, unrolledSource } from './kernels/unrolled.js';
 export { solveEmbedded, type AcceptHook } from './embedded.js';
 export { solveFixed } from './fixed.js';
 
@@ -47,7 +48,7 @@ export function fixedStepMethod(meta: Meta, data: TableauData): Method {
   };
 }
 
-export function embeddedMethod(meta: Meta, data: TableauData, kernel?: StageKernel): Method {
+export function embeddedMethod(meta: Meta, data: TableauData, kernel?: KernelFactory): Method {
   return embeddedFromTableau(meta, compileTableau(data, kernel));
 }
 
@@ -125,7 +126,7 @@ export const cashKarp45 = embeddedMethod(
   },
   CASH_KARP_45,
 );
-const DP54_TABLEAU = compileTableau(DORMAND_PRINCE_54, dormandPrince54Kernel);
+const DP54_TABLEAU = compileTableau(DORMAND_PRINCE_54, unrolledKernel(DORMAND_PRINCE_54, 'dormand-prince-54'));
 const DP54_META: Meta = {
   id: 'dormand-prince-54',
   name: 'Dormand-Prince 5(4)',
@@ -144,6 +145,7 @@ export const tsitouras54 = embeddedMethod(
       'Ch. Tsitouras, Runge-Kutta pairs of order 5(4) satisfying only the first column simplifying assumption, Comput. Math. Appl. 62 (2011) 770-775',
   },
   TSITOURAS_54,
+  unrolledKernel(TSITOURAS_54, 'tsitouras-54'),
 );
 export const verner65 = embeddedMethod(
   {
@@ -153,6 +155,7 @@ export const verner65 = embeddedMethod(
       'J. H. Verner, Explicit Runge-Kutta methods with estimates of the local truncation error, SIAM J. Numer. Anal. 15 (1978) 772-790',
   },
   VERNER_65,
+  unrolledKernel(VERNER_65, 'verner-65'),
 );
 export const dormandPrince853 = embeddedMethod(
   {
@@ -162,6 +165,7 @@ export const dormandPrince853 = embeddedMethod(
       'P. J. Prince and J. R. Dormand, High order embedded Runge-Kutta formulae, J. Comput. Appl. Math. 7 (1981) 67-75; coefficients and combined 5th/3rd-order error estimate of E. Hairer, S. P. Norsett and G. Wanner, Solving Ordinary Differential Equations I, 2nd ed. (1993), sec. II.10',
   },
   DORMAND_PRINCE_853,
+  unrolledKernel(DORMAND_PRINCE_853, 'dormand-prince-853'),
 );
 
 export const stormerVerlet = symplecticMethod(

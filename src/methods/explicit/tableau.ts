@@ -3,24 +3,35 @@
 import { InputError } from '../../core/errors.js';
 import type { Rhs } from '../../core/types.js';
 
+/** Slots of the scalar buffer a stage kernel reads its step from and writes its error to. */
+export const IO_T = 0;
+export const IO_T_NEW = 1;
+export const IO_H = 2;
+export const IO_RTOL = 3;
+export const IO_ERR = 4;
+export const IO_SIZE = 5;
+
 /**
- * Optional straight-line step for one tableau: stages 2..s (the FSAL stage included, evaluated
- * at tNew), y_new and the error vector h * sum (b_i - bHat_i) k_i, exactly what the generic sweep
- * computes. Costs s - 1 evaluations.
+ * Optional straight-line step for one pair: stages 2..s (the FSAL stage included, evaluated at
+ * tNew), y_new, and the scaled error norm the generic sweep would compute (single or combined
+ * estimate). Costs s - 1 evaluations. The scalars travel in `io` (slots IO_*), not as arguments:
+ * a kernel is too large for V8 to inline into the engine, and a double passed to or returned
+ * from a call that is not inlined is boxed on the heap, several allocations per step otherwise.
  */
 export type StageKernel = (
   f: Rhs,
-  t: number,
-  tNew: number,
-  h: number,
+  io: Float64Array,
   y: Float64Array,
   yNew: Float64Array,
   yStage: Float64Array,
   K: Float64Array,
   kRow: readonly Float64Array[],
-  errVec: Float64Array,
+  atol: Float64Array,
   n: number,
 ) => void;
+
+/** The kernel to step a system of n states with. */
+export type KernelFactory = (n: number) => StageKernel;
 
 /** A tableau as written in its paper: strictly lower triangular A, weights b, nodes c. */
 export interface TableauData {
@@ -73,8 +84,8 @@ export interface Tableau {
    * first stage and costs nothing extra there.
    */
   readonly fsal: boolean;
-  /** Unrolled step, when one exists (single error estimate, FSAL pairs only). */
-  readonly kernel: StageKernel | null;
+  /** Unrolled step, when one is attached (embedded pairs only). */
+  readonly kernel: KernelFactory | null;
   readonly data: TableauData;
 }
 
@@ -97,7 +108,20 @@ function difference(b: readonly number[], bHat: readonly number[]): number[] {
   return b.map((v, i) => v - (bHat[i] ?? 0));
 }
 
-export function compileTableau(d: TableauData, kernel?: StageKernel): Tableau {
+/** The last stage is f(t + h, y_new): its row of A is b, its node 1, its own weight 0. */
+export function isFsal(d: TableauData): boolean {
+  const s = d.c.length;
+  const last = d.a[s - 1];
+  return (
+    s > 1 &&
+    last !== undefined &&
+    d.c[s - 1] === 1 &&
+    d.b[s - 1] === 0 &&
+    d.b.every((bi, j) => j === s - 1 || Math.abs((last[j] ?? 0) - bi) <= SAME * Math.max(1, Math.abs(bi)))
+  );
+}
+
+export function compileTableau(d: TableauData, kernel?: KernelFactory): Tableau {
   const s = d.c.length;
   if (d.a.length !== s || d.b.length !== s) {
     throw new InputError(`tableau has ${s} nodes but ${d.a.length} rows of A and ${d.b.length} weights`);
@@ -117,17 +141,12 @@ export function compileTableau(d: TableauData, kernel?: StageKernel): Tableau {
     }
     starts.push(cols.length);
   }
-  const last = d.a[s - 1]!;
-  const fsal =
-    s > 1 &&
-    d.c[s - 1] === 1 &&
-    d.b[s - 1] === 0 &&
-    d.b.every((bi, j) => j === s - 1 || Math.abs((last[j] ?? 0) - bi) <= SAME * Math.max(1, Math.abs(bi)));
+  const fsal = isFsal(d);
   const bs = sparse(d.b);
   const es = sparse(d.bHat ? difference(d.b, d.bHat) : []);
   const e2s = sparse(d.bHat2 ? difference(d.b, d.bHat2) : []);
   const embeddedOrder = d.embeddedOrder ?? 0;
-  if (kernel && (!fsal || d.bHat2)) throw new InputError('a stage kernel needs an FSAL pair with one error estimate');
+  if (kernel && !d.bHat) throw new InputError('a stage kernel needs an embedded pair (bHat)');
   return {
     stages: s,
     order: d.order,

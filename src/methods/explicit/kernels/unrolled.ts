@@ -1,0 +1,148 @@
+// Straight-line step code generated from a tableau, so the pair stays pure data while its step
+// runs without the short coefficient loops of the generic sweep. Every coefficient becomes a
+// literal in the generated source, and every pair (and state size) gets its own function: V8
+// keeps feedback per function, so the f call sites inside one kernel see only the problems that
+// method runs on and stay monomorphic (and inlined) in the common one-problem case.
+// For small systems the component loop is written out too (measured on the 4-state Kepler
+// problem: about 15-20% off the kernel's time; loops of 4 cost more in loop control and bounds
+// checks than in arithmetic). The per-component arithmetic is the same in both forms, so the
+// two give bitwise equal results. Agreement with the generic engine (same counts, same state to
+// rounding) is tested per kernel.
+import { InputError } from '../../../core/errors.js';
+import { COMBINED_ERR3_WEIGHT } from '../embedded.js';
+import { IO_ERR, IO_H, IO_RTOL, IO_T, IO_T_NEW, isFsal, type KernelFactory, type StageKernel, type TableauData } from '../tableau.js';
+
+/** Largest state size whose component loop is written out; larger systems loop. */
+export const UNROLL_MAX_N = 8;
+
+/** A coefficient as source text that parses back to the same double. */
+function lit(v: number): string {
+  if (!Number.isFinite(v)) throw new InputError(`tableau coefficient ${v} is not finite`);
+  const s = String(v);
+  return v < 0 ? `(${s})` : s;
+}
+
+/** How component j and stage i's entry are spelled: a loop variable, or fixed indices. */
+interface Indexing {
+  /** Component index as text. */
+  readonly j: string;
+  /** Entry j of stage i in the flat stage buffer. */
+  stage(i: number): string;
+}
+
+function loopIndexing(): Indexing {
+  return { j: 'j', stage: (i) => (i === 0 ? 'K[j]' : `K[o${i} + j]`) };
+}
+
+function fixedIndexing(j: number, n: number): Indexing {
+  return { j: String(j), stage: (i) => `K[${i * n + j}]` };
+}
+
+/** sum_i w_i k_i over the nonzero weights, or null when all are zero. */
+function combination(w: readonly number[], ix: Indexing): string | null {
+  const terms: string[] = [];
+  w.forEach((v, i) => {
+    if (v !== 0) terms.push(`${lit(v)} * ${ix.stage(i)}`);
+  });
+  return terms.length > 0 ? terms.join(' + ') : null;
+}
+
+function stateUpdate(target: string, w: readonly number[], ix: Indexing): string {
+  const sum = combination(w, ix);
+  const j = ix.j;
+  return `${target}[${j}] = ${sum === null ? `y[${j}]` : `y[${j}] + h * (${sum})`};`;
+}
+
+function stageTime(c: number): string {
+  // c = 1 is the end of the step: use tNew so a step clipped onto a stop evaluates exactly there.
+  return c === 1 ? 'tNew' : c === 0 ? 't' : `t + ${lit(c)} * h`;
+}
+
+function errorDifference(b: readonly number[], bHat: readonly number[]): number[] {
+  return b.map((v, i) => v - (bHat[i] ?? 0));
+}
+
+function scale(j: string): string {
+  return `ya = Math.abs(y[${j}]); yb = Math.abs(yNew[${j}]); sk = atol[${j}] + rtol * (ya > yb ? ya : yb);`;
+}
+
+/** One component's contribution to the error sums. */
+function errorTerm(d: TableauData, ix: Indexing): string {
+  const e = combination(errorDifference(d.b, d.bHat!), ix);
+  if (e === null) throw new InputError('an unrolled kernel needs nonzero error weights');
+  if (!d.bHat2) return `${scale(ix.j)} r = (h * (${e})) / sk; sum += r * r;`;
+  const e2 = combination(errorDifference(d.b, d.bHat2), ix) ?? '0';
+  return `${scale(ix.j)} a5 = (${e}) / sk; a3 = (${e2}) / sk; s5 += a5 * a5; s3 += a3 * a3;`;
+}
+
+/** Final error norm from the sums, stored in io. */
+function errorNorm(d: TableauData): string[] {
+  if (!d.bHat2) return [`io[${IO_ERR}] = Math.sqrt(sum / n);`];
+  // The combined estimate of the generic engine, in the same order of operations.
+  return [
+    `let deno = s5 + ${lit(COMBINED_ERR3_WEIGHT)} * s3;`,
+    'if (!(deno > 0)) deno = 1;',
+    `io[${IO_ERR}] = Math.abs(h) * s5 * Math.sqrt(1 / (n * deno));`,
+  ];
+}
+
+/**
+ * The generated function's source. With `n` (at most UNROLL_MAX_N) the component loop is
+ * written out for that state size; without it the kernel loops over any n.
+ */
+export function unrolledSource(d: TableauData, name: string, n?: number): string {
+  if (!d.bHat) throw new InputError(`${name}: an unrolled kernel needs an embedded pair (bHat)`);
+  if (n !== undefined && !(Number.isInteger(n) && n >= 1 && n <= UNROLL_MAX_N)) {
+    throw new InputError(`${name}: written-out kernels exist for 1 <= n <= ${UNROLL_MAX_N}, got ${n}`);
+  }
+  const s = d.c.length;
+  const fsal = isFsal(d);
+  const last = s - 1;
+  const lastFromA = fsal ? last - 1 : last;
+  const each = (line: (ix: Indexing) => string): string[] => {
+    if (n === undefined) return [`for (let j = 0; j < n; j++) { ${line(loopIndexing())} }`];
+    const out: string[] = [];
+    for (let j = 0; j < n; j++) out.push(line(fixedIndexing(j, n)));
+    return out;
+  };
+  const lines: string[] = [
+    `const t = io[${IO_T}]; const tNew = io[${IO_T_NEW}]; const h = io[${IO_H}]; const rtol = io[${IO_RTOL}];`,
+    'let ya = 0; let yb = 0; let sk = 0;',
+    d.bHat2 ? 'let a5 = 0; let a3 = 0; let s5 = 0; let s3 = 0;' : 'let r = 0; let sum = 0;',
+  ];
+  if (n === undefined) for (let i = 1; i < s; i++) lines.push(`const o${i} = ${i} * n;`);
+  for (let i = 1; i <= lastFromA; i++) {
+    lines.push(...each((ix) => stateUpdate('ys', d.a[i]!, ix)));
+    lines.push(`f(${stageTime(d.c[i]!)}, ys, kRow[${i}]);`);
+  }
+  lines.push(...each((ix) => stateUpdate('yNew', d.b, ix)));
+  if (fsal) lines.push(`f(tNew, yNew, kRow[${last}]);`);
+  lines.push(...each((ix) => errorTerm(d, ix)));
+  lines.push(...errorNorm(d));
+  const fn = `${name.replace(/[^A-Za-z0-9_]/g, '_')}${n === undefined ? '' : `_n${n}`}`;
+  return [
+    '"use strict";',
+    `return function step_${fn}(f, io, y, yNew, ys, K, kRow, atol, n) {`,
+    ...lines.map((l) => '  ' + l),
+    '};',
+  ].join('\n');
+}
+
+function build(d: TableauData, name: string, n?: number): StageKernel {
+  // The source is built only from the finite numeric literals of a tableau, never from input text.
+  return new Function(unrolledSource(d, name, n))() as StageKernel;
+}
+
+/**
+ * The unrolled step of one pair (costs s - 1 evaluations, the FSAL stage included when the pair
+ * has one), written out per state size up to UNROLL_MAX_N. `name` labels it in profiles.
+ */
+export function unrolledKernel(d: TableauData, name: string): KernelFactory {
+  const looped = build(d, name);
+  const bySize: (StageKernel | undefined)[] = [];
+  // Built on first use per state size, then reused by every solve of that size.
+  return (n) => {
+    if (n > UNROLL_MAX_N) return looped;
+    return (bySize[n] ??= build(d, name, n));
+  };
+}
