@@ -18,17 +18,18 @@ export function referenceLookup(problem: Problem): ReferenceLookup {
     return { at: (t, out) => (exact(t, out), true), tabulatedTimes: [] };
   }
   const points: readonly ReferencePoint[] = ref.points ?? [];
-  const span = Math.abs(problem.tEnd - problem.t0);
-  const tol = TIME_MATCH * Math.max(span, Math.abs(problem.tEnd), 1e-300);
+  // Relative to the time itself, not the span: on Robertson's [0, 1e11] a span-relative match
+  // would take a step ending at 39.95 for the reference at 40.
+  const matches = (a: number, b: number) => a === b || Math.abs(a - b) <= TIME_MATCH * Math.max(Math.abs(a), Math.abs(b));
   let cursor = 0;
   return {
     tabulatedTimes: points.map((p) => p.t),
     at(t, out) {
       // Observers ask in increasing time, so a moving cursor makes the search O(1) amortised.
-      if (cursor >= points.length || points[cursor]!.t > t + tol) cursor = 0;
-      while (cursor < points.length && points[cursor]!.t < t - tol) cursor++;
+      if (cursor >= points.length || (points[cursor]!.t > t && !matches(points[cursor]!.t, t))) cursor = 0;
+      while (cursor < points.length && points[cursor]!.t < t && !matches(points[cursor]!.t, t)) cursor++;
       const p = points[cursor];
-      if (!p || Math.abs(p.t - t) > tol) return false;
+      if (!p || !matches(p.t, t)) return false;
       for (let i = 0; i < p.y.length; i++) out[i] = p.y[i]!;
       return true;
     },
