@@ -22,7 +22,8 @@ export function scaledMaxError(y: ArrayLike<number>, ref: ArrayLike<number>, flo
       const s = r > floors[i]! ? r : floors[i]!;
       e = s > 0 ? diff / s : diff;
     }
-    if (!(e <= worst)) worst = e; // NaN propagates as the worst value
+    if (e !== e) return NaN; // a non-finite state has no meaningful error
+    if (e > worst) worst = e;
   }
   return worst;
 }

@@ -58,7 +58,7 @@ export function watchRun(problem: Problem): RunWatch {
     if (compare && lookup.at(t, ref)) {
       const e = meter(t, y, ref);
       compared++;
-      if (!(e <= worstError)) worstError = e;
+      if (worstError === worstError && (e > worstError || e !== e)) worstError = e; // NaN, once seen, stays
     }
     if (invariants.length === 0) return;
     const bucket = Math.floor(((t - problem.t0) / span) * TRACE_BUCKETS);
@@ -71,7 +71,8 @@ export function watchRun(problem: Problem): RunWatch {
       const i0 = initial[k]!;
       const denom = Math.abs(i0) > TINY_INVARIANT ? Math.abs(i0) : 1;
       const d = Math.abs(invariants[k]!.fn(t, y) - i0) / denom;
-      if (!(d <= worstDrift[k]!)) worstDrift[k] = d;
+      const was = worstDrift[k]!;
+      if (was === was && (d > was || d !== d)) worstDrift[k] = d; // NaN, once seen, stays
       if (record) traceD[k]!.push(d);
     }
   };
