@@ -113,8 +113,12 @@ function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
   };
   let closest: RunResult | null = null;
   let lo = 0; // largest step count known to fail
-  let n = MIN_STEPS;
-  for (; n <= MAX_STEPS && n <= o.maxSteps; n *= 2) {
+  const cap = Math.min(MAX_STEPS, o.maxSteps);
+  // Doubling, and the cap itself last, so the step limit is never left untried.
+  const ladder: number[] = [];
+  for (let n = MIN_STEPS; n < cap; n *= 2) ladder.push(n);
+  ladder.push(cap);
+  for (const n of ladder) {
     const run = at(n);
     if (meets(run, o)) {
       let hi = n;

@@ -33,7 +33,7 @@ export function choiceText(choice: Choice): string {
       c.method,
       c.met ? settingText(c) : '—',
       sig3(c.achieved),
-      c.margin === null ? '—' : `${sig3(c.margin)}x`,
+      c.margin === null ? '—' : `${c.margin.toPrecision(3)}x`,
       c.run ? String(c.run.counts.nfev) : '—',
       c.run ? String(c.run.counts.njev) : '—',
       c.run ? String(c.run.counts.nlu) : '—',
@@ -46,7 +46,7 @@ export function choiceText(choice: Choice): string {
   const head = `${choice.problem}: target error ${sig3(choice.target)} (${choice.measure}), ranked by ${choice.cost}`;
   const rec = choice.recommended;
   const verdict = rec
-    ? `recommended: ${rec.method} at ${settingText(rec)}; confirmed error ${sig3(rec.achieved)} is ${sig3(rec.margin)}x inside the target`
+    ? `recommended: ${rec.method} at ${settingText(rec)}; confirmed error ${sig3(rec.achieved)} is ${rec.margin?.toPrecision(3)}x inside the target`
     : 'no method met the target on this problem; loosen the target or add methods';
   return [head, '', ...lines, '', verdict, '', CAUTION_TEXT].join('\n');
 }
