@@ -4,14 +4,20 @@ import { describe, expect, it } from 'vitest';
 import type { Method, Problem } from '../src/core/types.js';
 import {
   UNROLL_MAX_N,
+  bogackiShampine32,
+  cashKarp45,
   dormandPrince54,
   dormandPrince853,
   embeddedMethod,
+  fehlberg45,
   tsitouras54,
   unrolledSource,
   verner65,
 } from '../src/methods/explicit/index.js';
 import type { StageKernel, TableauData } from '../src/methods/explicit/tableau.js';
+import { BOGACKI_SHAMPINE_32 } from '../src/methods/explicit/tableaus/bogacki-shampine-32.js';
+import { CASH_KARP_45 } from '../src/methods/explicit/tableaus/cash-karp-45.js';
+import { FEHLBERG_45 } from '../src/methods/explicit/tableaus/fehlberg-45.js';
 import { DORMAND_PRINCE_54 } from '../src/methods/explicit/tableaus/dormand-prince-54.js';
 import { DORMAND_PRINCE_853 } from '../src/methods/explicit/tableaus/dormand-prince-853.js';
 import { TSITOURAS_54 } from '../src/methods/explicit/tableaus/tsitouras-54.js';
@@ -21,6 +27,9 @@ import { kepler, makeProblem, maxAbsDiff, oscillator } from './methods-explicit-
 const OPTS = { maxSteps: 1_000_000 };
 
 const withKernel: [Method, TableauData][] = [
+  [bogackiShampine32, BOGACKI_SHAMPINE_32],
+  [fehlberg45, FEHLBERG_45],
+  [cashKarp45, CASH_KARP_45],
   [dormandPrince54, DORMAND_PRINCE_54],
   [tsitouras54, TSITOURAS_54],
   [verner65, VERNER_65],

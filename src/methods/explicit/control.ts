@@ -27,6 +27,11 @@ export const PI_ALPHA = 0.7;
 export const PI_BETA = 0.4;
 /** Floor on the previous error in the PI formula, so a tiny error cannot blow the step up. */
 export const PI_ERR_FLOOR = 1e-4;
+/**
+ * Weight of the 3rd-order estimate when two estimates are combined (DOP853):
+ * err = err5^2 / sqrt(err5^2 + 0.01 err3^2), HNW I, sec. II.10.
+ */
+export const COMBINED_ERR3_WEIGHT = 0.01;
 /** Checking the clock is not free: look every this many attempted steps. */
 export const DEADLINE_EVERY = 16;
 

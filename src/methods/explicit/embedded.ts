@@ -5,7 +5,7 @@
 // per solve; the step loop allocates nothing.
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
-import { allFinite, scaledRmsNorm } from '../../core/vector.js';
+import { allFinite } from '../../core/vector.js';
 import {
   DEADLINE_EVERY,
   FAC_MAX,
@@ -18,15 +18,12 @@ import {
   standardFactor,
 } from './control.js';
 import { finish } from './finish.js';
+import { genericStep } from './generic-step.js';
 import { stopTimes } from './stops.js';
 import { IO_ERR, IO_H, IO_RTOL, IO_SIZE, IO_T, IO_T_NEW, type Tableau } from './tableau.js';
 import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
 
-/**
- * Weight of the 3rd-order estimate when two estimates are combined (DOP853):
- * err = err5^2 / sqrt(err5^2 + 0.01 err3^2), HNW I, sec. II.10.
- */
-export const COMBINED_ERR3_WEIGHT = 0.01;
+export { COMBINED_ERR3_WEIGHT } from './control.js';
 
 /** Keeps the underflow guard meaningful at t = 0. */
 const TINY_T = 1e-300;
@@ -62,14 +59,10 @@ export function solveEmbedded(
   const stops = stopTimes(options.checkTimes, t0, tEnd, methodId);
   const f = problem.f;
   const s = tab.stages;
-  const { c, aStart, aCol, aVal, bCol, bVal, eCol, eVal, e2Col, e2Val, fsal } = tab;
-  const nb = bCol.length;
-  const ne = eCol.length;
-  const ne2 = e2Col.length;
-  const combined = ne2 > 0;
+  const fsal = tab.fsal;
   const last = s - 1;
-  const kernel = tab.kernel === null ? null : tab.kernel(n);
-  const lastFromA = fsal ? last - 1 : last;
+  // One step function per solve: the method's generated kernel, or the generic sweep.
+  const step = tab.kernel !== null ? tab.kernel(n) : genericStep(tab, n);
   const kExp = tab.controlOrder + 1;
   const usePi = options.controller === 'pi';
   const observer = options.observer;
@@ -77,16 +70,11 @@ export function solveEmbedded(
   const maxSteps = options.maxSteps;
 
   const K = new Float64Array(s * n);
-  const aOff = offsets(aCol, n);
-  const bOff = offsets(bCol, n);
-  const eOff = offsets(eCol, n);
-  const e2Off = offsets(e2Col, n);
   const kRow: Float64Array[] = [];
   for (let i = 0; i < s; i++) kRow.push(K.subarray(i * n, (i + 1) * n));
   let y = Float64Array.from(problem.y0);
   let yNew = new Float64Array(n);
   const yStage = new Float64Array(n);
-  const errVec = new Float64Array(n);
   const io = new Float64Array(IO_SIZE);
   io[IO_RTOL] = rtol;
   const counts: Counts = zeroCounts();
@@ -152,67 +140,12 @@ export function solveEmbedded(
         break;
       }
     }
-    let err: number;
-    if (kernel !== null) {
-      io[IO_T] = t;
-      io[IO_T_NEW] = tNew;
-      io[IO_H] = hs;
-      kernel(f, io, y, yNew, yStage, K, kRow, atol, n);
-      err = io[IO_ERR]!;
-      counts.nfev += last;
-    } else {
-      // Stage sums as axpy sweeps over the nonzero couplings (offsets into K precomputed).
-      for (let i = 1; i <= lastFromA; i++) {
-        for (let j = 0; j < n; j++) yStage[j] = y[j]!;
-        const p1 = aStart[i + 1]!;
-        for (let p = aStart[i]!; p < p1; p++) {
-          const cf = hs * aVal[p]!;
-          const off = aOff[p]!;
-          for (let j = 0; j < n; j++) yStage[j]! += cf * K[off + j]!;
-        }
-        f(t + c[i]! * hs, yStage, kRow[i]!);
-      }
-      counts.nfev += lastFromA;
-      for (let j = 0; j < n; j++) yNew[j] = y[j]!;
-      for (let p = 0; p < nb; p++) {
-        const cf = hs * bVal[p]!;
-        const off = bOff[p]!;
-        for (let j = 0; j < n; j++) yNew[j]! += cf * K[off + j]!;
-      }
-      if (fsal) {
-        f(tNew, yNew, kRow[last]!);
-        counts.nfev++;
-      }
-
-      if (combined) {
-        let s5 = 0;
-        let s3 = 0;
-        for (let j = 0; j < n; j++) {
-          let a5 = 0;
-          for (let p = 0; p < ne; p++) a5 += eVal[p]! * K[eOff[p]! + j]!;
-          let a3 = 0;
-          for (let p = 0; p < ne2; p++) a3 += e2Val[p]! * K[e2Off[p]! + j]!;
-          const ya = Math.abs(y[j]!);
-          const yb = Math.abs(yNew[j]!);
-          const sk = atol[j]! + rtol * (ya > yb ? ya : yb);
-          a5 /= sk;
-          a3 /= sk;
-          s5 += a5 * a5;
-          s3 += a3 * a3;
-        }
-        let deno = s5 + COMBINED_ERR3_WEIGHT * s3;
-        if (!(deno > 0)) deno = 1;
-        err = Math.abs(hs) * s5 * Math.sqrt(1 / (n * deno));
-      } else {
-        for (let j = 0; j < n; j++) errVec[j] = 0;
-        for (let p = 0; p < ne; p++) {
-          const cf = hs * eVal[p]!;
-          const off = eOff[p]!;
-          for (let j = 0; j < n; j++) errVec[j]! += cf * K[off + j]!;
-        }
-        err = scaledRmsNorm(errVec, y, yNew, rtol, atol, n);
-      }
-    }
+    io[IO_T] = t;
+    io[IO_T_NEW] = tNew;
+    io[IO_H] = hs;
+    step(f, io, y, yNew, yStage, K, kRow, atol, n);
+    const err = io[IO_ERR]!;
+    counts.nfev += last;
 
     const finite = err === err && allFinite(yNew, n) && (!fsal || allFinite(kRow[last]!, n));
     if (finite && err <= 1) {
@@ -257,9 +190,3 @@ export function solveEmbedded(
   return finish(status, message, t, y, counts);
 }
 
-/** Start of each referenced stage row in the flat stage buffer. */
-function offsets(cols: Int32Array, n: number): Int32Array {
-  const out = new Int32Array(cols.length);
-  for (let p = 0; p < cols.length; p++) out[p] = cols[p]! * n;
-  return out;
-}

@@ -106,6 +106,7 @@ export const bogackiShampine32 = embeddedMethod(
     source: 'P. Bogacki and L. F. Shampine, A 3(2) pair of Runge-Kutta formulas, Appl. Math. Lett. 2 (1989) 321-325',
   },
   BOGACKI_SHAMPINE_32,
+  unrolledKernel(BOGACKI_SHAMPINE_32, 'bogacki-shampine-32'),
 );
 export const fehlberg45 = embeddedMethod(
   {
@@ -116,6 +117,7 @@ export const fehlberg45 = embeddedMethod(
     notes: 'propagates the fourth-order solution, as published',
   },
   FEHLBERG_45,
+  unrolledKernel(FEHLBERG_45, 'fehlberg-45'),
 );
 export const cashKarp45 = embeddedMethod(
   {
@@ -125,6 +127,7 @@ export const cashKarp45 = embeddedMethod(
       'J. R. Cash and A. H. Karp, A variable order Runge-Kutta method for initial value problems with rapidly varying right-hand sides, ACM Trans. Math. Softw. 16 (1990) 201-222',
   },
   CASH_KARP_45,
+  unrolledKernel(CASH_KARP_45, 'cash-karp-45'),
 );
 const DP54_TABLEAU = compileTableau(DORMAND_PRINCE_54, unrolledKernel(DORMAND_PRINCE_54, 'dormand-prince-54'));
 const DP54_META: Meta = {

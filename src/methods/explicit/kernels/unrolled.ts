@@ -9,7 +9,7 @@
 // two give bitwise equal results. Agreement with the generic engine (same counts, same state to
 // rounding) is tested per kernel.
 import { InputError } from '../../../core/errors.js';
-import { COMBINED_ERR3_WEIGHT } from '../embedded.js';
+import { COMBINED_ERR3_WEIGHT } from '../control.js';
 import { IO_ERR, IO_H, IO_RTOL, IO_T, IO_T_NEW, isFsal, type KernelFactory, type StageKernel, type TableauData } from '../tableau.js';
 
 /** Largest state size whose component loop is written out; larger systems loop. */
