@@ -10,6 +10,15 @@ import type { PlotOutcome, SeriesSpec } from './spec.js';
 const H: Measure = { label: 'h', get: (r) => ('h' in r.setting ? r.setting.h : null) };
 const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final };
 
+/** The order is fitted where the error is asymptotic: the finest steps whose error is below 1. */
+const FIT_POINTS = 3;
+
+export function asymptoticPoints<P extends { x: number; y: number }>(points: readonly P[]): P[] {
+  const byH = [...points].sort((a, b) => a.x - b.x);
+  const small = byH.filter((p) => p.y < 1);
+  return (small.length >= 2 ? small : byH).slice(0, FIT_POINTS);
+}
+
 export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome[] {
   const runs = runsOf(ctx, problem).filter((r) => 'steps' in r.setting);
   if (runs.length === 0) return [];
@@ -22,9 +31,9 @@ export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome
   for (const [id, group] of byMethod(ctx, sel.kept)) {
     const points = group.map((g) => g.point);
     const style = ctx.styles.get(id)!;
-    const fit = fitLogLog(points);
+    const fit = fitLogLog(asymptoticPoints(points));
     const order = ctx.methods.get(id)?.order ?? null;
-    const observed = fit ? `observed order ${sig3(fit.slope)}` : 'observed order n/a (fewer than 2 points)';
+    const observed = fit ? `observed order ${sig3(fit.slope)} (${FIT_POINTS} finest h)` : 'observed order n/a (fewer than 2 points)';
     series.push({ label: `${methodName(ctx, id)}: ${observed}`, points, style, markers: true, line: true });
     if (order !== null && fit) {
       // Through the centroid of the method's own points, so slope differences are visible at once.
