@@ -95,10 +95,10 @@ describe('written-out and looped kernels are the same arithmetic', () => {
       const kRow = Array.from({ length: s }, (_, i) => K.subarray(i * n, (i + 1) * n));
       const y = Float64Array.of(0.4, 0.1, -0.2, 2);
       f(0, y, kRow[0]!);
-      const io = Float64Array.of(0.5, 0.53, 0.03, 1e-9, 0);
+      const io = Float64Array.of(0.5, 0.53, 0.03, 1e-9, 0, 0);
       const yNew = new Float64Array(n);
       kernel(f, io, y, yNew, new Float64Array(n), K, kRow, new Float64Array(n).fill(1e-9), n);
-      return { yNew: Array.from(yNew), K: Array.from(K), err: io[4] };
+      return { yNew: Array.from(yNew), K: Array.from(K), err: io[4], bad: io[5] };
     };
     const looped = new Function(unrolledSource(d, id))() as StageKernel;
     const written = new Function(unrolledSource(d, id, n))() as StageKernel;

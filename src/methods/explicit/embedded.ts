@@ -20,7 +20,7 @@ import {
 import { finish } from './finish.js';
 import { genericStep } from './generic-step.js';
 import { stopTimes } from './stops.js';
-import { IO_ERR, IO_H, IO_RTOL, IO_SIZE, IO_T, IO_T_NEW, type Tableau } from './tableau.js';
+import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_SIZE, IO_T, IO_T_NEW, type Tableau } from './tableau.js';
 import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
 
 export { COMBINED_ERR3_WEIGHT } from './control.js';
@@ -99,6 +99,12 @@ export function solveEmbedded(
   let lastRejected = false;
   let lastNonFinite = false;
   let errPrev = 1;
+  // Read t and h back through the typed buffer: their first values come from an object property
+  // and a call, and V8 otherwise keeps them boxed, allocating a heap number per step.
+  io[IO_T] = t;
+  io[IO_H] = h;
+  t = io[IO_T]!;
+  h = io[IO_H]!;
   let status: Status = 'ok';
   let message: string | undefined;
 
@@ -147,11 +153,14 @@ export function solveEmbedded(
     const err = io[IO_ERR]!;
     counts.nfev += last;
 
-    const finite = err === err && allFinite(yNew, n) && (!fsal || allFinite(kRow[last]!, n));
+    // IO_NONFINITE is 0 exactly when y_new (and the FSAL stage) are finite.
+    const finite = err === err && io[IO_NONFINITE] === 0;
     if (finite && err <= 1) {
       const facMax = lastRejected ? 1 : FAC_MAX;
       const fac = usePi ? piFactor(err, errPrev, kExp, facMax) : standardFactor(err, kExp, facMax);
-      errPrev = err > PI_ERR_FLOOR ? err : PI_ERR_FLOOR;
+      // Only the PI controller reads errPrev; keeping it out of standard runs also keeps V8 from
+      // boxing err every step (the PI call is never taken there, so its arguments stay tagged).
+      if (usePi) errPrev = Math.max(err, PI_ERR_FLOOR);
       let hNext = hs * fac;
       if (clipped) {
         // Landing shortened the step, not the error: resume with the step proposed before it.

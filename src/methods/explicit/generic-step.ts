@@ -3,7 +3,7 @@
 // the method, and no method's branches pollute another's feedback in the engine.
 import { scaledRmsNorm } from '../../core/vector.js';
 import { COMBINED_ERR3_WEIGHT } from './control.js';
-import { IO_ERR, IO_H, IO_RTOL, IO_T, IO_T_NEW, type StageKernel, type Tableau } from './tableau.js';
+import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, type StageKernel, type Tableau } from './tableau.js';
 
 /** Start of each referenced stage row in the flat stage buffer. */
 function offsets(cols: Int32Array, n: number): Int32Array {
@@ -49,6 +49,13 @@ export function genericStep(tab: Tableau, n: number): StageKernel {
       for (let j = 0; j < n; j++) yNew[j]! += cf * K[off + j]!;
     }
     if (fsal) f(tNew, yNew, kRow[last]!);
+    let bad = 0;
+    for (let j = 0; j < n; j++) bad += yNew[j]! - yNew[j]!;
+    if (fsal) {
+      const kLast = kRow[last]!;
+      for (let j = 0; j < n; j++) bad += kLast[j]! - kLast[j]!;
+    }
+    io[IO_NONFINITE] = bad;
 
     if (combined) {
       let s5 = 0;

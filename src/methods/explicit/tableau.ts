@@ -9,12 +9,15 @@ export const IO_T_NEW = 1;
 export const IO_H = 2;
 export const IO_RTOL = 3;
 export const IO_ERR = 4;
-export const IO_SIZE = 5;
+/** 0 when y_new and (for FSAL pairs) the last stage are all finite, NaN otherwise. */
+export const IO_NONFINITE = 5;
+export const IO_SIZE = 6;
 
 /**
  * Optional straight-line step for one pair: stages 2..s (the FSAL stage included, evaluated at
- * tNew), y_new, and the scaled error norm the generic sweep would compute (single or combined
- * estimate). Costs s - 1 evaluations. The scalars travel in `io` (slots IO_*), not as arguments:
+ * tNew), y_new, the scaled error norm the generic sweep would compute (single or combined
+ * estimate) in IO_ERR, and in IO_NONFINITE the sum of v - v over y_new and the FSAL stage (0 when
+ * all are finite). Costs s - 1 evaluations. The scalars travel in `io` (slots IO_*), not as arguments:
  * a kernel is too large for V8 to inline into the engine, and a double passed to or returned
  * from a call that is not inlined is boxed on the heap, several allocations per step otherwise.
  */
