@@ -1,0 +1,178 @@
+// Floor benchmark: what a solve costs beyond the user's function. For every explicit method, the
+// problem's right-hand side is called in a bare loop exactly as many times as the solve calls it
+// (the cost of f alone), and the full solve is timed the way timed runs are (check times on, no
+// observer). Overhead per evaluation = (solve - bare loop) / nfev.
+// Problems: kepler-eccentric (4 states, f costs a few ns, so the integrator dominates) and a
+// 100-state dense linear system x' = Ax (f is a 100x100 mat-vec, so f dominates).
+import { Bench } from 'tinybench';
+import type { Method, Problem, Setting } from '../src/core/types.js';
+import { solveOptions } from '../src/measure/run-one.js';
+import { explicitMethods } from '../src/methods/explicit/index.js';
+import { keplerEccentric } from '../problems/kepler-eccentric.js';
+
+/** Size of the dense linear test system. */
+export const LINEAR_N = 100;
+const LINEAR_SEED = 20240611;
+const MAX_STEPS = 10_000_000;
+
+/** Deterministic uniform [0, 1) numbers (32-bit xorshift), so the matrix is the same every run. */
+function xorshift(seed: number): () => number {
+  let s = seed >>> 0 || 1;
+  return () => {
+    s ^= s << 13;
+    s >>>= 0;
+    s ^= s >>> 17;
+    s ^= s << 5;
+    s >>>= 0;
+    return s / 4294967296;
+  };
+}
+
+/**
+ * x' = Ax with A = R / sqrt(n) - I, R uniform in [-1, 1]: the spectrum of R / sqrt(n) lies
+ * (circular law) in a disc of radius about 1/sqrt(3), so every eigenvalue of A has real part
+ * below about -0.4 (stable, not stiff). x(0) = (1, ..., 1), t in [0, 10].
+ */
+export function denseLinearProblem(n = LINEAR_N, seed = LINEAR_SEED): Problem {
+  const rand = xorshift(seed);
+  const a = new Float64Array(n * n);
+  const scale = 1 / Math.sqrt(n);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) a[i * n + j] = (2 * rand() - 1) * scale - (i === j ? 1 : 0);
+  }
+  return {
+    id: `dense-linear-${n}`,
+    title: `Dense random stable linear system, ${n} states (benchmark only)`,
+    source: 'bench/floor.ts: seeded matrix, no reference (timing only)',
+    dimension: n,
+    t0: 0,
+    tEnd: 10,
+    y0: new Array<number>(n).fill(1),
+    f: (_t, y, dy) => {
+      for (let i = 0; i < n; i++) {
+        const row = i * n;
+        let s = 0;
+        for (let j = 0; j < n; j++) s += a[row + j]! * y[j]!;
+        dy[i] = s;
+      }
+    },
+    stiff: false,
+    invariants: [],
+    errorScale: { kind: 'absolute' },
+    reference: { kind: 'certified', source: 'none: the floor benchmark times solves and never measures error' },
+    checkTimes: [],
+    definition: `dense-linear n=${n} seed=${seed}`,
+  };
+}
+
+export interface FloorRow {
+  problem: string;
+  method: string;
+  setting: string;
+  nfev: number;
+  solveMs: number;
+  floorMs: number;
+  /** Solve time per evaluation, ns. */
+  nsPerEval: number;
+  /** Bare f time per evaluation, ns. */
+  floorNsPerEval: number;
+  /** (solve - floor) / nfev, ns. */
+  overheadNsPerEval: number;
+  /** solve / floor. */
+  ratio: number;
+  samples: number;
+}
+
+function settingFor(problem: Problem, m: Method, rtol: number, steps: number): Setting {
+  if (!m.adaptive) return { steps };
+  const s = problem.atolScale;
+  return { rtol, atol: s === undefined ? rtol : typeof s === 'number' ? rtol * s : s.map((v) => rtol * v) };
+}
+
+function label(s: Setting): string {
+  return 'rtol' in s ? `rtol=${s.rtol}` : `steps=${s.steps}`;
+}
+
+/** f called `count` times on a fixed state with varying t: the cost of the user's function alone. */
+function bareLoop(problem: Problem, count: number): () => void {
+  const f = problem.f;
+  const y = Float64Array.from(problem.y0);
+  const dy = new Float64Array(problem.dimension);
+  const span = problem.tEnd - problem.t0;
+  return () => {
+    for (let i = 0; i < count; i++) f(problem.t0 + (span * i) / count, y, dy);
+  };
+}
+
+/** Median wall time of fn, ms (tinybench, after warm-up). */
+export function medianMs(fn: () => void, timeMs: number): { ms: number; samples: number } {
+  const bench = new Bench({ time: timeMs, iterations: 5, warmup: true, warmupIterations: 3, warmupTime: 20 });
+  bench.add('x', fn);
+  bench.runSync();
+  const r = bench.tasks[0]!.result;
+  if (r.state !== 'completed') throw new Error(`benchmark task did not complete (${r.state})`);
+  return { ms: r.latency.p50, samples: r.latency.samplesCount };
+}
+
+function median(xs: number[]): number {
+  const a = [...xs].sort((x, y) => x - y);
+  const k = a.length >> 1;
+  return a.length % 2 ? a[k]! : (a[k - 1]! + a[k]!) / 2;
+}
+
+/** Rounds of solve then floor, so a change in machine load hits both alike; medians over rounds. */
+const ROUNDS = 5;
+
+function interleaved(solve: () => void, floor: () => void, timeMs: number) {
+  const s: number[] = [];
+  const f: number[] = [];
+  let samples = 0;
+  for (let r = 0; r < ROUNDS; r++) {
+    const a = medianMs(solve, timeMs / ROUNDS);
+    const b = medianMs(floor, timeMs / ROUNDS);
+    s.push(a.ms);
+    f.push(b.ms);
+    samples += a.samples;
+  }
+  return { solveMs: median(s), floorMs: median(f), samples };
+}
+
+export function floorRow(problem: Problem, m: Method, setting: Setting, timeMs: number): FloorRow {
+  const opts = solveOptions(problem, { maxSteps: MAX_STEPS });
+  const first = m.solve(problem, setting, opts);
+  if (first.status !== 'ok') throw new Error(`${m.id} on ${problem.id}: ${first.status} ${first.message ?? ''}`);
+  const nfev = first.counts.nfev;
+  const t = interleaved(() => {
+    m.solve(problem, setting, opts);
+  }, bareLoop(problem, nfev), timeMs);
+  return {
+    problem: problem.id,
+    method: m.id,
+    setting: label(setting),
+    nfev,
+    solveMs: t.solveMs,
+    floorMs: t.floorMs,
+    nsPerEval: (t.solveMs * 1e6) / nfev,
+    floorNsPerEval: (t.floorMs * 1e6) / nfev,
+    overheadNsPerEval: ((t.solveMs - t.floorMs) * 1e6) / nfev,
+    ratio: t.solveMs / t.floorMs,
+    samples: t.samples,
+  };
+}
+
+/** Every explicit method on both problems; rtol 1e-12 / 20,000 steps on Kepler, 1e-8 / 2,000 steps on the linear system. */
+export function runFloorBench(timeMs = 1000): FloorRow[] {
+  const rows: FloorRow[] = [];
+  const linear = denseLinearProblem();
+  const cases: [Problem, number, number][] = [
+    [keplerEccentric, 1e-12, 20_000],
+    [linear, 1e-8, 2_000],
+  ];
+  for (const [p, rtol, steps] of cases) {
+    for (const m of explicitMethods) {
+      if (m.needsSeparable && !p.separable) continue;
+      rows.push(floorRow(p, m, settingFor(p, m, rtol, steps), timeMs));
+    }
+  }
+  return rows;
+}

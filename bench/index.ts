@@ -1,0 +1,113 @@
+// `npm run bench`: floor, peers, then (when their modules are present) the implicit-method and
+// sweep benchmarks; prints every table and writes bench/results.json with the machine it ran on.
+// The optional modules are loaded by path at run time so this file builds without them.
+import { existsSync, mkdirSync, renameSync, writeFileSync } from 'node:fs';
+import { cpus, loadavg } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { runFloorBench } from './floor.js';
+import { runPeersBench } from './peers.js';
+
+const here = dirname(fileURLToPath(import.meta.url));
+/** bench/ in the source tree, whether this runs from dist/bench or from bench. */
+const benchDir = here.endsWith(join('dist', 'bench')) ? join(here, '..', '..', 'bench') : here;
+
+type Row = Record<string, unknown>;
+
+function fmt(v: unknown): string {
+  if (typeof v === 'number') {
+    if (Number.isInteger(v) && Math.abs(v) < 1e7) return String(v);
+    return Number.isFinite(v) ? v.toPrecision(3) : String(v);
+  }
+  if (v === null || v === undefined) return '-';
+  if (typeof v === 'object') return JSON.stringify(v);
+  return String(v);
+}
+
+export function table(title: string, rows: readonly Row[], columns: readonly string[]): string {
+  const cells = rows.map((r) => columns.map((c) => fmt(r[c])));
+  const width = columns.map((c, i) => Math.max(c.length, ...cells.map((r) => r[i]!.length)));
+  const line = (r: readonly string[]) => '| ' + r.map((v, i) => v.padEnd(width[i]!)).join(' | ') + ' |';
+  return [
+    `### ${title}`,
+    '',
+    line(columns),
+    '|' + width.map((w) => '-'.repeat(w + 2)).join('|') + '|',
+    ...cells.map(line),
+    '',
+  ].join('\n');
+}
+
+async function optional<T>(file: string, exportName: string): Promise<((...a: unknown[]) => T | Promise<T>) | null> {
+  const path = join(here, file);
+  if (!existsSync(path)) return null;
+  const mod = (await import(pathToFileURL(path).href)) as Record<string, unknown>;
+  const fn = mod[exportName];
+  return typeof fn === 'function' ? (fn as (...a: unknown[]) => T | Promise<T>) : null;
+}
+
+function machine(loadStart: number[]) {
+  const c = cpus();
+  return {
+    cpu: c[0]?.model ?? 'unknown',
+    cores: c.length,
+    node: process.version,
+    platform: process.platform,
+    arch: process.arch,
+    date: new Date().toISOString(),
+    loadAverageStart: loadStart,
+    loadAverageEnd: loadavg(),
+  };
+}
+
+async function main(): Promise<void> {
+  const loadStart = loadavg();
+  const out: Record<string, unknown> = {};
+  const show = (s: string) => console.log(s);
+
+  const floor = runFloorBench();
+  out.floor = floor;
+  show(
+    table('floor: solve vs the bare right-hand-side loop (same number of calls)', floor as unknown as Row[], [
+      'problem', 'method', 'setting', 'nfev', 'solveMs', 'floorMs', 'nsPerEval', 'floorNsPerEval', 'overheadNsPerEval', 'ratio',
+    ]),
+  );
+
+  const peers = await runPeersBench();
+  out.peers = peers;
+  show(
+    table('peers: kepler-eccentric at matched achieved final error', peers as unknown as Row[], [
+      'target', 'method', 'rtol', 'achieved', 'nfev', 'medianMs', 'nsPerEval', 'speedupVsOdex', 'note',
+    ]),
+  );
+
+  const stiff = await optional<Row[]>('stiff.js', 'runStiffBench');
+  if (stiff) {
+    const rows = await stiff();
+    out.stiff = rows;
+    show(table('stiff: implicit methods on Robertson', rows, Object.keys(rows[0] ?? {})));
+  }
+  const sweep = await optional<Row[]>('sweep.js', 'runSweepBench');
+  if (sweep) {
+    const rows = await sweep();
+    out.sweep = rows;
+    show(table('sweep: catalogue at jobs 1 and 2, 10,000-run memory sweep', rows, Object.keys(rows[0] ?? {})));
+  }
+
+  const env = machine(loadStart);
+  show(`machine: ${env.cpu}, ${env.cores} cores, node ${env.node}, ${env.date}, load average ${env.loadAverageStart.map((v) => v.toFixed(2)).join(' ')} (start) / ${env.loadAverageEnd.map((v) => v.toFixed(2)).join(' ')} (end)`);
+  const doc = { format: 'stepgauge-bench', version: 1, machine: env, ...out };
+  mkdirSync(benchDir, { recursive: true });
+  const target = join(benchDir, 'results.json');
+  const tmp = `${target}.tmp-${process.pid}`;
+  writeFileSync(tmp, JSON.stringify(doc, null, 2) + '\n');
+  renameSync(tmp, target);
+  console.log(`wrote ${target}`);
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  main().catch((e: unknown) => {
+    console.error(e);
+    process.exitCode = 1;
+  });
+}
