@@ -160,8 +160,19 @@ export function floorRow(problem: Problem, m: Method, setting: Setting, timeMs: 
   };
 }
 
+/** Times one (problem, method, setting): in this process, or in a fresh one (see index.ts). */
+export type FloorTimer = (problem: Problem, m: Method, setting: Setting, timeMs: number) => FloorRow;
+
+/** The problems this file builds or imports, by id (for timing in a child process). */
+export function benchProblem(id: string): Problem {
+  if (id === keplerEccentric.id) return keplerEccentric;
+  const linear = denseLinearProblem();
+  if (id === linear.id) return linear;
+  throw new Error(`unknown bench problem ${id}`);
+}
+
 /** Every explicit method on both problems; rtol 1e-12 / 20,000 steps on Kepler, 1e-8 / 2,000 steps on the linear system. */
-export function runFloorBench(timeMs = 1000): FloorRow[] {
+export function runFloorBench(timeMs = 1000, timer: FloorTimer = floorRow): FloorRow[] {
   const rows: FloorRow[] = [];
   const linear = denseLinearProblem();
   const cases: [Problem, number, number][] = [
@@ -171,7 +182,7 @@ export function runFloorBench(timeMs = 1000): FloorRow[] {
   for (const [p, rtol, steps] of cases) {
     for (const m of explicitMethods) {
       if (m.needsSeparable && !p.separable) continue;
-      rows.push(floorRow(p, m, settingFor(p, m, rtol, steps), timeMs));
+      rows.push(timer(p, m, settingFor(p, m, rtol, steps), timeMs));
     }
   }
   return rows;

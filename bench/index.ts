@@ -1,12 +1,19 @@
 // `npm run bench`: floor, peers, then (when their modules are present) the implicit-method and
 // sweep benchmarks; prints every table and writes bench/results.json with the machine it ran on.
 // The optional modules are loaded by path at run time so this file builds without them.
+// Each timed row runs in a fresh child process (`--row`): methods sharing one process share V8's
+// type feedback (engine call sites, inlined right-hand sides), which measured up to 1.7x slower
+// per evaluation than a method timed alone; the suite-order numbers say more about the order than
+// about the method. The searches (exact, deterministic counts) stay in this process.
 import { existsSync, mkdirSync, renameSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { runFloorBench } from './floor.js';
-import { runPeersBench } from './peers.js';
+import { execFileSync } from 'node:child_process';
+import type { Method, Problem, Setting } from '../src/core/types.js';
+import { findMethod } from '../src/methods/registry.js';
+import { benchProblem, floorRow, runFloorBench, type FloorRow } from './floor.js';
+import { runPeersBench, type PeerRow } from './peers.js';
 
 const here = dirname(fileURLToPath(import.meta.url));
 /** bench/ in the source tree, whether this runs from dist/bench or from bench. */
@@ -60,12 +67,53 @@ function machine(loadStart: number[]) {
   };
 }
 
+interface RowRequest {
+  problem: string;
+  method: string;
+  setting: Setting;
+  timeMs: number;
+}
+
+/** floorRow in a fresh node process. */
+function isolatedRow(problem: Problem, m: Method, setting: Setting, timeMs: number): FloorRow {
+  const req: RowRequest = { problem: problem.id, method: m.id, setting, timeMs };
+  const out = execFileSync(process.execPath, [fileURLToPath(import.meta.url), '--row', JSON.stringify(req)], {
+    encoding: 'utf8',
+    maxBuffer: 1 << 24,
+  });
+  return JSON.parse(out.trim().split('\n').at(-1)!) as FloorRow;
+}
+
+function childRow(arg: string): void {
+  const req = JSON.parse(arg) as RowRequest;
+  const m = findMethod(req.method);
+  if (!m) throw new Error(`unknown method ${req.method}`);
+  console.log(JSON.stringify(floorRow(benchProblem(req.problem), m, req.setting, req.timeMs)));
+}
+
+/** The performance targets, read off the rows. */
+function targets(floor: readonly FloorRow[], peers: readonly PeerRow[]): Row[] {
+  const rows: Row[] = [];
+  const dp = floor.find((r) => r.problem === 'kepler-eccentric' && r.method === 'dormand-prince-54');
+  if (dp) rows.push({ target: 'dormand-prince-54, kepler-eccentric, rtol 1e-12: ns per f', measured: dp.nsPerEval, limit: 25, met: dp.nsPerEval <= 25 });
+  const at8 = peers.filter((r) => r.target === 1e-8 && r.medianMs !== null && r.method !== 'odex');
+  const fastest = at8.sort((a, b) => a.medianMs! - b.medianMs!)[0];
+  if (fastest) {
+    rows.push({ target: `fastest at final error 1e-8 (${fastest.method}): ms`, measured: fastest.medianMs, limit: 0.5, met: fastest.medianMs! < 0.5 });
+    rows.push({ target: `fastest at final error 1e-8 (${fastest.method}): speed-up vs odex`, measured: fastest.speedupVsOdex, limit: 3, met: (fastest.speedupVsOdex ?? 0) >= 3 });
+  }
+  const linear = floor.filter((r) => r.problem.startsWith('dense-linear'));
+  const worst = [...linear].sort((a, b) => b.ratio - a.ratio)[0];
+  if (worst) rows.push({ target: `dense-linear-100: solve / bare f loop, worst method (${worst.method})`, measured: worst.ratio, limit: 1.5, met: worst.ratio <= 1.5 });
+  return rows;
+}
+
 async function main(): Promise<void> {
   const loadStart = loadavg();
   const out: Record<string, unknown> = {};
   const show = (s: string) => console.log(s);
 
-  const floor = runFloorBench();
+  const floor = runFloorBench(1000, isolatedRow);
   out.floor = floor;
   show(
     table('floor: solve vs the bare right-hand-side loop (same number of calls)', floor as unknown as Row[], [
@@ -73,13 +121,16 @@ async function main(): Promise<void> {
     ]),
   );
 
-  const peers = await runPeersBench();
+  const peers = await runPeersBench(1000, isolatedRow);
   out.peers = peers;
   show(
     table('peers: kepler-eccentric at matched achieved final error', peers as unknown as Row[], [
       'target', 'method', 'rtol', 'achieved', 'nfev', 'medianMs', 'nsPerEval', 'speedupVsOdex', 'note',
     ]),
   );
+
+  out.targets = targets(floor, peers);
+  show(table('targets', out.targets as Row[], ['target', 'measured', 'limit', 'met']));
 
   const stiff = await optional<Row[]>('stiff.js', 'runStiffBench');
   if (stiff) {
@@ -106,7 +157,8 @@ async function main(): Promise<void> {
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  main().catch((e: unknown) => {
+  if (process.argv[2] === '--row') childRow(process.argv[3]!);
+  else main().catch((e: unknown) => {
     console.error(e);
     process.exitCode = 1;
   });

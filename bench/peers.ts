@@ -5,13 +5,13 @@
 // setting is then timed with tinybench like any timed run (check times on, no observer).
 import type { RunResult } from '../src/core/results.js';
 import type { Method, Problem, Setting } from '../src/core/types.js';
-import { measureRun, solveOptions } from '../src/measure/run-one.js';
+import { measureRun } from '../src/measure/run-one.js';
 import { DEFAULT_TIMING } from '../src/measure/timing.js';
 import { explicitMethods } from '../src/methods/explicit/index.js';
 import { findMethod } from '../src/methods/registry.js';
 import { chooseMethod } from '../src/sweep/choose.js';
 import { keplerEccentric } from '../problems/kepler-eccentric.js';
-import { medianMs } from './floor.js';
+import { floorRow, type FloorTimer } from './floor.js';
 
 export const PEER_TARGETS = [1e-6, 1e-8, 1e-10];
 const MAX_STEPS = 10_000_000;
@@ -80,7 +80,11 @@ function contenders(): Method[] {
   return odex ? [...ours, odex] : ours;
 }
 
-export async function runPeersBench(timeMs = 400, targets: readonly number[] = PEER_TARGETS): Promise<PeerRow[]> {
+export async function runPeersBench(
+  timeMs = 1000,
+  timer: FloorTimer = floorRow,
+  targets: readonly number[] = PEER_TARGETS,
+): Promise<PeerRow[]> {
   const p = keplerEccentric;
   const methods = contenders();
   const rows: PeerRow[] = [];
@@ -111,14 +115,11 @@ export async function runPeersBench(timeMs = 400, targets: readonly number[] = P
         continue;
       }
       const setting: Setting = { rtol: s.rtol, atol: s.atol };
-      const opts = solveOptions(p, { maxSteps: MAX_STEPS });
-      const t = medianMs(() => {
-        m.solve(p, setting, opts);
-      }, timeMs);
+      const t = timer(p, m, setting, timeMs);
       const nfev = run.counts.nfev;
       batch.push({
-        target, method: c.method, met: true, rtol: s.rtol, achieved: finalError(run), nfev, medianMs: t.ms,
-        nsPerEval: (t.ms * 1e6) / nfev, speedupVsOdex: null, samples: t.samples, ...(note ? { note } : {}),
+        target, method: c.method, met: true, rtol: s.rtol, achieved: finalError(run), nfev, medianMs: t.solveMs,
+        nsPerEval: (t.solveMs * 1e6) / nfev, speedupVsOdex: null, samples: t.samples, ...(note ? { note } : {}),
       });
     }
     const odex = batch.find((r) => r.method === 'odex' && r.medianMs !== null);
