@@ -46,6 +46,8 @@ export const harmonicOscillator: Problem = {
     },
   },
   checkTimes: CHECK_TIMES,
+  // Equal steps from 200 doubling: reaches rk4's asymptotic range (common practice, no source).
+  defaultSteps: [200, 400, 800, 1600, 3200, 6400, 12800, 25600],
   separable: { positions: [0], velocities: [1] },
   definition: [
     'id: harmonic-oscillator',

@@ -78,6 +78,11 @@ export interface Problem {
    */
   readonly checkTimes: readonly number[];
   readonly separable?: SeparableSplit;
+  /**
+   * Equal-step counts for fixed-step methods when the user gives none: a ladder reaching the
+   * asymptotic range of this problem (the sweep's default ladder otherwise).
+   */
+  readonly defaultSteps?: readonly number[];
   /** Absolute tolerance to use when the user gives only rtol: atol = rtol * atolScale (default 1). */
   readonly atolScale?: number | readonly number[];
   /** Outputs computed from the state; the error is measured on them when errorOn is 'outputs'. */

@@ -30,7 +30,8 @@ export interface PlanRequest {
   problems: readonly Problem[];
   methods: readonly Method[];
   tolerances: readonly number[];
-  steps: readonly number[];
+  /** Step counts the user gave; undefined: each problem's own ladder, else DEFAULT_STEPS. */
+  steps: readonly number[] | undefined;
   /** Methods the user named: they run even where the default pairing would leave them out. */
   methodsNamed: boolean;
 }
@@ -88,7 +89,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
       }
       const settings: Setting[] = method.adaptive
         ? req.tolerances.map((rtol) => ({ rtol, atol: atolFor(problem, rtol) }))
-        : req.steps.map((steps) => ({ steps }));
+        : (req.steps ?? problem.defaultSteps ?? DEFAULT_STEPS).map((steps) => ({ steps }));
       for (const setting of settings) {
         runs.push({ problem: problem.id, method: method.id, setting, planIndex: runs.length, expectedCost: costOf(method, setting) });
       }

@@ -8,7 +8,7 @@ import { calibrationSeconds } from '../measure/timing.js';
 import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 import { resolve as resolvePath } from 'node:path';
 import { executeRun, type ExecuteOptions } from './execute.js';
-import { DEFAULT_STEPS, DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
+import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { resolveMethods, resolveProblems } from './resolve.js';
 import { executeOnPool } from './pool.js';
 import { selectShard } from './shard.js';
@@ -129,7 +129,7 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
     problems: problems.items,
     methods: methods.items,
     tolerances: req.tolerances ?? DEFAULT_TOLERANCES,
-    steps: req.steps ?? DEFAULT_STEPS,
+    steps: req.steps,
     methodsNamed: methods.named,
   });
   let selected: readonly PlannedRun[] = req.shard ? selectShard(plan.runs, req.shard.index, req.shard.count) : plan.runs;

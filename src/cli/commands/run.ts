@@ -60,7 +60,7 @@ export function requestFromFlags(flags: RunFlags): SweepRequest {
   }
   const req: SweepRequest = {
     tolerances: parseTolerances(flags.tolerances),
-    steps: flags.steps === undefined ? [...DEFAULT_STEPS] : parseSteps(flags.steps),
+    ...(flags.steps === undefined ? {} : { steps: parseSteps(flags.steps) }),
     maxSteps: parsePositiveInt(flags.maxSteps, '--max-steps'),
     timing: flags.timing ? { ...DEFAULT_TIMING, budgetSeconds: parsePositive(flags.timeBudget, '--time-budget') } : null,
     controller: flags.controller,
@@ -90,7 +90,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('-p, --problem <list>', 'problem ids or files, comma-separated (default: the whole catalogue)')
     .option('-m, --method <list>', 'method ids or module files, comma-separated (default: all that apply)')
     .option('-t, --tolerances <list>', 'rtol values: a list 1e-4,1e-8 or a range 1e-3..1e-12 (one per decade)', '1e-3..1e-10')
-    .option('-s, --steps <list>', `equal-step counts for fixed-step methods (default ${DEFAULT_STEPS.join(',')})`)
+    .option('-s, --steps <list>', `equal-step counts for fixed-step methods (default: each problem's own doubling ladder, else ${DEFAULT_STEPS.join(',')})`)
     .option('-o, --out <dir>', 'output folder (default reports/<date>-<time>, with reports/latest pointing at it)')
     .option('--no-timing', 'skip wall-time measurement (time is recorded as null)')
     .option('--time-budget <seconds>', 'timing budget per run; long solves get fewer samples', String(DEFAULT_TIMING.budgetSeconds))
