@@ -56,7 +56,10 @@ function makeLocator(file: string, doc: Document, counter: LineCounter): (path: 
   };
 }
 
-export function parseStructuredText(file: string, text: string): StructuredFile {
+export function parseStructuredText(file: string, raw: string): StructuredFile {
+  // A byte-order mark is valid at the start of a UTF-8 file (editors on Windows write one);
+  // JSON.parse refuses it, so drop it before either parser sees the text.
+  const text = raw.charCodeAt(0) === 0xfeff ? raw.slice(1) : raw;
   const ext = extname(file).toLowerCase();
   if (ext !== '.yaml' && ext !== '.yml' && ext !== '.json') {
     throw new InputError(`problem files must end in .yaml, .yml or .json (got '${ext || 'no extension'}')`, file);
@@ -82,10 +85,17 @@ export function parseStructuredText(file: string, text: string): StructuredFile 
     const first = doc.errors[0];
     if (first) {
       const pos = first.linePos?.[0];
-      const reason = first.message.split('\n')[0] ?? first.message;
+      // The location is already in front; drop the library's own " at line L, column C:".
+      const reason = (first.message.split('\n')[0] ?? first.message).replace(/ at line \d+, column \d+:?$/, '');
       throw new InputError(`YAML syntax error: ${reason}`, pos ? `${file}:${pos.line}:${pos.col}` : file);
     }
-    data = doc.toJS({ maxAliasCount: 100 });
+    try {
+      data = doc.toJS({ maxAliasCount: 100 });
+    } catch (e) {
+      // The yaml library refuses alias expansions that would multiply the document ("billion
+      // laughs"); that is a property of the file, not a fault of this program.
+      throw new InputError(`YAML cannot be expanded: ${e instanceof Error ? e.message : String(e)}`, file);
+    }
   }
   // For JSON the YAML parse serves only to find positions; it may fail on exotic JSON, then
   // messages fall back to naming the file and the field.

@@ -47,7 +47,7 @@ async function readCsvRows(site: Site, path: FieldPath, relative: string, proble
   }
   let records: string[][];
   try {
-    records = parseCsv(text, { trim: true, skip_empty_lines: true, relax_column_count: true, comment: '#' }) as string[][];
+    records = parseCsv(text, { bom: true, trim: true, skip_empty_lines: true, relax_column_count: true, comment: '#' }) as string[][];
   } catch (e) {
     throw new InputError(`CSV syntax error for ${pathText(path)}: ${e instanceof Error ? e.message : String(e)}`, csvPath);
   }
@@ -60,7 +60,11 @@ async function readCsvRows(site: Site, path: FieldPath, relative: string, proble
       if (!NUMBER_CELL.test(cell)) {
         throw new InputError(`row ${i + 1}, column ${j + 1}: '${cell}' is not a number (matrix ${pathText(path)})`, csvPath);
       }
-      return Number(cell);
+      const value = Number(cell);
+      if (!Number.isFinite(value)) {
+        throw new InputError(`row ${i + 1}, column ${j + 1}: '${cell}' is too large for a double (it reads as ${value}) (matrix ${pathText(path)})`, csvPath);
+      }
+      return value;
     });
   });
 }

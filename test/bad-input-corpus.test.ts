@@ -1,0 +1,270 @@
+// The bad-input corpus (test/fixtures/bad/): every file is fed to `stepgauge run` in process. Each
+// must end with exit 2 and one line on stderr that names the file (with line and column where the
+// file has them) and the field, with no stack trace, and nothing may be written: the temporary
+// folder that holds --out stays empty (no results, no half-written folder, no journal beside it).
+// A few files in the corpus are valid on purpose (a byte-order mark, CRLF line endings): those
+// must load and give the same problem as the plain file.
+import { accessSync, chmodSync, constants, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { runCli, type CliResult } from './helpers/cli.js';
+import { loadProblemFile } from '../src/problems/load-file.js';
+
+const BAD = 'test/fixtures/bad';
+const scratch: string[] = [];
+afterAll(() => {
+  for (const d of scratch) rmSync(d, { recursive: true, force: true });
+});
+
+function freshDir(): string {
+  const d = mkdtempSync(join(tmpdir(), 'sg-bad-input-'));
+  scratch.push(d);
+  return d;
+}
+
+/** Runs `run` on one problem (and optionally a method) with a fast fixed-step setting. */
+async function runOn(problem: string, method = 'rk4'): Promise<{ r: CliResult; dir: string }> {
+  const dir = freshDir();
+  const r = await runCli(['run', '--problem', problem, '-m', method, '-s', '10', '--no-timing', '-q', '--out', join(dir, 'out')]);
+  return { r, dir };
+}
+
+/** The assertions every refused input shares. */
+function expectRefused(r: CliResult, dir: string | undefined, where: string, says: RegExp): void {
+  expect(r.code, r.stderr).toBe(2);
+  const lines = r.stderr.split('\n').filter((l) => l !== '');
+  expect(lines, r.stderr).toHaveLength(1);
+  const line = lines[0]!;
+  expect(line.startsWith('stepgauge: ')).toBe(true);
+  expect(line).toContain(where);
+  expect(line).toMatch(says);
+  expect(r.stderr).not.toMatch(/^\s+at /m);
+  expect(r.stderr).not.toContain('internal error');
+  if (dir !== undefined) expect(readdirSync(dir)).toEqual([]);
+}
+
+// [fixture, text that must be in the message (file, line and column), what it must say (field and reason)]
+// Lines and columns were read off the fixture files by hand.
+const PROBLEM_FILES: readonly (readonly [string, string, RegExp])[] = [
+  // malformed YAML and JSON
+  ['yaml-unclosed-flow.yaml', 'yaml-unclosed-flow.yaml:4:1', /YAML syntax error: Flow sequence in block collection must be sufficiently indented and end with a \]$/],
+  ['yaml-bad-indent.yaml', 'yaml-bad-indent.yaml:5:6', /YAML syntax error: Nested mappings are not allowed/],
+  ['yaml-tab-indent.yaml', 'yaml-tab-indent.yaml:5:1', /YAML syntax error: Tabs are not allowed as indentation$/],
+  ['yaml-duplicate-key.yaml', 'yaml-duplicate-key.yaml:8:3', /YAML syntax error: Map keys must be unique$/],
+  ['yaml-deep-nesting.yaml', 'yaml-deep-nesting.yaml', /nest|stack/i],
+  ['json-missing-comma.json', 'json-missing-comma.json:4:3', /JSON syntax error: Expected ',' or '\}' after property value/],
+  ['json-trailing-comma.json', 'json-trailing-comma.json:5:1', /JSON syntax error: Expected double-quoted property name/],
+  ['json-truncated.json', 'json-truncated.json:4:17', /JSON syntax error/],
+  ['json-duplicate-key.json', 'json-duplicate-key.json:1:19', /a key appears twice in the same object/],
+  ['json-deep-nesting.json', 'json-deep-nesting.json', /nested too deeply to be read/],
+  ['empty.yaml', 'empty.yaml', /\(top level\): a problem file must hold a mapping of fields/],
+  ['scalar-top.yaml', 'scalar-top.yaml:1:1', /\(top level\): a problem file must hold a mapping/],
+  ['list-top.json', 'list-top.json:1:1', /\(top level\): a problem file must hold a mapping/],
+  ['binary-garbage.yaml', 'binary-garbage.yaml', /a problem file must hold a mapping|syntax error/],
+  ['notes.txt', `--problem ${BAD}/notes.txt`, /unknown problem file type '\.txt'; expected \.yaml, \.yml, \.json, \.ts or \.js/],
+  // wrong types and shapes
+  ['states-not-list.yaml', 'states-not-list.yaml:3:9', /states: Invalid input: expected array, received string/],
+  ['span-three-values.yaml', 'span-three-values.yaml:9:7', /span: Too big: expected array to have <=2 items/],
+  ['span-text.yaml', 'span-text.yaml:9:7', /span: Invalid input: expected tuple, received string/],
+  ['stiff-text.yaml', 'stiff-text.yaml:10:8', /stiff: Invalid input: expected boolean, received string/],
+  ['id-not-kebab.yaml', 'id-not-kebab.yaml:1:5', /id: must be kebab-case/],
+  ['title-empty.yaml', 'title-empty.yaml:2:8', /title: Too small/],
+  ['equation-boolean.yaml', 'equation-boolean.yaml:6:6', /equations\.x: has none of the accepted forms/],
+  ['unknown-field.yaml', 'unknown-field.yaml:1:1', /\(top level\): Unrecognized key: "equashuns"/],
+  ['missing-equations.yaml', 'missing-equations.yaml:1:1', /equations: is required \(expected record\)/],
+  ['long-line-garbage.yaml', 'long-line-garbage.yaml:9:7', /span: Too big: expected array to have <=2 items/],
+  // unknown symbols, names, cycles
+  ['unknown-symbol.yaml', 'unknown-symbol.yaml:7:6', /equations\.v: unknown symbol 'kk' \(known here: t, x, v, k, pi, e\)/],
+  ['unknown-function.yaml', 'unknown-function.yaml:7:6', /equations\.v: function 'foo' is not allowed/],
+  ['reserved-name.yaml', 'reserved-name.yaml:3:10', /states\[0\]: state name 't' is reserved/],
+  ['name-used-twice.yaml', 'name-used-twice.yaml:4:24', /parameters\.x: parameter name 'x' is already used as a state/],
+  ['definition-cycle.yaml', 'definition-cycle.yaml:6:6', /definitions\.a: definitions form a cycle: a -> b -> c -> a/],
+  ['parameter-self.yaml', 'parameter-self.yaml:4:18', /parameters\.k: parameter 'k' uses itself/],
+  ['parameter-forward.yaml', 'parameter-forward.yaml:4:18', /parameters\.k: parameter 'k' uses 'm', which is defined after it/],
+  ['equation-not-a-state.yaml', 'equation-not-a-state.yaml:8:6', /equations\.w: 'w' is not a state \(states: x, v\)/],
+  ['initial-missing.yaml', 'initial-missing.yaml:8:10', /initial: state 'v' has no initial value/],
+  ['invariant-unknown-symbol.yaml', 'invariant-unknown-symbol.yaml:10:23', /invariants\.energy: unknown symbol 'y'/],
+  ['measure-outputs-without-outputs.yaml', 'measure-outputs-without-outputs.yaml:10:19', /error\.measure: measure: outputs needs an `outputs` section/],
+  ['relative-without-floor.yaml', 'relative-without-floor.yaml:10:8', /error: scale: relative needs a floor/],
+  ['separable-unknown-state.yaml', 'separable-unknown-state.yaml:10:43', /separable\.velocities\[0\]: 'w' is not a state/],
+  ['reference-time-outside.yaml', 'reference-time-outside.yaml:11:13', /reference\.at\[0\]\.t: time 20 is outside the span \(0, 10\]/],
+  ['reference-exact-missing-state.yaml', 'reference-exact-missing-state.yaml:11:10', /reference\.exact: state 'v' has no exact expression/],
+  // spans and times
+  ['span-empty.yaml', 'span-empty.yaml:9:7', /span: span \[1, 1\] is empty; the end must be later than the start/],
+  ['span-reversed.yaml', 'span-reversed.yaml:9:7', /span: span \[10, 0\] is reversed/],
+  ['checktime-outside.yaml', 'checktime-outside.yaml:10:17', /checkTimes\[1\]: check time 12 is outside the span \(0, 10\]/],
+  // NaN, Infinity and numbers past the double range
+  ['initial-nan.yaml', 'initial-nan.yaml:8:15', /initial\.x: must be a finite number, got NaN$/],
+  ['span-infinity.yaml', 'span-infinity.yaml:9:11', /span\[1\]: must be a finite number, got Infinity$/],
+  ['initial-huge-exponent.yaml', 'initial-huge-exponent.yaml:8:15', /initial\.x: must be a finite number, got Infinity$/],
+  ['json-huge-exponent.json', 'json-huge-exponent.json:6:21', /initial\.x: must be a finite number, got Infinity$/],
+  ['parameter-division-by-zero.yaml', 'parameter-division-by-zero.yaml:4:18', /parameters\.k: `1 \/ 0` evaluates to Infinity; a finite number is needed/],
+  ['parameter-overflow.yaml', 'parameter-overflow.yaml:4:18', /parameters\.k: `10\^400` evaluates to Infinity/],
+  ['span-nan-expression.yaml', 'span-nan-expression.yaml:9:11', /span\[1\]: `0 \/ 0` evaluates to NaN/],
+  // linear state-space models: shapes (A n x n, B n x m, C p x n, D p x m)
+  ['linear-A-not-square.yaml', 'linear-A-not-square.yaml:5:6', /linear\.A: must be square \(n x n, n = number of states\); got 2 x 3/],
+  ['linear-A-ragged-rows.yaml', 'linear-A-ragged-rows.yaml:5:15', /linear\.A\[1\]: row 2 has 1 entries, row 1 has 2/],
+  ['linear-B-shape.yaml', 'linear-B-shape.yaml:6:6', /linear\.B: must be 2 x 1 \(n x m: n = 2 states from A, m = 1 inputs\); got 2 x 2/],
+  ['linear-B-without-inputs.yaml', 'linear-B-without-inputs.yaml:1:1', /inputs: B has 1 column\(s\), one per input, but no inputs are given/],
+  ['linear-inputs-without-B.yaml', 'linear-inputs-without-B.yaml:5:3', /linear: 1 input\(s\) given but no B matrix \(n x m = 2 x 1\)/],
+  ['linear-C-columns.yaml', 'linear-C-columns.yaml:6:6', /linear\.C: must have 2 columns \(p x n, n = 2 states\); got 1 x 3/],
+  ['linear-D-without-C.yaml', 'linear-D-without-C.yaml:6:6', /linear\.D: D needs a C matrix/],
+  ['linear-D-shape.yaml', 'linear-D-shape.yaml:8:6', /linear\.D: must be 1 x 1 \(p x m: p = 1 outputs from C, m = 1 inputs\); got 1 x 2/],
+  ['linear-initial-length.yaml', 'linear-initial-length.yaml:6:10', /initial: has 3 values; the model has 2 states \(q, p\)/],
+  ['linear-states-count.yaml', 'linear-states-count.yaml:3:9', /states: lists 3 states but A is 2 x 2/],
+  ['linear-A-unknown-symbol.yaml', 'linear-A-unknown-symbol.yaml:5:20', /linear\.A\[1\]\[1\]: unknown symbol 'omega'/],
+  ['linear-A-nan.yaml', 'linear-A-nan.yaml:5:20', /linear\.A\[1\]\[1\]: must be a finite number, got NaN$/],
+  ['linear-and-equations.yaml', 'linear-and-equations.yaml:4:12', /equations: a file describes either `equations` or a `linear` model, not both/],
+  // CSV matrices: the message names the CSV file (where the fault is) and the matrix field
+  ['linear-csv-nonnumeric.yaml', resolve(BAD, 'cells-nonnumeric.csv'), /row 2, column 2: 'zero' is not a number \(matrix linear\.A\)$/],
+  ['linear-csv-nan.yaml', resolve(BAD, 'cells-nan.csv'), /row 2, column 2: 'NaN' is not a number \(matrix linear\.A\)$/],
+  ['linear-csv-huge-exponent.yaml', resolve(BAD, 'cells-huge.csv'), /row 2, column 2: '1e999' is too large for a double \(it reads as Infinity\) \(matrix linear\.A\)$/],
+  ['linear-csv-ragged.yaml', resolve(BAD, 'cells-ragged.csv'), /row 2 has 1 cells, row 1 has 2 \(ragged matrix for linear\.A\)$/],
+  ['linear-csv-bad-quote.yaml', resolve(BAD, 'cells-bad-quote.csv'), /CSV syntax error for linear\.A: Quote Not Closed/],
+  ['linear-csv-missing.yaml', 'linear-csv-missing.yaml:5:6', /linear\.A: cannot read matrix file no-such-matrix\.csv \(ENOENT\)$/],
+  ['linear-csv-directory.yaml', 'linear-csv-directory.yaml:5:6', /linear\.A: cannot read matrix file a-folder\.csv \(EISDIR\)$/],
+  ['linear-csv-empty.yaml', 'linear-csv-empty.yaml:5:6', /linear\.A: matrix has no rows$/],
+  // folders and missing files where a problem file is expected
+  ['folder-problem.yaml', `--problem ${BAD}/folder-problem.yaml`, /expected a file, found a folder$/],
+  ['no-such-problem.yaml', `--problem ${BAD}/no-such-problem.yaml`, /file not found$/],
+  // hostile and oversized expressions
+  ['hostile-import.yaml', 'hostile-import.yaml:7:6', /equations\.v: function 'import' is not allowed/],
+  ['hostile-evaluate.yaml', 'hostile-evaluate.yaml:7:6', /equations\.v: function 'evaluate' is not allowed/],
+  ['hostile-constructor.yaml', 'hostile-constructor.yaml:7:6', /equations\.v: calling `sin\.constructor` is not allowed/],
+  ['hostile-proto.yaml', 'hostile-proto.yaml:7:6', /equations\.v: property access or indexing `x\["__proto__"\]` is not allowed$/],
+  ['hostile-parameter.yaml', 'hostile-parameter.yaml:4:18', /parameters\.k: function 'createUnit' is not allowed/],
+  ['hostile-alias-bomb.yaml', 'hostile-alias-bomb.yaml', /YAML cannot be expanded: Excessive alias count/],
+  ['yaml-unknown-tag.yaml', 'yaml-unknown-tag.yaml:7:20', /equations\.v: cannot parse `function \(\) \{ return process \}`/],
+  ['long-expression.yaml', 'long-expression.yaml:7:6', /equations\.v: expression is longer than 10000 characters$/],
+  ['deep-nesting.yaml', 'deep-nesting.yaml:7:6', /equations\.v: `\({57}\.\.\.` is nested too deeply to parse; split it into definitions$/],
+  // problem and method modules
+  ['module-syntax-error.ts', 'module-syntax-error.ts:12:3', /cannot build module: Unexpected ","/],
+  ['module-throws-on-import.ts', `${BAD}/module-throws-on-import.ts`, /module failed while loading: calibration table is empty$/],
+  ['module-nan-at-start.ts', `${BAD}/module-nan-at-start.ts`, /defineProblem\(nan-at-start\): f\(t0, y0\) gave a non-finite derivative for component 0$/],
+  ['module-exports-nothing.ts', `${BAD}/module-exports-nothing.ts`, /exports neither a problem nor a method/],
+];
+
+describe('bad problem files: exit 2, one line naming file and field, nothing written', () => {
+  it('the corpus holds at least 40 bad files', () => {
+    expect(PROBLEM_FILES.length).toBeGreaterThanOrEqual(40);
+    // Every fixture named in the table exists, and the table names every problem-like fixture.
+    const onDisk = new Set(readdirSync(BAD));
+    const named = new Set(PROBLEM_FILES.map(([f]) => f));
+    for (const f of named) if (f !== 'no-such-problem.yaml') expect(onDisk.has(f), f).toBe(true);
+    const helpers = /^(cells-.*\.csv|a-folder\.csv|valid-.*|linear-valid-.*|results-.*\.json|module-method-.*)$/;
+    for (const f of onDisk) if (!helpers.test(f)) expect(named.has(f), `${f} is not in the table`).toBe(true);
+  });
+
+  it.each(PROBLEM_FILES)('%s', async (fixture, where, says) => {
+    const { r, dir } = await runOn(join(BAD, fixture));
+    expectRefused(r, dir, where, says);
+  });
+
+  it('a method module with an unknown family: --method names the module', async () => {
+    const { r, dir } = await runOn('harmonic-oscillator', join(BAD, 'module-method-bad-family.ts'));
+    expectRefused(r, dir, join(BAD, 'module-method-bad-family.ts'), /defineMethod\(magic-step\): family must be one of fixed-step, embedded-explicit/);
+  });
+
+  // chmod 000 does not stop root from reading, and these tests may run as root: then the case
+  // cannot be produced and is skipped (the loader's EACCES branch is the same as ENOENT's).
+  const lockedDir = freshDir();
+  const locked = join(lockedDir, 'locked.yaml');
+  writeFileSync(locked, 'id: locked\ntitle: Locked\nstates: [x]\nequations: { x: -x }\ninitial: { x: 1 }\nspan: [0, 1]\n');
+  chmodSync(locked, 0o000);
+  let readable = true;
+  try {
+    accessSync(locked, constants.R_OK);
+  } catch {
+    readable = false;
+  }
+  it.skipIf(readable)('an unreadable problem file (chmod 000): cannot read, EACCES', async () => {
+    const { r, dir } = await runOn(locked);
+    expectRefused(r, dir, locked, /cannot read problem file: EACCES$/);
+  });
+});
+
+describe('valid on purpose: a byte-order mark and CRLF line endings load like the plain file', () => {
+  it.each(['valid-bom.yaml', 'valid-crlf.yaml', 'valid-bom-crlf.json'])('%s gives the same equations, span and start', async (fixture) => {
+    const p = await loadProblemFile(join(BAD, fixture));
+    expect(p.stateNames).toEqual(['x', 'v']);
+    expect([p.t0, p.tEnd]).toEqual([0, 10]);
+    expect(p.y0).toEqual([1, 0]);
+    const dy = new Float64Array(2);
+    p.f(0, Float64Array.of(0.5, -2), dy);
+    // x' = v, v' = -k x with k = 4: (-2, -2) at (0.5, -2), by hand.
+    expect(Array.from(dy)).toEqual([-2, -2]);
+  });
+  it('a CSV matrix with a byte-order mark and CRLF rows reads as plain numbers', async () => {
+    const p = await loadProblemFile(join(BAD, 'linear-valid-crlf-bom-csv.yaml'));
+    const dy = new Float64Array(2);
+    p.f(0, Float64Array.of(3, 5), dy);
+    // A = [[0, 1], [-1, 0]]: (p, -q) = (5, -3).
+    expect(Array.from(dy)).toEqual([5, -3]);
+  });
+  it('the BOM + CRLF JSON file runs through the CLI (exit 0, results written)', async () => {
+    const dir = freshDir();
+    const r = await runCli(['run', '--problem', join(BAD, 'valid-bom-crlf.json'), '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report', '--out', join(dir, 'out')]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toBe('');
+    expect(readdirSync(join(dir, 'out')).sort()).toEqual(['results.csv', 'results.json']);
+  });
+});
+
+describe('bad flags and files for the other commands', () => {
+  it('report on a missing results file', async () => {
+    const dir = freshDir();
+    const path = join(dir, 'nope', 'results.json');
+    const r = await runCli(['report', path, '--out', join(dir, 'rep')]);
+    expectRefused(r, dir, path, /cannot read results file \(ENOENT\)$/);
+  });
+  it('report on a truncated results file', async () => {
+    const dir = freshDir();
+    const r = await runCli(['report', join(BAD, 'results-truncated.json'), '--out', join(dir, 'rep')]);
+    expectRefused(r, dir, join(BAD, 'results-truncated.json'), /not valid JSON \(.*\); expected stepgauge-results version 1$/);
+  });
+  it('report on a results file of a future version', async () => {
+    const dir = freshDir();
+    const r = await runCli(['report', join(BAD, 'results-future-version.json'), '--out', join(dir, 'rep')]);
+    expectRefused(r, dir, join(BAD, 'results-future-version.json'), /version/);
+    expect(r.stderr).toContain('7');
+  });
+  it('report on a results file with an unknown run status names the field', async () => {
+    const dir = freshDir();
+    const r = await runCli(['report', join(BAD, 'results-bad-status.json'), '--out', join(dir, 'rep')]);
+    expectRefused(r, dir, join(BAD, 'results-bad-status.json'), /runs\[1\]\.status/);
+    expect(r.stderr).toContain('exploded');
+  });
+  it('check with a baseline that is a folder (unreadable as a file)', async () => {
+    const dir = freshDir();
+    const r = await runCli(['check', 'test/fixtures/results-synthetic.json', '--baseline', dir, '--junit', join(dir, 'junit.xml')]);
+    expectRefused(r, dir, dir, /cannot read baseline file \(EISDIR\)$/);
+  });
+  it('check with a missing baseline', async () => {
+    const dir = freshDir();
+    const r = await runCli(['check', 'test/fixtures/results-synthetic.json', '--baseline', join(dir, 'baseline.json')]);
+    expectRefused(r, dir, join(dir, 'baseline.json'), /cannot read baseline file \(ENOENT\)$/);
+  });
+  it('check with a baseline that is a problem file, not a baseline', async () => {
+    const r = await runCli(['check', 'test/fixtures/results-synthetic.json', '--baseline', join(BAD, 'json-huge-exponent.json')]);
+    expectRefused(r, undefined, join(BAD, 'json-huge-exponent.json'), /field "format" is undefined; --baseline reads/);
+  });
+  it('merge where one file is not a results file: nothing is written', async () => {
+    const dir = freshDir();
+    const r = await runCli(['merge', 'test/fixtures/results-synthetic.json', join(BAD, 'list-top.json'), '--out', join(dir, 'merged.json')]);
+    expectRefused(r, dir, join(BAD, 'list-top.json'), /object|format/);
+  });
+  it('choose without --target: exit 2, the flag named, no stack', async () => {
+    const r = await runCli(['choose', '--problem', 'harmonic-oscillator']);
+    expect(r.code).toBe(2);
+    const lines = r.stderr.split('\n').filter((l) => l !== '');
+    // commander's message, then the usage hint the CLI asks it to show after an error.
+    expect(lines[0]).toBe("error: required option '--target <error>' not specified");
+    expect(lines.slice(1)).toEqual(['(run with --help for usage)']);
+    expect(r.stdout).toBe('');
+  });
+  it('choose with a target that is not a number names --target', async () => {
+    const r = await runCli(['choose', '--problem', 'harmonic-oscillator', '--target', 'tiny']);
+    expectRefused(r, undefined, '--target', /tiny/);
+  });
+});
