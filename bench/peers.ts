@@ -102,15 +102,18 @@ export async function runPeersBench(
       let run = c.met ? c.run : null;
       let note: string | undefined;
       // Only this problem's atolScale-free setting is extended (kepler-eccentric: atol = rtol).
+      let extended = false;
       if (!run && m.adaptive && p.atolScale === undefined) {
         run = searchBelowGrid(p, m, target);
+        extended = true;
         if (run) note = 'rtol below the choose grid (1e-13)';
       }
       const s = run?.setting;
       if (!run || !s || !('rtol' in s)) {
         batch.push({
           target, method: c.method, met: false, rtol: null, achieved: c.achieved, nfev: null, medianMs: null,
-          nsPerEval: null, speedupVsOdex: null, samples: 0, ...(c.note ? { note: c.note } : {}),
+          nsPerEval: null, speedupVsOdex: null, samples: 0,
+          note: `${c.note ?? 'not met'}${extended ? '; not met down to rtol 1e-15 either' : ''}`,
         });
         continue;
       }
