@@ -6,7 +6,8 @@ import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
 import { DEADLINE_EVERY } from './control.js';
 import { finish } from './finish.js';
-import type { Tableau } from './tableau.js';
+import type { FixedKernelFactory } from './kernels/unrolled.js';
+import { IO_H, IO_SIZE, IO_T, type Tableau } from './tableau.js';
 import { checkOptions, checkProblem, fixedSteps } from './validate.js';
 
 export function solveFixed(
@@ -15,6 +16,7 @@ export function solveFixed(
   problem: Problem,
   setting: Setting,
   options: SolveOptions,
+  kernel?: FixedKernelFactory,
 ): SolveResult {
   checkProblem(problem, methodId);
   checkOptions(options, methodId);
@@ -31,6 +33,9 @@ export function solveFixed(
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
 
+  // The method's generated step when it has one (same arithmetic, straight-line code).
+  const stepFn = kernel ? kernel(n) : null;
+  const io = new Float64Array(IO_SIZE);
   const K = new Float64Array(s * n);
   const kRow: Float64Array[] = [];
   for (let i = 0; i < s; i++) kRow.push(K.subarray(i * n, (i + 1) * n));
@@ -54,23 +59,29 @@ export function solveFixed(
       message = `deadline passed at t=${t}`;
       break;
     }
-    f(t, y, kRow[0]!);
-    for (let i = 1; i < s; i++) {
-      const p0 = aStart[i]!;
-      const p1 = aStart[i + 1]!;
+    if (stepFn !== null) {
+      io[IO_T] = t;
+      io[IO_H] = h;
+      stepFn(f, io, y, yStage, K, kRow, n);
+    } else {
+      f(t, y, kRow[0]!);
+      for (let i = 1; i < s; i++) {
+        const p0 = aStart[i]!;
+        const p1 = aStart[i + 1]!;
+        for (let j = 0; j < n; j++) {
+          let acc = 0;
+          for (let p = p0; p < p1; p++) acc += aVal[p]! * K[aCol[p]! * n + j]!;
+          yStage[j] = y[j]! + h * acc;
+        }
+        f(t + c[i]! * h, yStage, kRow[i]!);
+      }
       for (let j = 0; j < n; j++) {
         let acc = 0;
-        for (let p = p0; p < p1; p++) acc += aVal[p]! * K[aCol[p]! * n + j]!;
-        yStage[j] = y[j]! + h * acc;
+        for (let p = 0; p < nb; p++) acc += bVal[p]! * K[bCol[p]! * n + j]!;
+        y[j] = y[j]! + h * acc;
       }
-      f(t + c[i]! * h, yStage, kRow[i]!);
     }
     counts.nfev += s;
-    for (let j = 0; j < n; j++) {
-      let acc = 0;
-      for (let p = 0; p < nb; p++) acc += bVal[p]! * K[bCol[p]! * n + j]!;
-      y[j] = y[j]! + h * acc;
-    }
     // t from the step index, not by summing h, so the last step lands exactly on tEnd.
     t = step + 1 === steps ? tEnd : t0 + (step + 1) * h;
     counts.accepted++;

@@ -6,7 +6,7 @@ import { solveEmbedded } from './embedded.js';
 import { solveFixed } from './fixed.js';
 import { YOSHIDA4_WEIGHTS, VERLET_WEIGHTS, solveVerletComposition } from './symplectic.js';
 import { compileTableau, type KernelFactory, type Tableau, type TableauData } from './tableau.js';
-import { unrolledKernel } from './kernels/unrolled.js';
+import { fixedStepKernel, unrolledKernel, type FixedKernelFactory } from './kernels/unrolled.js';
 import { BOGACKI_SHAMPINE_32 } from './tableaus/bogacki-shampine-32.js';
 import { CASH_KARP_45 } from './tableaus/cash-karp-45.js';
 import { DORMAND_PRINCE_54 } from './tableaus/dormand-prince-54.js';
@@ -18,7 +18,15 @@ import { VERNER_65 } from './tableaus/verner-65.js';
 
 export { dormandPrince54Dense, type DenseCapability, type DenseEvaluate, type DenseSolveResult } from './dense-dp54.js';
 export { compileTableau, isFsal, type KernelFactory, type StageKernel, type Tableau, type TableauData } from './tableau.js';
-export { UNROLL_MAX_N, unrolledKernel, unrolledSource } from './kernels/unrolled.js';
+export {
+  UNROLL_MAX_N,
+  fixedStepKernel,
+  fixedStepSource,
+  unrolledKernel,
+  unrolledSource,
+  type FixedKernelFactory,
+  type FixedStepKernel,
+} from './kernels/unrolled.js';
 export { solveEmbedded, type AcceptHook } from './embedded.js';
 export { solveFixed } from './fixed.js';
 
@@ -39,12 +47,12 @@ function describe(meta: Meta, family: Family, order: number, adaptive: boolean) 
   return meta.notes !== undefined ? { ...m, notes: meta.notes } : m;
 }
 
-export function fixedStepMethod(meta: Meta, data: TableauData): Method {
+export function fixedStepMethod(meta: Meta, data: TableauData, kernel?: FixedKernelFactory): Method {
   const tab = compileTableau(data);
   return {
     ...describe(meta, 'fixed-step', data.order, false),
     solve: (problem: Problem, setting: Setting, options: SolveOptions): SolveResult =>
-      solveFixed(tab, meta.id, problem, setting, options),
+      solveFixed(tab, meta.id, problem, setting, options, kernel),
   };
 }
 
@@ -73,6 +81,7 @@ function symplecticMethod(meta: Meta, order: number, weights: Float64Array): Met
 export const euler = fixedStepMethod(
   { id: 'euler', name: 'Euler', source: 'L. Euler, Institutionum calculi integralis, vol. 1 (1768)' },
   EULER,
+  fixedStepKernel(EULER, 'euler'),
 );
 export const midpoint = fixedStepMethod(
   {
@@ -81,6 +90,7 @@ export const midpoint = fixedStepMethod(
     source: 'C. Runge, Ueber die numerische Aufloesung von Differentialgleichungen, Math. Ann. 46 (1895) 167-178',
   },
   EXPLICIT_MIDPOINT,
+  fixedStepKernel(EXPLICIT_MIDPOINT, 'midpoint'),
 );
 export const rk4 = fixedStepMethod(
   {
@@ -89,6 +99,7 @@ export const rk4 = fixedStepMethod(
     source: 'W. Kutta, Beitrag zur naeherungsweisen Integration totaler Differentialgleichungen, Z. Math. Phys. 46 (1901) 435-453',
   },
   RK4,
+  fixedStepKernel(RK4, 'rk4'),
 );
 export const rk438 = fixedStepMethod(
   {
@@ -97,6 +108,7 @@ export const rk438 = fixedStepMethod(
     source: 'W. Kutta, Beitrag zur naeherungsweisen Integration totaler Differentialgleichungen, Z. Math. Phys. 46 (1901) 435-453',
   },
   RK4_38,
+  fixedStepKernel(RK4_38, 'rk4-38'),
 );
 
 export const bogackiShampine32 = embeddedMethod(

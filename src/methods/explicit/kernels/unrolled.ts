@@ -9,6 +9,7 @@
 // two give bitwise equal results. Agreement with the generic engine (same counts, same state to
 // rounding) is tested per kernel.
 import { InputError } from '../../../core/errors.js';
+import type { Rhs } from '../../../core/types.js';
 import { COMBINED_ERR3_WEIGHT } from '../control.js';
 import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, isFsal, type KernelFactory, type StageKernel, type TableauData } from '../tableau.js';
 
@@ -152,4 +153,61 @@ export function unrolledKernel(d: TableauData, name: string): KernelFactory {
     if (n > UNROLL_MAX_N) return looped;
     return (bySize[n] ??= build(d, name, n));
   };
+}
+
+/**
+ * One equal step of a fixed-step tableau, in place on y: k_1 = f(t, y), the stages, then
+ * y += h * sum b_i k_i. The sums are written in the generic engine's order (nonzero terms, left
+ * to right, the first added to 0 there), so both give bitwise equal states. t and h come in io.
+ */
+export type FixedStepKernel = (
+  f: Rhs,
+  io: Float64Array,
+  y: Float64Array,
+  yStage: Float64Array,
+  K: Float64Array,
+  kRow: readonly Float64Array[],
+  n: number,
+) => void;
+
+export type FixedKernelFactory = (n: number) => FixedStepKernel;
+
+/** Source of a fixed-step kernel; with `n` (at most UNROLL_MAX_N) the component loop is written out. */
+export function fixedStepSource(d: TableauData, name: string, n?: number): string {
+  if (n !== undefined && !(Number.isInteger(n) && n >= 1 && n <= UNROLL_MAX_N)) {
+    throw new InputError(`${name}: written-out kernels exist for 1 <= n <= ${UNROLL_MAX_N}, got ${n}`);
+  }
+  const s = d.c.length;
+  const each = (line: (ix: Indexing) => string): string[] => {
+    if (n === undefined) return [`for (let j = 0; j < n; j++) ${line(loopIndexing())}`];
+    const out: string[] = [];
+    for (let j = 0; j < n; j++) out.push(line(fixedIndexing(j, n)));
+    return out;
+  };
+  // An all-zero row is y + h * 0 in the generic engine; keep that arithmetic.
+  const update = (target: string, w: readonly number[], ix: Indexing) =>
+    `${target}[${ix.j}] = y[${ix.j}] + h * (${combination(w, ix) ?? '0'});`;
+  const lines: string[] = [`const t = io[${IO_T}]; const h = io[${IO_H}];`];
+  if (n === undefined) for (let i = 1; i < s; i++) lines.push(`const o${i} = ${i} * n;`);
+  lines.push('f(t, y, kRow[0]);');
+  for (let i = 1; i < s; i++) {
+    lines.push(...each((ix) => update('ys', d.a[i]!, ix)));
+    lines.push(`f(t + ${lit(d.c[i]!)} * h, ys, kRow[${i}]);`);
+  }
+  lines.push(...each((ix) => update('y', d.b, ix)));
+  const fn = `${name.replace(/[^A-Za-z0-9_]/g, '_')}${n === undefined ? '' : `_n${n}`}`;
+  return [
+    '"use strict";',
+    `return function fixed_${fn}(f, io, y, ys, K, kRow, n) {`,
+    ...lines.map((l) => '  ' + l),
+    '};',
+  ].join('\n');
+}
+
+/** The unrolled equal step of a fixed-step tableau (s evaluations), per state size like unrolledKernel. */
+export function fixedStepKernel(d: TableauData, name: string): FixedKernelFactory {
+  const make = (n?: number) => new Function(fixedStepSource(d, name, n))() as FixedStepKernel;
+  const looped = make();
+  const bySize: (FixedStepKernel | undefined)[] = [];
+  return (n) => (n > UNROLL_MAX_N ? looped : (bySize[n] ??= make(n)));
 }
