@@ -65,6 +65,21 @@ describe('failure isolation in one sweep', () => {
     expect(r.stdout).toContain('8 runs, 6 not ok (2 diverged, 4 error).');
   });
 
+  // BUG (src/measure/certify.ts, called from src/sweep/resolve.ts; not fixed here): a problem
+  // without a reference is certified when it is resolved, and a failed certification (here
+  // dormand-prince-853 at rtol 1e-13 ends 'diverged' at t = 0.5) is thrown as a plain Error, so
+  // the CLI reports "internal error" and exits 70, running nothing, not even the healthy
+  // harmonic-oscillator runs. It should be bad input (exit 2, naming the problem file and the
+  // certification failure) or fail only that problem's runs (exit 3).
+  it.fails('an f that turns NaN in a problem the sweep must certify: the other problem still runs (exit 2 or 3, not 70)', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'sg-isolation-'));
+    scratch.push(dir);
+    const r = await runCli(['run', '--problem', `${MODULES}/nan-after-half-certified.ts,harmonic-oscillator`, '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report', '--out', join(dir, 'out')]);
+    expect(r.stderr).not.toContain('internal error');
+    expect([2, 3]).toContain(r.code);
+    expect(r.stderr).toContain('nan-after-half-certified');
+  });
+
   it('step limit: --max-steps 50 stops the 100-step run at step 50 (step-limit); the 10-step run is ok', async () => {
     const { r, results } = await sweep(['--problem', 'harmonic-oscillator', '-m', 'rk4', '-s', '10,100', '--max-steps', '50']);
     expect(r.code, r.stderr).toBe(3);
@@ -78,16 +93,19 @@ describe('failure isolation in one sweep', () => {
     expect(r.stdout).toContain('2 runs, 1 not ok (1 step-limit).');
   });
 
-  // BUG (src/sweep or src/measure, not fixed here): with --run-timeout the solve runs in a worker,
-  // but the main thread also calls the problem's f outside any worker and without a deadline
-  // (the stiffness ratio along the reference trajectory for the problem record, and/or the other
-  // per-problem measurements), so a right-hand side that never returns hangs the whole process
-  // and --run-timeout never fires. Kept as a todo: a hanging test cannot be interrupted in-process
-  // (the loop is synchronous), so it.fails would hang the suite instead of failing.
-  it.todo('a right-hand side that never returns: --run-timeout 2 --jobs 1 ends that run with timeout, the others finish');
-  it.skip('(body of the todo above; enable when the main thread no longer calls f unguarded)', async () => {
+  // BUG (src/sweep/run.ts assembleResults -> problemRecord -> src/measure/problem-stiffness.ts,
+  // not fixed here): with --run-timeout the solves run in workers and do time out, but after the
+  // pool the main thread computes each problem's stiffness ratio by evaluating f (finite-difference
+  // Jacobian) at t0, the check times and tEnd, with no deadline and outside any worker. An f that
+  // never returns at tEnd (hangs-after-third.ts) therefore hangs the whole process after every run
+  // has finished, and nothing is written. It cannot be an it.fails: a synchronous endless loop in
+  // this process cannot be interrupted, so the suite would hang. The case below uses an f that
+  // hangs only inside the span, which the stiffness ratio does not visit.
+  it.todo('an f that never returns at tEnd: the sweep still writes results (hangs-after-third.ts; the stiffness ratio calls f unguarded)');
+
+  it('a right-hand side that never returns: --run-timeout 2 --jobs 1 ends that run with timeout, the others finish', async () => {
     const { r, results } = await sweep([
-      '--problem', `${MODULES}/hangs-after-third.ts,harmonic-oscillator`,
+      '--problem', `${MODULES}/hangs-mid-span.ts,harmonic-oscillator`,
       '-m', 'rk4,midpoint',
       '-s', '10',
       '--run-timeout', '2',
@@ -97,9 +115,10 @@ describe('failure isolation in one sweep', () => {
     expect(results.runs).toHaveLength(4);
     const runs = byKey(results.runs);
     for (const m of ['rk4', 'midpoint']) {
-      const hung = runs.get(`hangs-after-third x ${m} @ 10`)!;
+      const hung = runs.get(`hangs-mid-span x ${m} @ 10`)!;
       expect(hung.status).toBe('timeout');
-      expect(hung.message ?? '').toMatch(/2 ?s|timeout|time/i);
+      expect(hung.message).toBe('run exceeded --run-timeout 2 s and its worker was terminated');
+      expect(hung.error).toEqual({ final: null, max: null });
       expect(runs.get(`harmonic-oscillator x ${m} @ 10`)!.status).toBe('ok');
     }
     // Midpoint: 2 evaluations per step; the harmonic run's counts are exact.
