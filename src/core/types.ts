@@ -36,6 +36,8 @@ export interface Reference {
   readonly exact?: (t: number, out: Float64Array) => void;
   /** Reference states at given times (published tables, certified runs). Sorted by t. */
   readonly points?: readonly ReferencePoint[];
+  /** Why no reference could be had (a certification that failed): every run says so. */
+  readonly unavailable?: string;
 }
 
 /** Index split for separable problems q' = g(p), p' = h(t, q) (symplectic methods need it). */

@@ -2,6 +2,7 @@
 // changes from machine to machine unless asked for (--keep-time). It is committed to a
 // repository, so its bytes must be reproducible: fixed key order, runs sorted by runKey and
 // numbers in JavaScript's shortest round-trip form, which re-serialises to the same text.
+import { parseJsonText } from '../core/json-text.js';
 import { readFileSync } from 'node:fs';
 import { InputError } from '../core/errors.js';
 import { runKey, type ResultsFile, type RunResult, type RunSetting } from '../core/results.js';
@@ -129,12 +130,7 @@ export function readBaselineFile(path: string): Baseline {
 }
 
 export function parseBaseline(text: string, where: string): Baseline {
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (e) {
-    throw new InputError(`not valid JSON (${(e as Error).message}); expected ${READABLE_BASELINE}`, where);
-  }
+  const value = parseJsonText(text, where, READABLE_BASELINE);
   return validateBaseline(value, where);
 }
 

@@ -93,9 +93,22 @@ export function certify(p: Problem): Certificate {
   return { points: times.map((t, k) => ({ t, y: ya[k]! })), digits, methods: [idA, idB], rtol };
 }
 
-/** The problem with its certified reference filled in (from the cache when present). */
+/**
+ * The problem with its certified reference filled in (from the cache when present). When
+ * certification fails (the model diverges at tight tolerance, say) the problem keeps no reference
+ * and says why, so its runs are recorded as failed while the rest of the sweep goes on.
+ */
 export function withCertifiedReference(p: Problem): Problem {
   if (!needsCertificate(p)) return p;
+  try {
+    return certified(p);
+  } catch (e) {
+    const why = `could not certify a reference for ${p.id}: ${e instanceof Error ? e.message : String(e)}`;
+    return { ...p, reference: { kind: 'certified', points: [], unavailable: why } };
+  }
+}
+
+function certified(p: Problem): Problem {
   const key = sha256(p.definition);
   const dir = cacheDir();
   const file = join(dir, `certified-${key}.json`);

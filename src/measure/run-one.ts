@@ -84,6 +84,9 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
     run.error = { final, max: along === null ? final : Math.max(along, final) };
     const resolution = referenceResolution(problem, ref);
     if (resolution > 0 && final < resolution) run.errorBelowReference = true;
+  } else if (problem.reference.unavailable) {
+    run.status = 'error';
+    run.message = appendMessage(run.message, `${problem.reference.unavailable}; error not measured`);
   } else {
     run.message = appendMessage(run.message, 'no reference at the end of the span; error not measured');
   }

@@ -1,6 +1,7 @@
 // Validating reader of results.json. Every consumer after a sweep (report, merge, check,
 // baseline) reads through here, so a malformed or foreign file fails once, naming the file and
 // the field, instead of surfacing later as a NaN in a table.
+import { parseJsonText } from '../core/json-text.js';
 import { readFileSync } from 'node:fs';
 import { InputError } from '../core/errors.js';
 import {
@@ -34,13 +35,7 @@ export function readResultsFile(path: string): ResultsFile {
 
 /** Parses results JSON text; `where` names the source in messages (usually the path). */
 export function parseResultsText(text: string, where: string): ResultsFile {
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (e) {
-    throw new InputError(`not valid JSON (${(e as Error).message}); expected ${READABLE_RESULTS}`, where);
-  }
-  return validateResults(value, where);
+  return validateResults(parseJsonText(text, where, READABLE_RESULTS), where);
 }
 
 /**

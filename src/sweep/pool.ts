@@ -11,7 +11,7 @@ import { messageOf } from '../core/errors.js';
 import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
 import type { SweepOptions } from './run.js';
-import type { WorkerTask } from './worker.js';
+import type { StiffnessTask, WorkerTask } from './worker.js';
 
 /** Extra seconds a worker gets past the solver's own deadline before it is terminated. */
 const TERMINATE_GRACE_SECONDS = 2;
@@ -89,4 +89,32 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
     await pool.destroy();
   }
   return out.sort((a, b) => (a.planIndex ?? 0) - (b.planIndex ?? 0));
+}
+
+/**
+ * Stiffness ratios of user problems computed on a worker under a time limit: the ratio calls the
+ * model's f and Jacobian, and a model that never returns must not hang the sweep after its runs
+ * were timed out. A ratio not computed in time is null.
+ */
+export async function stiffnessOnPool(entries: ReadonlyMap<string, string>, timeoutSeconds: number): Promise<Map<string, number | null>> {
+  const out = new Map<string, number | null>();
+  if (entries.size === 0) return out;
+  const pool = new Tinypool({ filename: workerFile(), minThreads: 1, maxThreads: 1, isolateWorkers: false });
+  try {
+    for (const [id, entry] of entries) {
+      const controller = new AbortController();
+      const timer = setTimeout(() => controller.abort(), (timeoutSeconds + TERMINATE_GRACE_SECONDS) * 1000);
+      try {
+        const task: StiffnessTask = { kind: 'stiffness', problemEntry: entry };
+        out.set(id, (await pool.run(task, { signal: controller.signal })) as number | null);
+      } catch {
+        out.set(id, null);
+      } finally {
+        clearTimeout(timer);
+      }
+    }
+  } finally {
+    await pool.destroy();
+  }
+  return out;
 }

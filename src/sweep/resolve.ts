@@ -30,7 +30,7 @@ export interface Resolved<T> {
   entries: Map<string, string>;
 }
 
-export async function resolveProblems(list: string | undefined): Promise<Resolved<Problem>> {
+export async function resolveProblems(list: string | undefined, warn: (message: string) => void = () => {}): Promise<Resolved<Problem>> {
   const entries = splitList(list);
   if (list !== undefined && entries.length === 0) throw new InputError('expected a comma-separated list of problem ids or files', '--problem');
   if (entries.length === 0) return { items: [...catalogue], named: false, entries: new Map() };
@@ -40,6 +40,7 @@ export async function resolveProblems(list: string | undefined): Promise<Resolve
     if (looksLikePath(entry)) {
       const { loadUserProblem } = await import('./user-files.js');
       const p = withCertifiedReference(await loadUserProblem(entry));
+      if (p.reference.unavailable) warn(`${entry}: ${p.reference.unavailable}`);
       items.push(p);
       sources.set(p.id, entry);
       continue;

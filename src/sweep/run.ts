@@ -10,7 +10,7 @@ import { resolve as resolvePath } from 'node:path';
 import { executeRun, type ExecuteOptions } from './execute.js';
 import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { resolveMethods, resolveProblems } from './resolve.js';
-import { executeOnPool } from './pool.js';
+import { executeOnPool, stiffnessOnPool } from './pool.js';
 import { selectShard } from './shard.js';
 import type { TimingOptions } from '../measure/timing.js';
 
@@ -27,7 +27,7 @@ export interface SweepOptions extends ExecuteOptions {
   shouldStop?: () => boolean;
 }
 
-export function problemRecord(p: Problem): ProblemRecord {
+export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number | null>): ProblemRecord {
   const ref: ProblemRecord['reference'] = { kind: p.reference.kind };
   if (p.reference.digits !== undefined) ref.digits = p.reference.digits;
   if (p.reference.source !== undefined) ref.source = p.reference.source;
@@ -39,7 +39,7 @@ export function problemRecord(p: Problem): ProblemRecord {
     reference: ref,
     source: p.source,
     dimension: p.dimension,
-    stiffnessRatio: problemStiffnessRatio(p),
+    stiffnessRatio: stiffness?.has(p.id) ? stiffness.get(p.id)! : problemStiffnessRatio(p),
   };
 }
 
@@ -76,6 +76,8 @@ export interface AssembleInput {
   runs: RunResult[];
   timed: boolean;
   interrupted?: boolean;
+  /** Stiffness ratios computed elsewhere (under a time limit), by problem id. */
+  stiffness?: ReadonlyMap<string, number | null>;
 }
 
 export async function assembleResults(input: AssembleInput): Promise<ResultsFile> {
@@ -88,7 +90,7 @@ export async function assembleResults(input: AssembleInput): Promise<ResultsFile
     createdAt: new Date().toISOString(),
     environment,
     runs: [...input.runs].sort((a, b) => (a.planIndex ?? 0) - (b.planIndex ?? 0)),
-    problems: input.problems.filter((p) => usedProblems.has(p.id) || input.plan.runs.length === 0).map(problemRecord),
+    problems: input.problems.filter((p) => usedProblems.has(p.id) || input.plan.runs.length === 0).map((p) => problemRecord(p, input.stiffness)),
     methods: input.methods.map(methodRecord),
     plan: { sha256: input.plan.sha256, runs: input.plan.runs.length },
     skipped: input.plan.skipped,
@@ -115,6 +117,8 @@ export interface SweepRequest {
   onPlan?: (plan: SweepPlan, selected: readonly PlannedRun[]) => void;
   onRun?: (p: SweepProgress) => void;
   shouldStop?: () => boolean;
+  /** Said before the sweep starts, e.g. a reference that could not be certified. */
+  onWarning?: (message: string) => void;
   /** Runs already finished (resume): matched by plan index and not run again. */
   finished?: readonly RunResult[];
 }
@@ -123,7 +127,7 @@ export const DEFAULT_MAX_STEPS = 100_000;
 
 /** Plans, executes and assembles one sweep; the library form of `stepgauge run`. */
 export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
-  const problems = await resolveProblems(req.problem);
+  const problems = await resolveProblems(req.problem, req.onWarning);
   const methods = await resolveMethods(req.method);
   const plan = planSweep({
     problems: problems.items,
@@ -157,7 +161,10 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
           options,
         })
       : await executePlan(todo, problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
-  const runs = [...done.values(), ...fresh].filter((r) => selected.some((s) => s.planIndex === r.planIndex));
+  const wanted = new Set(selected.map((s) => s.planIndex));
+  const runs = [...done.values(), ...fresh].filter((r) => wanted.has(r.planIndex ?? -1));
+  // User models are code: with a run timeout, their stiffness ratio is computed under it too.
+  const stiffness = req.runTimeoutSeconds ? await stiffnessOnPool(absoluteEntries(problems.entries), req.runTimeoutSeconds) : undefined;
   const results = await assembleResults({
     plan,
     problems: problems.items,
@@ -165,6 +172,7 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
     runs,
     timed: Boolean(req.timing),
     interrupted: runs.length < selected.length,
+    ...(stiffness ? { stiffness } : {}),
   });
   if (req.shard) results.shard = { index: req.shard.index, count: req.shard.count, planSha256: plan.sha256 };
   results.request = sweepRequestRecord(req);

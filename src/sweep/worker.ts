@@ -7,6 +7,7 @@ import { executeRun, type ExecuteOptions } from './execute.js';
 import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
 import { resolveMethods, resolveProblems } from './resolve.js';
+import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 
 export interface WorkerTask {
   planned: PlannedRun;
@@ -37,7 +38,14 @@ async function methodFor(entry: string): Promise<Method> {
   return m;
 }
 
-export default async function runTask(task: WorkerTask): Promise<RunResult> {
+/** A problem's stiffness ratio, computed here so a model that hangs cannot hang the sweep. */
+export interface StiffnessTask {
+  kind: 'stiffness';
+  problemEntry: string;
+}
+
+export default async function runTask(task: WorkerTask | StiffnessTask): Promise<RunResult | number | null> {
+  if ('kind' in task) return problemStiffnessRatio(await problemFor(task.problemEntry));
   const problem = await problemFor(task.problemEntry);
   let method: Method;
   try {

@@ -11,7 +11,7 @@ export const registerList: RegisterCommand = (program) => {
     .option('--json', 'print { methods, problems } as JSON')
     .action(async (flags: { json?: boolean }) => {
       const methods = builtinMethods().map(methodRecord);
-      const problems = catalogue.map(problemRecord);
+      const problems = catalogue.map((p) => problemRecord(p));
       if (flags.json) {
         process.stdout.write(`${JSON.stringify({ methods, problems }, null, 2)}\n`);
         return;

@@ -129,6 +129,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
         onPlan(plan, selected);
         journal = new Journal(outDir, { planSha256: plan.sha256, request: sweepRequestRecord(req) }, req.finished ?? []);
       };
+      req.onWarning = (message) => process.stderr.write(`stepgauge: warning: ${message}\n`);
       req.onRun = (p) => {
         journal?.append(p.last);
         progress.update(p);
