@@ -1,0 +1,44 @@
+// The one-stage implicit collocation methods with equal steps: the stage z solves
+// z = y0 + theta h f(t0 + theta h, z) by Newton, and y1 = y0 + (z - y0) / theta.
+// theta = 1 is backward Euler (y1 = z), theta = 1/2 the implicit midpoint rule (y1 = 2 z - y0);
+// Hairer & Wanner, Solving ODEs II, sec. IV.3.
+import { makeJacobianSource } from '../../core/jacobian.js';
+import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
+import { zeroCounts } from '../../core/types.js';
+import { checkProblem, parseFixed } from './common.js';
+import { driveFixed } from './fixed-step.js';
+import { newtonBuffers, solveStage } from './theta-newton.js';
+
+export type OneStageMeta = Omit<Method, 'solve' | 'family' | 'adaptive' | 'stiff'>;
+
+export function oneStageFixedMethod(meta: OneStageMeta, theta: 1 | 0.5): Method {
+  return {
+    ...meta,
+    family: 'implicit',
+    adaptive: false,
+    stiff: true,
+    solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
+      checkProblem(problem);
+      const { steps } = parseFixed(problem, setting, meta.id);
+      const n = problem.dimension;
+      const counts = zeroCounts();
+      const y = Float64Array.from(problem.y0);
+      const fy = new Float64Array(n);
+      const jac = makeJacobianSource(problem.f, problem.jacobian, n, counts);
+      const buf = newtonBuffers(n);
+      return driveFixed(problem, options, y, steps, (t, h) => {
+        problem.f(t, y, fy);
+        counts.nfev++;
+        // Explicit Euler start value for the stage.
+        const th = theta * h;
+        for (let i = 0; i < n; i++) buf.z[i] = y[i]! + th * fy[i]!;
+        const msg = solveStage(problem.f, jac, t, y, fy, t + th, th, y, buf, n, counts);
+        if (msg === undefined) {
+          if (theta === 1) y.set(buf.z);
+          else for (let i = 0; i < n; i++) y[i] = 2 * buf.z[i]! - y[i]!;
+        }
+        return msg;
+      }, counts);
+    },
+  };
+}
