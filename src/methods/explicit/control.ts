@@ -84,3 +84,20 @@ export function initialStep(
   if (!(h > 0) || !Number.isFinite(h)) h = h0;
   return h > span ? span : h;
 }
+
+export interface BudgetStop {
+  readonly status: 'step-limit' | 'timeout';
+  readonly message: string;
+}
+
+/**
+ * Why a solve must stop before attempt number `attempts` (accepted + rejected so far, or steps
+ * taken), or null to go on. The clock is read only every DEADLINE_EVERY attempts.
+ */
+export function budgetStop(attempts: number, maxSteps: number, deadline: number | undefined, t: number): BudgetStop | null {
+  if (attempts >= maxSteps) return { status: 'step-limit', message: `reached maxSteps=${maxSteps} at t=${t}` };
+  if (deadline !== undefined && attempts % DEADLINE_EVERY === 0 && performance.now() > deadline) {
+    return { status: 'timeout', message: `deadline passed at t=${t}` };
+  }
+  return null;
+}

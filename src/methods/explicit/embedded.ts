@@ -7,7 +7,7 @@ import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
 import {
-  DEADLINE_EVERY,
+  budgetStop,
   FAC_MAX,
   LANDING_STRETCH,
   NONFINITE_SHRINK,
@@ -110,14 +110,10 @@ export function solveEmbedded(
 
   for (;;) {
     const attempts = counts.accepted + counts.rejected;
-    if (attempts >= maxSteps) {
-      status = 'step-limit';
-      message = `reached maxSteps=${maxSteps} at t=${t}`;
-      break;
-    }
-    if (deadline !== undefined && attempts % DEADLINE_EVERY === 0 && performance.now() > deadline) {
-      status = 'timeout';
-      message = `deadline passed at t=${t}`;
+    const budget = budgetStop(attempts, maxSteps, deadline, t);
+    if (budget !== null) {
+      status = budget.status;
+      message = budget.message;
       break;
     }
     const at = t < 0 ? -t : t;

@@ -4,7 +4,7 @@
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
-import { DEADLINE_EVERY } from './control.js';
+import { budgetStop } from './control.js';
 import { finish } from './finish.js';
 import type { FixedKernelFactory } from './kernels/unrolled.js';
 import { IO_H, IO_SIZE, IO_T, type Tableau } from './tableau.js';
@@ -49,14 +49,10 @@ export function solveFixed(
   if (observer) observer(t, y);
 
   for (let step = 0; step < steps; step++) {
-    if (step >= maxSteps) {
-      status = 'step-limit';
-      message = `reached maxSteps=${maxSteps} at t=${t}`;
-      break;
-    }
-    if (deadline !== undefined && step % DEADLINE_EVERY === 0 && performance.now() > deadline) {
-      status = 'timeout';
-      message = `deadline passed at t=${t}`;
+    const stop = budgetStop(step, maxSteps, deadline, t);
+    if (stop !== null) {
+      status = stop.status;
+      message = stop.message;
       break;
     }
     if (stepFn !== null) {
