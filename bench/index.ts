@@ -141,6 +141,12 @@ async function main(): Promise<void> {
     out.stiff = rows;
     show(table('stiff: implicit methods on Robertson', rows, Object.keys(rows[0] ?? {})));
   }
+  const heap = await optional<Row[]>('heap.js', 'runHeapBench');
+  if (heap) {
+    const rows = await heap();
+    out.heap = rows;
+    show(table('heap: bytes allocated per step (slope between a short and a long solve)', rows, Object.keys(rows[0] ?? {})));
+  }
   const sweep = await optional<Row[]>('sweep.js', 'runSweepBench');
   if (sweep) {
     const rows = await sweep();
