@@ -51,3 +51,12 @@ describe('run watcher', () => {
     expect(w.maxError()).toBeLessThan(1.25e-4);
   });
 });
+
+describe('timing margin', () => {
+  it('is the 95% margin of the median from the MAD (normal-sample asymptotics)', async () => {
+    const { medianMarginPercent } = await import('../src/measure/timing.js');
+    // 1.96 * 1.2533 * 1.4826 * 0.1 / sqrt(100) * 100 = 3.642 (hand-computed)
+    expect(medianMarginPercent(1, 0.1, 100)).toBeCloseTo(3.642, 3);
+    expect(medianMarginPercent(0, 0.1, 100)).toBe(Infinity);
+  });
+});

@@ -22,7 +22,7 @@ export interface RunResult {
   error: { final: number | null; max: number | null };
   drift: Record<string, number>;
   counts: Counts;
-  time: { medianSeconds: number | null; samples: number; spreadSeconds?: number | null; calibrationRatio?: number | null };
+  time: { medianSeconds: number | null; samples: number; spreadSeconds?: number | null; rmePercent?: number | null; calibrationRatio?: number | null };
   tFinal: number;
   yFinal: number[];
   /** True when the error is below what the reference can resolve (certified references). */

@@ -12,6 +12,9 @@ export interface TimingOptions {
   minSamples: number;
 }
 
+/** Timing is extended until the relative margin of error is below this (runs under a second). */
+const TARGET_RME_PERCENT = 5;
+const MAX_BUDGET_DOUBLINGS = 3;
 /** Solves run before timing starts (fewer when the budget runs out first). */
 const WARMUP_SOLVES = 20;
 /** The first time a (method, problem) pair is timed in a process its code is cold: warm longer. */
@@ -25,6 +28,8 @@ export interface TimingResult {
   /** Median absolute deviation of the samples, seconds. */
   spreadSeconds: number;
   samples: number;
+  /** 95% relative margin of error of the median, percent. */
+  rmePercent: number;
 }
 
 export async function timeRun(
@@ -45,20 +50,38 @@ export async function timeRun(
   warmedPairs.add(key);
   const warmUntil = performance.now() + (firstTime ? FIRST_WARMUP_CAP_SECONDS : timing.budgetSeconds) * 1000;
   for (let k = 0; k < WARMUP_SOLVES && performance.now() < warmUntil; k++) solve();
-  const bench = new Bench({
-    time: timing.budgetSeconds * 1000,
-    iterations: timing.minSamples,
-    warmup: false,
-  });
-  bench.add('solve', solve);
-  await bench.run();
-  const r = bench.tasks[0]?.result;
-  if (!r || r.state !== 'completed') return null;
-  return {
-    medianSeconds: r.latency.p50 / 1000,
-    spreadSeconds: r.latency.mad / 1000,
-    samples: r.latency.samplesCount,
-  };
+  // Sample until the median's relative margin of error is under 5% (runs under a second), doubling
+  // the budget a few times at most; a long solve is timed within its stated budget only.
+  let budget = timing.budgetSeconds;
+  let best: TimingResult | null = null;
+  for (let round = 0; round <= MAX_BUDGET_DOUBLINGS; round++) {
+    const bench = new Bench({ time: budget * 1000, iterations: timing.minSamples, warmup: false });
+    bench.add('solve', solve);
+    await bench.run();
+    const r = bench.tasks[0]?.result;
+    if (!r || r.state !== 'completed') return best;
+    const rme = medianMarginPercent(r.latency.p50, r.latency.mad, r.latency.samplesCount);
+    best = {
+      medianSeconds: r.latency.p50 / 1000,
+      spreadSeconds: r.latency.mad / 1000,
+      samples: r.latency.samplesCount,
+      rmePercent: rme,
+    };
+    if (!(rme > TARGET_RME_PERCENT) || r.latency.p50 >= 1000) break;
+    budget *= 2;
+  }
+  return best;
+}
+
+/**
+ * 95% relative margin of error of the median, percent. The median's standard error is about
+ * 1.2533 sigma / sqrt(n) for a normal sample (Kendall and Stuart, The Advanced Theory of
+ * Statistics, vol. 1, asymptotic variance of the median), with sigma estimated robustly as
+ * 1.4826 MAD, so GC pauses in a few samples do not inflate it as they inflate the mean's.
+ */
+export function medianMarginPercent(median: number, mad: number, n: number): number {
+  if (!(median > 0) || n < 2) return Infinity;
+  return (100 * 1.96 * 1.2533 * 1.4826 * mad) / (Math.sqrt(n) * median);
 }
 
 /**
