@@ -32,8 +32,6 @@ export const PI_ERR_FLOOR = 1e-4;
  * err = err5^2 / sqrt(err5^2 + 0.01 err3^2), HNW I, sec. II.10.
  */
 export const COMBINED_ERR3_WEIGHT = 0.01;
-/** Checking the clock is not free: look every this many attempted steps. */
-export const DEADLINE_EVERY = 16;
 
 // Powers are taken as exp(log(x) * e): Math.pow with a fractional exponent costs about twice as
 // much in V8, and the controller runs once per step.
@@ -83,21 +81,4 @@ export function initialStep(
   let h = Math.min(100 * h0, h1);
   if (!(h > 0) || !Number.isFinite(h)) h = h0;
   return h > span ? span : h;
-}
-
-export interface BudgetStop {
-  readonly status: 'step-limit' | 'timeout';
-  readonly message: string;
-}
-
-/**
- * Why a solve must stop before attempt number `attempts` (accepted + rejected so far, or steps
- * taken), or null to go on. The clock is read only every DEADLINE_EVERY attempts.
- */
-export function budgetStop(attempts: number, maxSteps: number, deadline: number | undefined, t: number): BudgetStop | null {
-  if (attempts >= maxSteps) return { status: 'step-limit', message: `reached maxSteps=${maxSteps} at t=${t}` };
-  if (deadline !== undefined && attempts % DEADLINE_EVERY === 0 && performance.now() > deadline) {
-    return { status: 'timeout', message: `deadline passed at t=${t}` };
-  }
-  return null;
 }

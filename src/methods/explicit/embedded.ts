@@ -7,7 +7,6 @@ import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
 import {
-  budgetStop,
   FAC_MAX,
   LANDING_STRETCH,
   NONFINITE_SHRINK,
@@ -19,7 +18,8 @@ import {
 } from './control.js';
 import { finish } from './finish.js';
 import { genericStep } from './generic-step.js';
-import { stopTimes } from './stops.js';
+import { stopTimes } from '../stop-times.js';
+import { budgetStop } from '../budget.js';
 import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_SIZE, IO_T, IO_T_NEW, type Tableau } from './tableau.js';
 import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
 

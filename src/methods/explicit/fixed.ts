@@ -4,7 +4,7 @@
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
-import { budgetStop } from './control.js';
+import { budgetStop } from '../budget.js';
 import { finish } from './finish.js';
 import type { FixedKernelFactory } from './kernels/unrolled.js';
 import { IO_H, IO_SIZE, IO_T, type Tableau } from './tableau.js';

@@ -5,7 +5,7 @@ import { InputError } from '../../core/errors.js';
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
-import { budgetStop } from './control.js';
+import { budgetStop } from '../budget.js';
 import { finish } from './finish.js';
 import { checkOptions, checkProblem, fixedSteps } from './validate.js';
 

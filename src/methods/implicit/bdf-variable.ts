@@ -7,9 +7,8 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { zeroCounts } from '../../core/types.js';
 import { rescaleDifferences } from './bdf-rescale.js';
-import { checkProblem, drive, EPS, parseAdaptive, startingStep, type Attempt, type Stepper, type Tolerances } from './common.js';
+import { EPS, solveAdaptive, type Attempt, type Stepper, type Tolerances } from './common.js';
 
 const MAX_ORDER = 5;
 const NEWTON_MAXITER = 4;
@@ -216,12 +215,6 @@ export const bdfVariable: Method = {
     'Orders 1 to 5 (order is the maximum). Error estimated from the corrector-predictor difference. ' +
     'Jacobian kept until Newton fails; LU redone when h or the order changes. Newton failures count as rejected steps.',
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-    checkProblem(problem);
-    const tol = parseAdaptive(problem, setting, 'bdf-variable');
-    const counts = zeroCounts();
-    const stepper = createStepper(problem, tol, counts);
-    const n = problem.dimension;
-    const h0 = options.initialStep ?? startingStep(problem, stepper.y, stepper.f0, 1, tol, counts, new Float64Array(n), new Float64Array(n));
-    return drive(problem, options, stepper, h0, counts);
+    return solveAdaptive(problem, setting, options, 'bdf-variable', 1, createStepper);
   },
 };

@@ -6,6 +6,8 @@ import { InputError } from '../../core/errors.js';
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { isAdaptiveSetting, zeroCounts } from '../../core/types.js';
 import { allFinite, toleranceVector } from '../../core/vector.js';
+import { budgetStop } from '../budget.js';
+import { stopTimes } from '../stop-times.js';
 
 const EPS = 2.220446049250313e-16;
 
@@ -43,16 +45,6 @@ export function checkProblem(problem: Problem): void {
   if (!Number.isInteger(n) || n < 1) throw new InputError(`problem ${problem.id} has invalid dimension ${n}`);
   if (problem.y0.length !== n) throw new InputError(`problem ${problem.id}: y0 has ${problem.y0.length} entries, expected ${n}`);
   if (!(problem.tEnd > problem.t0)) throw new InputError(`problem ${problem.id}: tEnd must exceed t0`);
-}
-
-/** Sorted stop times strictly inside (t0, tEnd), then tEnd itself. */
-export function stopTimes(problem: Problem, options: SolveOptions): number[] {
-  const inner = (options.checkTimes ?? []).filter((c) => c > problem.t0 && c < problem.tEnd);
-  inner.sort((a, b) => a - b);
-  const out: number[] = [];
-  for (const c of inner) if (out.length === 0 || c > out[out.length - 1]!) out.push(c);
-  out.push(problem.tEnd);
-  return out;
 }
 
 /** Step size control: error-norm weights 1/(atol_i + rtol*max(|y_i|, |yNew_i|)) inverted. */
@@ -142,10 +134,10 @@ const LANDING_STRETCH = 1.01;
  * (accepted + rejected attempts), observer, checkTimes (landing exactly, resuming with the step
  * proposed before the landing), deadline, step underflow and non-finite states.
  */
-export function drive(problem: Problem, options: SolveOptions, stepper: Stepper, h0: number, counts: Counts): SolveResult {
+export function drive(problem: Problem, options: SolveOptions, stepper: Stepper, h0: number, counts: Counts, methodId: string): SolveResult {
   const n = problem.dimension;
   const y = stepper.y;
-  const stops = stopTimes(problem, options);
+  const stops = stopTimes(options.checkTimes, problem.t0, problem.tEnd, methodId);
   const observer = options.observer;
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
@@ -160,10 +152,8 @@ export function drive(problem: Problem, options: SolveOptions, stepper: Stepper,
   };
   while (stopIdx < stops.length) {
     const stop = stops[stopIdx]!;
-    if (counts.accepted + counts.rejected >= maxSteps) {
-      return finish('step-limit', `step limit ${maxSteps} reached at t=${t}`);
-    }
-    if (deadline !== undefined && performance.now() > deadline) return finish('timeout', `deadline passed at t=${t}`);
+    const budget = budgetStop(counts.accepted + counts.rejected, maxSteps, deadline, t);
+    if (budget !== null) return finish(budget.status, budget.message);
     if (!(h > 0) || !Number.isFinite(h)) return finish('step-underflow', `step size became ${h} at t=${t}`);
     let hTry = h;
     let landing = false;
@@ -194,6 +184,30 @@ export function drive(problem: Problem, options: SolveOptions, stepper: Stepper,
     observer?.(t, y);
   }
   return finish('ok');
+}
+
+/** What an adaptive implicit method builds once per solve; `drive` steps it. */
+export type StepperFactory = (problem: Problem, tol: Tolerances, counts: Counts) => Stepper & { f0: Float64Array };
+
+/**
+ * The whole adaptive solve of a stepper-based method: validate, build the stepper, choose the
+ * starting step for the method's order, drive it to tEnd.
+ */
+export function solveAdaptive(
+  problem: Problem,
+  setting: Setting,
+  options: SolveOptions,
+  methodId: string,
+  order: number,
+  createStepper: StepperFactory,
+): SolveResult {
+  checkProblem(problem);
+  const tol = parseAdaptive(problem, setting, methodId);
+  const counts = zeroCounts();
+  const stepper = createStepper(problem, tol, counts);
+  const n = problem.dimension;
+  const h0 = options.initialStep ?? startingStep(problem, stepper.y, stepper.f0, order, tol, counts, new Float64Array(n), new Float64Array(n));
+  return drive(problem, options, stepper, h0, counts, methodId);
 }
 
 export { zeroCounts, EPS };

@@ -2,6 +2,7 @@
 // observer after every step, step limit, deadline and non-finite states as in SolveOptions.
 import type { Counts, Problem, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
+import { budgetStop } from '../budget.js';
 
 /** Advances y from t by h in place; returns an error message when the step cannot be taken. */
 export type FixedStep = (t: number, h: number) => string | undefined;
@@ -24,8 +25,8 @@ export function driveFixed(
   };
   options.observer?.(t, y);
   for (let i = 1; i <= steps; i++) {
-    if (counts.accepted >= options.maxSteps) return finish('step-limit', `step limit ${options.maxSteps} reached at t=${t}`);
-    if (options.deadline !== undefined && performance.now() > options.deadline) return finish('timeout', `deadline passed at t=${t}`);
+    const budget = budgetStop(counts.accepted, options.maxSteps, options.deadline, t);
+    if (budget !== null) return finish(budget.status, budget.message);
     const msg = step(t, h);
     if (msg !== undefined) return finish('error', `${msg} at t=${t}`);
     counts.accepted++;

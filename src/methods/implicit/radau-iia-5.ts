@@ -307,6 +307,6 @@ export const radauIIA5: Method = {
     const h0 =
       options.initialStep ??
       startingStep(problem, stepper.y, stepper.f0, 5, { rtol, atol }, counts, new Float64Array(n), new Float64Array(n));
-    return drive(problem, options, stepper, h0, counts);
+    return drive(problem, options, stepper, h0, counts, 'radau-iia-5');
   },
 };

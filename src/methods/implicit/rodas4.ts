@@ -10,8 +10,7 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { zeroCounts } from '../../core/types.js';
-import { checkProblem, drive, EPS, parseAdaptive, startingStep, type Attempt, type Stepper, type Tolerances } from './common.js';
+import { EPS, solveAdaptive, type Attempt, type Stepper, type Tolerances } from './common.js';
 
 /** Coefficients of RODAS4 (Hairer & Wanner 1996, sec. IV.7), transformed form. */
 export const RODAS4 = {
@@ -161,12 +160,6 @@ export const rodas4: Method = {
     'L-stable, stiffly accurate Rosenbrock 4(3), one Jacobian and one LU per attempt; ' +
     'df/dt by forward difference (1 f evaluation per step, counted in nfev).',
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-    checkProblem(problem);
-    const tol = parseAdaptive(problem, setting, 'hairer-wanner-rodas4');
-    const counts = zeroCounts();
-    const stepper = createStepper(problem, tol, counts);
-    const n = problem.dimension;
-    const h0 = options.initialStep ?? startingStep(problem, stepper.y, stepper.f0, 4, tol, counts, new Float64Array(n), new Float64Array(n));
-    return drive(problem, options, stepper, h0, counts);
+    return solveAdaptive(problem, setting, options, 'hairer-wanner-rodas4', 4, createStepper);
   },
 };

@@ -9,8 +9,7 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { zeroCounts } from '../../core/types.js';
-import { checkProblem, drive, EPS, parseAdaptive, startingStep, type Attempt, type Stepper, type Tolerances } from './common.js';
+import { EPS, solveAdaptive, type Attempt, type Stepper, type Tolerances } from './common.js';
 
 const GAMMA = 2 - Math.SQRT2;
 const DIAG = GAMMA / 2;
@@ -181,12 +180,6 @@ export const trBdf2: Method = {
     'L-stable ESDIRK form, one LU shared by both stages; Jacobian kept until Newton fails. ' +
     'The slope at the new point is taken from the stage equation, so FSAL costs no evaluation.',
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-    checkProblem(problem);
-    const tol = parseAdaptive(problem, setting, 'trapezoidal-bdf2');
-    const counts = zeroCounts();
-    const stepper = createStepper(problem, tol, counts);
-    const n = problem.dimension;
-    const h0 = options.initialStep ?? startingStep(problem, stepper.y, stepper.f0, 2, tol, counts, new Float64Array(n), new Float64Array(n));
-    return drive(problem, options, stepper, h0, counts);
+    return solveAdaptive(problem, setting, options, 'trapezoidal-bdf2', 2, createStepper);
   },
 };

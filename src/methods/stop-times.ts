@@ -1,5 +1,5 @@
 // The times an adaptive solve must land on exactly: the check times inside the span, then tEnd.
-import { InputError } from '../../core/errors.js';
+import { InputError } from '../core/errors.js';
 
 export function stopTimes(checkTimes: readonly number[] | undefined, t0: number, tEnd: number, methodId: string): Float64Array {
   const inside: number[] = [];
