@@ -5,6 +5,7 @@ import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from '
 import { join } from 'node:path';
 import type { Method, Problem, ReferencePoint } from '../core/types.js';
 import { sha256 } from '../core/hash.js';
+import { absoluteTolerance } from '../core/tolerance.js';
 import { findMethod } from '../methods/registry.js';
 import { scaleFloors, scaledMaxError } from './error-norm.js';
 
@@ -52,11 +53,9 @@ function evenTimes(p: Problem): number[] {
 function sampleAt(p: Problem, method: Method, rtol: number, times: number[]): number[][] {
   const want = new Set(times);
   const rows = new Map<number, number[]>();
-  const scale = p.atolScale;
-  const atol = scale === undefined ? rtol : typeof scale === 'number' ? rtol * scale : scale.map((s) => rtol * s);
   const result = method.solve(
-    { ...p, checkTimes: times.filter((t) => t !== p.tEnd) },
-    { rtol, atol },
+    p,
+    { rtol, atol: absoluteTolerance(p, rtol) },
     { maxSteps: CERTIFY_MAX_STEPS, checkTimes: times.filter((t) => t !== p.tEnd), observer: (t, y) => void (want.has(t) && rows.set(t, Array.from(y))) },
   );
   if (result.status !== 'ok') {

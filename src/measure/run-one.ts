@@ -54,7 +54,6 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   } catch (e) {
     return failedRun(problem, method, setting, `${method.id} threw: ${messageOf(e)}`);
   }
-  const n = problem.dimension;
   const run: RunResult = {
     problem: problem.id,
     method: method.id,
@@ -77,7 +76,7 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
     run.roundTrip = null;
   }
 
-  const ref = new Float64Array(n);
+  const ref = new Float64Array(problem.dimension);
   if (referenceLookup(problem).at(problem.tEnd, ref)) {
     const final = errorMeter(problem)(problem.tEnd, result.yFinal, ref);
     const along = watch.maxError();

@@ -1,5 +1,10 @@
 // The caution every report carries near its top, worded once for HTML and Markdown.
 
+/** The same caution in one paragraph, for terminal output (choose, summaries). */
+export const CAUTION_SHORT =
+  'Caution: these figures are numerical evidence about integration error on the problems run, not certification. ' +
+  'Defer to the applicable verification standards, local codes and licensed review before using them in flight, vehicle or plant software.';
+
 export const CAUTION_TITLE = 'Read this before using these figures';
 
 export const CAUTION_TEXT =

@@ -6,6 +6,7 @@ import type { RunResult } from '../core/results.js';
 import { measureRun, type RunOptions } from '../measure/run-one.js';
 import { timeRun, type TimingOptions } from '../measure/timing.js';
 import { pairingGap } from './plan.js';
+import { absoluteTolerance } from '../core/tolerance.js';
 
 /** Decade grid searched for adaptive methods, loosest first. */
 const RTOL_GRID = [1e-2, 1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10, 1e-11, 1e-12, 1e-13];
@@ -59,11 +60,6 @@ function meets(run: RunResult, o: ChooseOptions): boolean {
   return e !== null && e <= o.target;
 }
 
-function atolFor(p: Problem, rtol: number): number | number[] {
-  const s = p.atolScale;
-  return s === undefined ? rtol : typeof s === 'number' ? rtol * s : s.map((v) => rtol * v);
-}
-
 interface Search {
   best: RunResult | null;
   setting: Setting | null;
@@ -75,7 +71,7 @@ function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
   let trials = 0;
   const at = (rtol: number) => {
     trials++;
-    return measureRun(p, m, { rtol, atol: atolFor(p, rtol) }, o);
+    return measureRun(p, m, { rtol, atol: absoluteTolerance(p, rtol) }, o);
   };
   let failing: number | null = null;
   let closest: RunResult | null = null;
@@ -96,7 +92,7 @@ function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
         }
       }
       const rt = 10 ** hi;
-      return { best, setting: { rtol: rt, atol: atolFor(p, rt) }, trials, closest: best };
+      return { best, setting: { rtol: rt, atol: absoluteTolerance(p, rt) }, trials, closest: best };
     }
     failing = rtol;
     const e = errorOf(run, o.measure);

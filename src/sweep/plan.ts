@@ -2,6 +2,7 @@
 import type { Method, Problem, Setting } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { sha256 } from '../core/hash.js';
+import { absoluteTolerance } from '../core/tolerance.js';
 
 export interface PlannedRun {
   problem: string;
@@ -60,13 +61,6 @@ export function pairingGap(problem: Problem, method: Method): string | null {
   return null;
 }
 
-function atolFor(problem: Problem, rtol: number): number | number[] {
-  const s = problem.atolScale;
-  if (s === undefined) return rtol;
-  if (typeof s === 'number') return rtol * s;
-  return s.map((v) => rtol * v);
-}
-
 function costOf(method: Method, setting: Setting): number {
   if ('steps' in setting) return setting.steps * Math.max(1, method.order);
   return 10 * Math.pow(1 / setting.rtol, 1 / Math.max(1, method.order + 1)) * Math.max(1, method.order);
@@ -88,7 +82,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
         continue;
       }
       const settings: Setting[] = method.adaptive
-        ? req.tolerances.map((rtol) => ({ rtol, atol: atolFor(problem, rtol) }))
+        ? req.tolerances.map((rtol) => ({ rtol, atol: absoluteTolerance(problem, rtol) }))
         : (req.steps ?? problem.defaultSteps ?? DEFAULT_STEPS).map((steps) => ({ steps }));
       for (const setting of settings) {
         runs.push({ problem: problem.id, method: method.id, setting, planIndex: runs.length, expectedCost: costOf(method, setting) });

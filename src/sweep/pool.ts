@@ -40,8 +40,8 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
   const out: RunResult[] = [];
   let failed = 0;
   let next = 0;
-  const { onRun, shouldStop, ...executeOptions } = options;
-  const taskOptions = { ...executeOptions, timing: options.timing };
+  // Callbacks stay here; workers get only the serialisable run options.
+  const { onRun, shouldStop, ...taskOptions } = options;
 
   const one = async (planned: PlannedRun): Promise<RunResult> => {
     const task: WorkerTask = {

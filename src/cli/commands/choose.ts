@@ -7,7 +7,7 @@ import { chooseMethod, type Candidate, type Choice } from '../../sweep/choose.js
 import { DEFAULT_TIMING } from '../../measure/timing.js';
 import { DEFAULT_MAX_STEPS } from '../../sweep/run.js';
 import { sig3 } from '../../report/format.js';
-import { CAUTION_TEXT } from '../caution.js';
+import { CAUTION_SHORT } from '../../report/caution.js';
 
 interface ChooseFlags {
   problem?: string;
@@ -48,7 +48,7 @@ export function choiceText(choice: Choice): string {
   const verdict = rec
     ? `recommended: ${rec.method} at ${settingText(rec)}; confirmed error ${sig3(rec.achieved)} is ${rec.margin?.toPrecision(3)}x inside the target`
     : 'no method met the target on this problem; loosen the target or add methods';
-  return [head, '', ...lines, '', verdict, '', CAUTION_TEXT].join('\n');
+  return [head, '', ...lines, '', verdict, '', CAUTION_SHORT].join('\n');
 }
 
 export const registerChoose: RegisterCommand = (program, setExit) => {

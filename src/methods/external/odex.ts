@@ -7,6 +7,7 @@ import { InputError, messageOf } from '../../core/errors.js';
 import type { Method, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { isAdaptiveSetting, zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
+import { stopTimes } from '../stop-times.js';
 
 /** The parts of odex's Solver this adapter uses (odex 2.x, src/odex.ts). */
 interface OdexSolver {
@@ -73,8 +74,7 @@ export const odexMethod: Method = {
       return Array.from(dyBuf);
     };
 
-    const stops = (options.checkTimes ?? []).filter((c) => c > problem.t0 && c < problem.tEnd).sort((a, b) => a - b);
-    stops.push(problem.tEnd);
+    const stops = stopTimes(options.checkTimes, problem.t0, problem.tEnd, 'odex');
     const yObs = new Float64Array(n);
     let y: number[] = [...problem.y0];
     let t = problem.t0;
