@@ -30,50 +30,62 @@ export interface Resolved<T> {
   entries: Map<string, string>;
 }
 
-export async function resolveProblems(list: string | undefined, warn: (message: string) => void = () => {}): Promise<Resolved<Problem>> {
+interface ListKind<T extends { id: string }> {
+  /** "problem" or "method", for messages. */
+  noun: string;
+  flag: string;
+  builtins: readonly T[];
+  load(path: string): Promise<T>;
+}
+
+/** The entries of a comma list: built-in ids, or files loaded by `kind.load`. */
+async function resolveList<T extends { id: string }>(list: string | undefined, kind: ListKind<T>): Promise<Resolved<T>> {
   const entries = splitList(list);
-  if (list !== undefined && entries.length === 0) throw new InputError('expected a comma-separated list of problem ids or files', '--problem');
-  if (entries.length === 0) return { items: [...catalogue], named: false, entries: new Map() };
-  const items: Problem[] = [];
+  if (list !== undefined && entries.length === 0) {
+    throw new InputError(`expected a comma-separated list of ${kind.noun} ids or files`, kind.flag);
+  }
+  if (entries.length === 0) return { items: [...kind.builtins], named: false, entries: new Map() };
+  const items: T[] = [];
   const sources = new Map<string, string>();
   for (const entry of entries) {
     if (looksLikePath(entry)) {
-      const { loadUserProblem } = await import('./user-files.js');
-      const p = withCertifiedReference(await loadUserProblem(entry));
-      if (p.reference.unavailable) warn(`${entry}: ${p.reference.unavailable}`);
-      items.push(p);
-      sources.set(p.id, entry);
+      const item = await kind.load(entry);
+      items.push(item);
+      sources.set(item.id, entry);
       continue;
     }
-    const p = catalogue.find((c) => c.id === entry);
-    if (!p) throw unknown('problem', '--problem', entry, catalogue.map((c) => c.id));
-    items.push(p);
+    const item = kind.builtins.find((c) => c.id === entry);
+    if (!item) throw unknown(kind.noun, kind.flag, entry, kind.builtins.map((c) => c.id));
+    items.push(item);
   }
-  assertUnique(items.map((p) => p.id), '--problem');
+  assertUnique(items.map((x) => x.id), kind.flag);
   return { items, named: true, entries: sources };
 }
 
+export async function resolveProblems(list: string | undefined, warn: (message: string) => void = () => {}): Promise<Resolved<Problem>> {
+  return resolveList(list, {
+    noun: 'problem',
+    flag: '--problem',
+    builtins: catalogue,
+    async load(entry) {
+      const { loadUserProblem } = await import('./user-files.js');
+      const p = withCertifiedReference(await loadUserProblem(entry));
+      if (p.reference.unavailable) warn(`${entry}: ${p.reference.unavailable}`);
+      return p;
+    },
+  });
+}
+
 export async function resolveMethods(list: string | undefined): Promise<Resolved<Method>> {
-  const all = builtinMethods();
-  const entries = splitList(list);
-  if (list !== undefined && entries.length === 0) throw new InputError('expected a comma-separated list of method ids or files', '--method');
-  if (entries.length === 0) return { items: all, named: false, entries: new Map() };
-  const items: Method[] = [];
-  const sources = new Map<string, string>();
-  for (const entry of entries) {
-    if (looksLikePath(entry)) {
+  return resolveList(list, {
+    noun: 'method',
+    flag: '--method',
+    builtins: builtinMethods(),
+    async load(entry) {
       const { loadUserMethod } = await import('./user-files.js');
-      const m = await loadUserMethod(entry);
-      items.push(m);
-      sources.set(m.id, entry);
-      continue;
-    }
-    const m = all.find((c) => c.id === entry);
-    if (!m) throw unknown('method', '--method', entry, all.map((c) => c.id));
-    items.push(m);
-  }
-  assertUnique(items.map((m) => m.id), '--method');
-  return { items, named: true, entries: sources };
+      return loadUserMethod(entry);
+    },
+  });
 }
 
 function assertUnique(ids: string[], flag: string): void {
