@@ -1,6 +1,12 @@
-// Parallel execution on worker threads (tinypool), one run per task, at most `jobs` in flight so
-// a run's timeout clock starts when it really starts. A run past its timeout has its worker
-// terminated and replaced; the run is recorded with status `timeout` and the sweep goes on.
+// Parallel execution on a tinypool pool, one run per task, at most `jobs` in flight so a run's
+// timeout clock starts when it really starts. A run past its timeout has its worker terminated and
+// replaced; the run is recorded with status `timeout` and the sweep goes on.
+//
+// The workers are tinypool's child processes started with V8's --single-threaded, not worker
+// threads. Every V8 process runs garbage collection and optimising compilation on background
+// threads; worker threads share one process's, and on a 2-core machine those threads take the
+// second core from the other worker. Measured on the catalogue sweep (bench/README.md): threads
+// gave 1.1-1.3x over --jobs 1, single-threaded child processes 1.4-1.8x.
 import { existsSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -25,6 +31,20 @@ function workerFile(): string {
   return built;
 }
 
+/** Workers: single-threaded V8 child processes (see the header), at most `size` of them. */
+function createPool(size: number): Tinypool {
+  return new Tinypool({
+    filename: workerFile(),
+    runtime: 'child_process',
+    execArgv: ['--single-threaded'],
+    // Structured clone, as between threads: JSON would turn a NaN or infinite error into null.
+    serialization: 'advanced',
+    minThreads: 1,
+    maxThreads: size,
+    isolateWorkers: false,
+  });
+}
+
 export interface PoolInput {
   runs: readonly PlannedRun[];
   jobs: number;
@@ -34,16 +54,44 @@ export interface PoolInput {
   options: SweepOptions;
 }
 
+/** Runs of one problem and method, which share everything a worker compiles and caches. */
+interface AffinityGroup {
+  runs: PlannedRun[];
+  cost: number;
+}
+
+/**
+ * The runs grouped by (problem, method), costliest group first, runs inside a group costliest
+ * first. A worker takes whole groups: V8 optimises each method's step code and each problem's
+ * right-hand side per process, and the catalogue's runs are short (milliseconds), so a sweep that
+ * deals single runs round-robin pays that warm-up in every worker (measured: about a fifth of the
+ * catalogue sweep). Costliest first keeps the last groups small, so lanes finish together.
+ */
+export function affinityGroups(runs: readonly PlannedRun[]): AffinityGroup[] {
+  const byKey = new Map<string, AffinityGroup>();
+  for (const r of runs) {
+    const key = `${r.problem}\u0000${r.method}`;
+    let g = byKey.get(key);
+    if (!g) byKey.set(key, (g = { runs: [], cost: 0 }));
+    g.runs.push(r);
+    g.cost += r.expectedCost;
+  }
+  const groups = [...byKey.values()];
+  for (const g of groups) g.runs.sort((a, b) => b.expectedCost - a.expectedCost || a.planIndex - b.planIndex);
+  return groups.sort((a, b) => b.cost - a.cost || a.runs[0]!.planIndex - b.runs[0]!.planIndex);
+}
+
 export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
   const { options } = input;
-  const pool = new Tinypool({ filename: workerFile(), minThreads: 1, maxThreads: input.jobs, isolateWorkers: false });
+  const laneCount = Math.max(1, input.jobs);
+  // One single-worker pool per lane, so a lane's groups stay on the worker that has warmed up.
+  const pools = Array.from({ length: laneCount }, () => createPool(1));
   const out: RunResult[] = [];
   let failed = 0;
-  let next = 0;
   // Callbacks stay here; workers get only the serialisable run options.
   const { onRun, shouldStop, ...taskOptions } = options;
 
-  const one = async (planned: PlannedRun): Promise<RunResult> => {
+  const one = async (pool: Tinypool, planned: PlannedRun): Promise<RunResult> => {
     const task: WorkerTask = {
       planned,
       problemEntry: input.problemEntries.get(planned.problem) ?? planned.problem,
@@ -71,22 +119,24 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
     }
   };
 
-  // Costliest first, so no lane is left with one long run at the end (results return in plan order).
-  const queue = [...input.runs].sort((a, b) => b.expectedCost - a.expectedCost || a.planIndex - b.planIndex);
-  const lane = async (): Promise<void> => {
-    while (next < queue.length) {
-      if (shouldStop?.()) return;
-      const planned = queue[next++]!;
-      const run = await one(planned);
-      if (run.status !== 'ok') failed++;
-      out.push(run);
-      onRun?.({ done: out.length, total: input.runs.length, failed, last: run });
+  const groups = affinityGroups(input.runs);
+  let nextGroup = 0;
+  const lane = async (pool: Tinypool): Promise<void> => {
+    while (nextGroup < groups.length) {
+      const group = groups[nextGroup++]!;
+      for (const planned of group.runs) {
+        if (shouldStop?.()) return;
+        const run = await one(pool, planned);
+        if (run.status !== 'ok') failed++;
+        out.push(run);
+        onRun?.({ done: out.length, total: input.runs.length, failed, last: run });
+      }
     }
   };
   try {
-    await Promise.all(Array.from({ length: Math.max(1, input.jobs) }, lane));
+    await Promise.all(pools.map(lane));
   } finally {
-    await pool.destroy();
+    await Promise.all(pools.map((p) => p.destroy()));
   }
   return out.sort((a, b) => (a.planIndex ?? 0) - (b.planIndex ?? 0));
 }
@@ -99,7 +149,7 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
 export async function stiffnessOnPool(entries: ReadonlyMap<string, string>, timeoutSeconds: number): Promise<Map<string, number | null>> {
   const out = new Map<string, number | null>();
   if (entries.size === 0) return out;
-  const pool = new Tinypool({ filename: workerFile(), minThreads: 1, maxThreads: 1, isolateWorkers: false });
+  const pool = createPool(1);
   try {
     for (const [id, entry] of entries) {
       const controller = new AbortController();

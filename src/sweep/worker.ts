@@ -17,6 +17,14 @@ export interface WorkerTask {
   options: ExecuteOptions;
 }
 
+// As a child process: Ctrl-C reaches the whole process group, but stopping is the parent's call
+// (it lets runs in flight finish and writes what is done); and a worker whose parent has gone
+// has nobody to answer, so it leaves.
+if (typeof process.send === 'function') {
+  process.on('SIGINT', () => {});
+  process.on('disconnect', () => process.exit(0));
+}
+
 const problems = new Map<string, Problem>();
 const methods = new Map<string, Method>();
 
