@@ -8,7 +8,7 @@ import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { rescaleDifferences } from './bdf-rescale.js';
-import { EPS, solveAdaptive, type Attempt, type Stepper, type Tolerances } from './common.js';
+import { EPS, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
 
 const MAX_ORDER = 5;
 const NEWTON_MAXITER = 4;
@@ -26,6 +26,10 @@ for (let k = 1; k <= MAX_ORDER + 1; k++) GAMMA.push(GAMMA[k - 1]! + 1 / k);
 
 function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
   const n = problem.dimension;
+  const proposal = new Float64Array(1);
+  // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
+  // written to a closure variable, which would allocate on each step.
+  const st = { hCur: NaN, eta: 1 };
   const f = problem.f;
   const { rtol, atol } = tol;
   const y = Float64Array.from(problem.y0);
@@ -42,12 +46,10 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
   const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
 
   let k = 1;
-  let hCur = NaN;
   let nEqual = 0;
   let luValid = false;
   let needJac = true;
   let jacCurrent = false;
-  let eta = 1;
   let started = false;
 
   f(problem.t0, y, f0);
@@ -62,17 +64,17 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     return Math.sqrt(s / n);
   }
 
-  function attempt(t: number, h: number): Attempt {
+  function attempt(t: number, h: number): boolean {
     if (!started) {
       for (let i = 0; i < n; i++) {
         D[i] = y[i]!;
         D[n + i] = h * f0[i]!;
       }
-      hCur = h;
+      st.hCur = h;
       started = true;
-    } else if (h !== hCur) {
-      rescaleDifferences(D, n, k, h / hCur, work);
-      hCur = h;
+    } else if (h !== st.hCur) {
+      rescaleDifferences(D, n, k, h / st.hCur, work);
+      st.hCur = h;
       nEqual = 0;
       luValid = false;
     }
@@ -93,7 +95,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
       counts.nlu++;
       if (!luFactor(M, n, piv)) {
         if (!jacCurrent) needJac = true;
-        return { accepted: false, hNext: 0.5 * h };
+        return propose(proposal, false, 0.5 * h);
       }
       luValid = true;
     }
@@ -114,7 +116,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     let iters = 0;
     let dyOld = 0;
     let rate = 0;
-    eta = Math.max(eta, EPS) ** 0.8;
+    st.eta = Math.max(st.eta, EPS) ** 0.8;
     for (let it = 0; it < NEWTON_MAXITER; it++) {
       f(t + h, ycur, fcur);
       counts.nfev++;
@@ -126,25 +128,25 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
       if (it > 0) {
         rate = dy / dyOld;
         if (rate >= 1 || (rate ** (NEWTON_MAXITER - it) / (1 - rate)) * dy > newtonTol) break;
-        eta = rate / (1 - rate);
+        st.eta = rate / (1 - rate);
       }
       for (let i = 0; i < n; i++) {
         ycur[i] = ycur[i]! + delta[i]!;
         dcor[i] = dcor[i]! + delta[i]!;
       }
-      if (dy === 0 || eta * dy <= newtonTol) {
+      if (dy === 0 || st.eta * dy <= newtonTol) {
         converged = true;
         break;
       }
       dyOld = dy;
     }
     if (!converged) {
-      eta = 1;
+      st.eta = 1;
       if (!jacCurrent) {
         needJac = true;
-        return { accepted: false, hNext: h };
+        return propose(proposal, false, h);
       }
-      return { accepted: false, hNext: 0.5 * h };
+      return propose(proposal, false, 0.5 * h);
     }
     for (let i = 0; i < n; i++) {
       const a = Math.abs(y[i]!);
@@ -155,7 +157,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     const err = norm(dcor) / (k + 1);
     if (!(err <= 1)) {
       const factor = Number.isFinite(err) ? Math.max(MIN_FACTOR, safety * err ** (-1 / (k + 1))) : MIN_FACTOR;
-      return { accepted: false, hNext: h * factor };
+      return propose(proposal, false, h * factor);
     }
     // Accepted: update the differences, newest first.
     const o1 = (k + 1) * n;
@@ -171,7 +173,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     for (let i = 0; i < n; i++) y[i] = D[i]!;
     jacCurrent = false;
     nEqual++;
-    if (nEqual < k + 1) return { accepted: true, hNext: h };
+    if (nEqual < k + 1) return propose(proposal, true, h);
     // Order and step selection among k-1, k, k+1.
     const errM = k > 1 ? norm(D.subarray(k * n, (k + 1) * n)) / k : Infinity;
     const errP = k < MAX_ORDER ? norm(D.subarray(o2, o2 + n)) / (k + 2) : Infinity;
@@ -189,16 +191,16 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
       newK = k + 1;
     }
     const factor = Math.min(MAX_FACTOR, safety * best);
-    if (newK === k && factor >= 1 && factor < HOLD_RATIO) return { accepted: true, hNext: h };
+    if (newK === k && factor >= 1 && factor < HOLD_RATIO) return propose(proposal, true, h);
     if (newK !== k) {
       k = newK;
       luValid = false;
     }
     nEqual = 0;
-    return { accepted: true, hNext: h * factor };
+    return propose(proposal, true, h * factor);
   }
 
-  return { y, f0, attempt } satisfies Stepper & { f0: Float64Array };
+  return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };
 }
 
 export const bdfVariable: Method = {

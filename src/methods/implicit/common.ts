@@ -110,11 +110,14 @@ export function startingStep(
   return Math.min(100 * h0, h1, span);
 }
 
-/** What one step attempt reports back to the driver. */
-export interface Attempt {
-  accepted: boolean;
-  /** Step size proposed for the next attempt (after acceptance or for the retry). */
-  hNext: number;
+/**
+ * How an attempt reports back: accepted or not as its return value, the step size proposed for
+ * the next attempt (after acceptance, or for the retry) in `proposal[0]`. A buffer, not a
+ * returned object, so the step loop allocates nothing.
+ */
+export function propose(proposal: Float64Array, accepted: boolean, hNext: number): boolean {
+  proposal[0] = hNext;
+  return accepted;
 }
 
 /**
@@ -123,11 +126,20 @@ export interface Attempt {
  */
 export interface Stepper {
   readonly y: Float64Array;
-  attempt(t: number, h: number): Attempt;
+  /** proposal[0]: the step size the last attempt proposes (see `propose`). */
+  readonly proposal: Float64Array;
+  attempt(t: number, h: number): boolean;
 }
 
 /** Stop a stretch of h this close to a stop (relative), so no sliver step is left over. */
 const LANDING_STRETCH = 1.01;
+
+/** A closure over the loop's t would box every new t on the heap, so this one takes it as an argument. */
+function finished(status: Status, t: number, y: Float64Array, counts: Counts, message?: string): SolveResult {
+  const r: SolveResult = { status, tFinal: t, yFinal: Float64Array.from(y), counts };
+  if (message !== undefined) r.message = message;
+  return r;
+}
 
 /**
  * Run an adaptive stepper from problem.t0 to problem.tEnd with step h0. Honours maxSteps
@@ -144,17 +156,13 @@ export function drive(problem: Problem, options: SolveOptions, stepper: Stepper,
   let t = problem.t0;
   let h = h0;
   let stopIdx = 0;
+  const proposal = stepper.proposal;
   observer?.(t, y);
-  const finish = (status: Status, message?: string): SolveResult => {
-    const r: SolveResult = { status, tFinal: t, yFinal: Float64Array.from(y), counts };
-    if (message !== undefined) r.message = message;
-    return r;
-  };
   while (stopIdx < stops.length) {
     const stop = stops[stopIdx]!;
     const budget = budgetStop(counts.accepted + counts.rejected, maxSteps, deadline, t);
-    if (budget !== null) return finish(budget.status, budget.message);
-    if (!(h > 0) || !Number.isFinite(h)) return finish('step-underflow', `step size became ${h} at t=${t}`);
+    if (budget !== null) return finished(budget.status, t, y, counts, budget.message);
+    if (!(h > 0) || !Number.isFinite(h)) return finished('step-underflow', t, y, counts, `step size became ${h} at t=${t}`);
     let hTry = h;
     let landing = false;
     if (t + LANDING_STRETCH * hTry >= stop) {
@@ -162,11 +170,12 @@ export function drive(problem: Problem, options: SolveOptions, stepper: Stepper,
       landing = true;
     }
     const hMin = 16 * EPS * Math.max(Math.abs(t), 1e-300);
-    if (hTry < hMin) return finish('step-underflow', `step size ${hTry} below ${hMin} at t=${t}`);
-    const r = stepper.attempt(t, hTry);
-    if (!r.accepted) {
+    if (hTry < hMin) return finished('step-underflow', t, y, counts, `step size ${hTry} below ${hMin} at t=${t}`);
+    const accepted = stepper.attempt(t, hTry);
+    const hNext = proposal[0]!;
+    if (!accepted) {
       counts.rejected++;
-      h = Math.min(r.hNext, hTry);
+      h = Math.min(hNext, hTry);
       continue;
     }
     counts.accepted++;
@@ -175,15 +184,15 @@ export function drive(problem: Problem, options: SolveOptions, stepper: Stepper,
       stopIdx++;
       // The landing step was cut short by the stop, not by accuracy: resume with the larger of
       // the step proposed before the cut and the one the controller proposes now.
-      h = Math.max(r.hNext, h);
+      h = Math.max(hNext, h);
     } else {
       t = t + hTry;
-      h = r.hNext;
+      h = hNext;
     }
-    if (!allFinite(y, n)) return finish('diverged', `non-finite state at t=${t}`);
+    if (!allFinite(y, n)) return finished('diverged', t, y, counts, `non-finite state at t=${t}`);
     observer?.(t, y);
   }
-  return finish('ok');
+  return finished('ok', t, y, counts);
 }
 
 /** What an adaptive implicit method builds once per solve; `drive` steps it. */

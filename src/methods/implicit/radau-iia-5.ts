@@ -9,7 +9,7 @@ import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/l
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
-import { checkProblem, drive, EPS, parseAdaptive, startingStep, type Attempt, type Stepper } from './common.js';
+import { checkProblem, drive, EPS, parseAdaptive, startingStep, propose, type Stepper } from './common.js';
 import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
 
 /** Step-size safety factor and the bounds on h_new / h (1/FACL .. 1/FACR). */
@@ -39,6 +39,10 @@ const { gamma: GAM, alpha: ALPH, beta: BETA, t: T, tinv: TI, d: D } = RADAU5_TRA
 
 function createStepper(problem: Problem, rtol: number, atol: Float64Array, counts: ReturnType<typeof zeroCounts>) {
   const n = problem.dimension;
+  const proposal = new Float64Array(1);
+  // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
+  // written to a closure variable, which would allocate on each step.
+  const st = { hLU: NaN, hOld: 0, faccon: 1, theta: THET, hacc: 0, erracc: 0 };
   const f = problem.f;
   const y = Float64Array.from(problem.y0);
   const f0 = new Float64Array(n);
@@ -57,15 +61,9 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
 
   let needJac = true;
   let jacCurrent = false;
-  let hLU = NaN;
   let first = true;
   let reject = false;
   let havePoly = false;
-  let hOld = 0;
-  let faccon = 1;
-  let theta = THET;
-  let hacc = 0;
-  let erracc = 0;
 
   f(problem.t0, y, f0);
   counts.nfev++;
@@ -85,10 +83,10 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
       e2i[i * n + i] = betan;
     }
     counts.nlu++;
-    hLU = NaN;
+    st.hLU = NaN;
     if (!luFactor(e1, n, piv1)) return false;
     if (!complexLuFactor(e2r, e2i, n, piv2)) return false;
-    hLU = h;
+    st.hLU = h;
     return true;
   }
 
@@ -103,25 +101,25 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
     return Math.max(Math.sqrt(s / n), 1e-10);
   }
 
-  function attempt(t: number, h: number): Attempt {
+  function attempt(t: number, h: number): boolean {
     if (needJac) {
       jacSrc.evaluate(t, y, f0);
       needJac = false;
       jacCurrent = true;
-      hLU = NaN;
+      st.hLU = NaN;
     }
-    if (h !== hLU && !factor(h)) {
+    if (h !== st.hLU && !factor(h)) {
       // Singular iteration matrix: a smaller h moves it away from singularity of J - (gamma/h) I.
       reject = true;
       if (!jacCurrent) needJac = true;
-      return { accepted: false, hNext: h * NEWTON_FAIL_FACTOR };
+      return propose(proposal, false, h * NEWTON_FAIL_FACTOR);
     }
     // Starting values from the previous step's collocation polynomial, else zero.
     if (first || !havePoly) {
       z1.fill(0); z2.fill(0); z3.fill(0);
       w1.fill(0); w2.fill(0); w3.fill(0);
     } else {
-      const r = h / hOld;
+      const r = h / st.hOld;
       const s1 = 1 + C1 * r, s2 = 1 + C2 * r, s3 = 1 + r;
       for (let i = 0; i < n; i++) {
         const a1 = cont1[i]!, a2 = cont2[i]!, a3 = cont3[i]!;
@@ -138,8 +136,8 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
 
     // Simplified Newton iteration on the transformed stage system.
     const fac1 = GAM / h, alphn = ALPH / h, betan = BETA / h;
-    faccon = Math.max(faccon, EPS) ** 0.8;
-    theta = THET;
+    st.faccon = Math.max(st.faccon, EPS) ** 0.8;
+    st.theta = THET;
     let newt = 0;
     let dynold = 0;
     let thqold = 0;
@@ -176,11 +174,11 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
       if (!Number.isFinite(dyno)) break;
       if (newt >= 1) {
         const thq = dyno / dynold;
-        theta = newt === 1 ? thq : Math.sqrt(thq * thqold);
+        st.theta = newt === 1 ? thq : Math.sqrt(thq * thqold);
         thqold = thq;
-        if (theta < 0.99) {
-          faccon = theta / (1 - theta);
-          const dyth = (faccon * dyno * theta ** (NIT - 1 - newt)) / fnewt;
+        if (st.theta < 0.99) {
+          st.faccon = st.theta / (1 - st.theta);
+          const dyth = (st.faccon * dyno * st.theta ** (NIT - 1 - newt)) / fnewt;
           if (dyth >= 1) {
             // Convergence predicted too slow: shrink h by the factor that would make it fit.
             const qnewt = Math.max(1e-4, Math.min(20, dyth));
@@ -201,7 +199,7 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
         z3[i] = T[6]! * a1 + T[7]! * a2 + T[8]! * a3;
       }
       newt++;
-      if (faccon * dyno <= fnewt) {
+      if (st.faccon * dyno <= fnewt) {
         converged = true;
         break;
       }
@@ -209,7 +207,7 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
     if (!converged) {
       reject = true;
       if (!jacCurrent) needJac = true;
-      return { accepted: false, hNext: hFail };
+      return propose(proposal, false, hFail);
     }
 
     // Embedded error estimate: (gamma/h I - J)^{-1} (f0 + sum d_j z_j / h).
@@ -235,18 +233,18 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
     if (!(err < 1)) {
       reject = true;
       if (!jacCurrent) needJac = true;
-      return { accepted: false, hNext: first ? h * 0.1 : hnew };
+      return propose(proposal, false, first ? h * 0.1 : hnew);
     }
 
     // Accepted.
-    if (!first && hacc > 0) {
-      let facgus = ((hacc / h) * (err * err / erracc) ** 0.25) / SAFE;
+    if (!first && st.hacc > 0) {
+      let facgus = ((st.hacc / h) * (err * err / st.erracc) ** 0.25) / SAFE;
       facgus = Math.max(FACR, Math.min(FACL, facgus));
       quot = Math.max(quot, facgus);
       hnew = h / quot;
     }
-    hacc = h;
-    erracc = Math.max(1e-2, err);
+    st.hacc = h;
+    st.erracc = Math.max(1e-2, err);
     first = false;
     // Divided differences of the collocation polynomial on nodes 1, c2, c1, 0 (values z3, z2, z1, 0).
     for (let i = 0; i < n; i++) {
@@ -263,22 +261,22 @@ function createStepper(problem: Problem, rtol: number, atol: Float64Array, count
       y[i] = y[i]! + c;
     }
     havePoly = true;
-    hOld = h;
+    st.hOld = h;
     f(t + h, y, f0);
     counts.nfev++;
     if (reject) hnew = Math.min(hnew, h);
     reject = false;
     jacCurrent = false;
     const qt = hnew / h;
-    if (theta <= THET && qt >= QUOT1 && qt <= QUOT2) {
+    if (st.theta <= THET && qt >= QUOT1 && qt <= QUOT2) {
       // Keep both the Jacobian and the factorization: h stays as it is.
-      return { accepted: true, hNext: h };
+      return propose(proposal, true, h);
     }
-    if (theta > THET) needJac = true;
-    return { accepted: true, hNext: hnew };
+    if (st.theta > THET) needJac = true;
+    return propose(proposal, true, hnew);
   }
 
-  return { y, f0, attempt } satisfies Stepper & { f0: Float64Array };
+  return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };
 }
 
 export const radauIIA5: Method = {

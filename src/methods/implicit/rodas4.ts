@@ -10,7 +10,7 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { EPS, solveAdaptive, type Attempt, type Stepper, type Tolerances } from './common.js';
+import { EPS, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
 
 /** Coefficients of RODAS4 (Hairer & Wanner 1996, sec. IV.7), transformed form. */
 export const RODAS4 = {
@@ -48,6 +48,10 @@ const FAC_UP = 6;
 
 function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
   const n = problem.dimension;
+  const proposal = new Float64Array(1);
+  // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
+  // written to a closure variable, which would allocate on each step.
+  const st = { tLast: NaN };
   const f = problem.f;
   const { rtol, atol } = tol;
   const y = Float64Array.from(problem.y0);
@@ -64,19 +68,18 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
   let f0Valid = false;
   let jacValid = false;
   let reject = false;
-  let tLast = NaN;
 
   f(problem.t0, y, f0);
   counts.nfev++;
   f0Valid = true;
 
-  function attempt(t: number, h: number): Attempt {
+  function attempt(t: number, h: number): boolean {
     if (!f0Valid) {
       f(t, y, f0);
       counts.nfev++;
       f0Valid = true;
     }
-    if (!jacValid || t !== tLast) {
+    if (!jacValid || t !== st.tLast) {
       jacSrc.evaluate(t, y, f0);
       // df/dt by a forward difference in t.
       const dt = Math.sqrt(EPS) * Math.max(1e-5, Math.abs(t));
@@ -86,7 +89,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
       const inv = 1 / (tp - t);
       for (let i = 0; i < n; i++) ft[i] = (ftmp[i]! - f0[i]!) * inv;
       jacValid = true;
-      tLast = t;
+      st.tLast = t;
     }
     const fac = 1 / (h * gamma);
     for (let q = 0; q < n * n; q++) M[q] = -jac[q]!;
@@ -94,7 +97,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     counts.nlu++;
     if (!luFactor(M, n, piv)) {
       reject = true;
-      return { accepted: false, hNext: 0.5 * h };
+      return propose(proposal, false, 0.5 * h);
     }
     for (let s = 0; s < STAGES; s++) {
       const us = u[s]!;
@@ -134,17 +137,17 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     let hnew = h / quot;
     if (!(err <= 1)) {
       reject = true;
-      return { accepted: false, hNext: hnew };
+      return propose(proposal, false, hnew);
     }
     if (reject) hnew = Math.min(hnew, h);
     reject = false;
     y.set(ynew);
     f0Valid = false;
     jacValid = false;
-    return { accepted: true, hNext: hnew };
+    return propose(proposal, true, hnew);
   }
 
-  return { y, f0, attempt } satisfies Stepper & { f0: Float64Array };
+  return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };
 }
 
 export const rodas4: Method = {

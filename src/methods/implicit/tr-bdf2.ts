@@ -33,7 +33,7 @@ import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
-import { checkProblem, drive, EPS, parseAdaptive, startingStep, type Attempt, type Stepper, type Tolerances } from './common.js';
+import { checkProblem, drive, EPS, parseAdaptive, startingStep, propose, type Stepper, type Tolerances } from './common.js';
 
 const GAMMA = 2 - Math.SQRT2;
 const DIAG = GAMMA / 2;
@@ -71,6 +71,10 @@ export function trBdf2Tolerances(tol: Tolerances): Tolerances {
 
 function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
   const n = problem.dimension;
+  const proposal = new Float64Array(1);
+  // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
+  // written to a closure variable, which would allocate on each step.
+  const st = { hLU: NaN, eta: 1 };
   const f = problem.f;
   const { rtol, atol } = tol;
   const y = Float64Array.from(problem.y0);
@@ -83,10 +87,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
   const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts);
   const jac = jacSrc.jac;
   const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
-  let hLU = NaN;
   let needJac = true;
   let jacCurrent = false;
-  let eta = 1;
   let reject = false;
 
   f(problem.t0, y, f1);
@@ -103,7 +105,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
 
   /** Solve z = rhs + d h f(tz, z) from the start value in z; fOut gets f(tz, z) via the stage relation. */
   function newton(tz: number, h: number, fOut: Float64Array): boolean {
-    eta = Math.max(eta, EPS) ** 0.8;
+    st.eta = Math.max(st.eta, EPS) ** 0.8;
     let dyOld = 0;
     const dh = DIAG * h;
     for (let it = 0; it < NEWTON_MAXITER; it++) {
@@ -116,10 +118,10 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
       if (it > 0) {
         const rate = dy / dyOld;
         if (rate >= 1 || (rate ** (NEWTON_MAXITER - it) / (1 - rate)) * dy > newtonTol) return false;
-        eta = rate / (1 - rate);
+        st.eta = rate / (1 - rate);
       }
       for (let i = 0; i < n; i++) z[i] = z[i]! + delta[i]!;
-      if (dy === 0 || eta * dy <= newtonTol) {
+      if (dy === 0 || st.eta * dy <= newtonTol) {
         // f at the converged stage from the stage equation, consistent with what was solved.
         const inv = 1 / dh;
         for (let i = 0; i < n; i++) fOut[i] = (z[i]! - rhs[i]!) * inv;
@@ -130,24 +132,24 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     return false;
   }
 
-  function attempt(t: number, h: number): Attempt {
+  function attempt(t: number, h: number): boolean {
     if (needJac) {
       jacSrc.evaluate(t, y, f1);
       needJac = false;
       jacCurrent = true;
-      hLU = NaN;
+      st.hLU = NaN;
     }
-    if (h !== hLU) {
+    if (h !== st.hLU) {
       const dh = DIAG * h;
       for (let q = 0; q < n * n; q++) M[q] = -dh * jac[q]!;
       for (let i = 0; i < n; i++) M[i * n + i] = M[i * n + i]! + 1;
       counts.nlu++;
-      hLU = NaN;
+      st.hLU = NaN;
       if (!luFactor(M, n, piv)) {
         if (!jacCurrent) needJac = true;
-        return { accepted: false, hNext: 0.5 * h };
+        return propose(proposal, false, 0.5 * h);
       }
-      hLU = h;
+      st.hLU = h;
     }
     for (let i = 0; i < n; i++) scal[i] = atol[i]! + rtol * Math.abs(y[i]!);
     // Trapezoidal stage.
@@ -165,13 +167,13 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
       ok = newton(t + h, h, f3);
     }
     if (!ok) {
-      eta = 1;
+      st.eta = 1;
       reject = true;
       if (!jacCurrent) {
         needJac = true;
-        return { accepted: false, hNext: h };
+        return propose(proposal, false, h);
       }
-      return { accepted: false, hNext: 0.5 * h };
+      return propose(proposal, false, 0.5 * h);
     }
     z3.set(z);
     for (let i = 0; i < n; i++) est[i] = h * (E[0]! * f1[i]! + E[1]! * f2[i]! + E[2]! * f3[i]!);
@@ -186,7 +188,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     if (!(err <= 1)) {
       reject = true;
       const factor = Number.isFinite(err) ? Math.max(MIN_FACTOR, SAFE * err ** (-1 / 3)) : MIN_FACTOR;
-      return { accepted: false, hNext: h * factor };
+      return propose(proposal, false, h * factor);
     }
     let factor = Math.min(MAX_FACTOR, SAFE * Math.max(err, 1e-10) ** (-1 / 3));
     if (reject) factor = Math.min(factor, 1);
@@ -195,10 +197,10 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
     f1.set(f3);
     jacCurrent = false;
     if (factor >= 1 && factor < HOLD_RATIO) factor = 1;
-    return { accepted: true, hNext: h * factor };
+    return propose(proposal, true, h * factor);
   }
 
-  return { y, f0: f1, attempt } satisfies Stepper & { f0: Float64Array };
+  return { y, f0: f1, proposal, attempt } satisfies Stepper & { f0: Float64Array };
 }
 
 export const trBdf2: Method = {
