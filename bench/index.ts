@@ -152,6 +152,22 @@ async function main(): Promise<void> {
     const rows = await sweep();
     out.sweep = rows;
     show(table('sweep: catalogue at jobs 1 and 2, 10,000-run memory sweep', rows, Object.keys(rows[0] ?? {})));
+    const speed = await optional<{ pairs: number[]; median: number }>('sweep.js', 'sweepSpeedups');
+    if (speed) {
+      const s = await speed(rows);
+      const two = rows.filter((r) => r.jobs === 2 && String(r.name).startsWith('catalogue')).map((r) => Number(r.seconds));
+      const synthetic = rows.find((r) => String(r.name).startsWith('synthetic'));
+      const sweepTargets: Row[] = [
+        { target: 'catalogue sweep, --jobs 2, no timing: slowest of the pairs, s', measured: Math.max(...two), limit: 20, met: Math.max(...two) < 20 },
+        { target: `catalogue sweep: --jobs 1 / --jobs 2, median of ${s.pairs.length} pairs (${s.pairs.map((x) => x.toFixed(2)).join(', ')})`, measured: s.median, limit: 1.7, met: s.median >= 1.7 },
+      ];
+      if (synthetic) {
+        const mb = Number(synthetic.peakTreeRssMB);
+        sweepTargets.push({ target: '10,000-run sweep: peak resident memory, sweep process and workers, MB', measured: mb, limit: 300, met: mb < 300 });
+      }
+      (out.targets as Row[]).push(...sweepTargets);
+      show(table('sweep targets', sweepTargets, ['target', 'measured', 'limit', 'met']));
+    }
   }
 
   const env = machine(loadStart);

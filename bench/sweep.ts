@@ -1,38 +1,108 @@
 // Sweep benchmark: the whole catalogue without timing at --jobs 1 and --jobs 2 (wall time, peak
 // resident memory), and a synthetic 10,000-run sweep for memory. Each measurement runs in a
-// fresh child process so peak memory belongs to that sweep alone.
-import { execFileSync } from 'node:child_process';
+// fresh child process so peak memory belongs to that sweep alone. The catalogue pair is measured
+// PAIRS times, alternating, because a shared VM's speed drifts by tens of percent between minutes.
+//
+// Parallel sweeps run their runs in worker processes, whose memory a process's own maxRSS does
+// not include; so resident memory is sampled from /proc for the sweep process and all its
+// descendants together, and the peak of that sum is reported (`peakTreeRssMB`).
+import { spawn } from 'node:child_process';
+import { readdirSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const child = join(here, 'sweep-child.js');
+const PAIRS = 3;
+const SAMPLE_MS = 50;
 
 export interface SweepBenchRow {
   name: string;
   jobs: number;
   runs: number;
   seconds: number;
+  /** The sweep process alone (its own maxRSS). */
   peakRssMB: number;
+  /** Peak of the summed resident memory of the sweep process and its workers (sampled). */
+  peakTreeRssMB: number;
 }
 
-function measure(name: string, args: Record<string, unknown>): SweepBenchRow {
-  const out = execFileSync(process.execPath, [child, JSON.stringify(args)], { encoding: 'utf8', maxBuffer: 1 << 26 });
-  const row = JSON.parse(out.trim().split('\n').at(-1)!) as Omit<SweepBenchRow, 'name'>;
-  return { name, ...row };
+/** Resident kilobytes of pid and every descendant, from /proc (0 for processes already gone). */
+function treeRssKB(root: number): number {
+  const parent = new Map<number, number>();
+  const rss = new Map<number, number>();
+  for (const entry of readdirSync('/proc')) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      const status = readFileSync(`/proc/${entry}/status`, 'utf8');
+      const pp = /^PPid:\s+(\d+)/m.exec(status);
+      const kb = /^VmRSS:\s+(\d+)/m.exec(status);
+      parent.set(Number(entry), pp ? Number(pp[1]) : 0);
+      rss.set(Number(entry), kb ? Number(kb[1]) : 0);
+    } catch {
+      // the process ended while the table was read
+    }
+  }
+  let total = 0;
+  for (const [pid, kb] of rss) {
+    for (let p: number | undefined = pid; p !== undefined && p > 1; p = parent.get(p)) {
+      if (p === root) {
+        total += kb;
+        break;
+      }
+    }
+  }
+  return total;
 }
 
-export function runSweepBench(): SweepBenchRow[] {
+export function measureSweep(name: string, args: Record<string, unknown>): Promise<SweepBenchRow> {
+  return new Promise((resolve, reject) => {
+    const proc = spawn(process.execPath, [child, JSON.stringify(args)], { stdio: ['ignore', 'pipe', 'inherit'] });
+    let out = '';
+    let peakKB = 0;
+    proc.stdout.on('data', (d: Buffer) => (out += d.toString('utf8')));
+    const timer = setInterval(() => {
+      if (proc.pid !== undefined) peakKB = Math.max(peakKB, treeRssKB(proc.pid));
+    }, SAMPLE_MS);
+    proc.on('error', reject);
+    proc.on('close', (code) => {
+      clearInterval(timer);
+      if (code !== 0) return reject(new Error(`sweep child exited with ${code}`));
+      const row = JSON.parse(out.trim().split('\n').at(-1)!) as Omit<SweepBenchRow, 'name' | 'peakTreeRssMB'>;
+      resolve({ name, ...row, peakTreeRssMB: Math.max(peakKB / 1024, row.peakRssMB) });
+    });
+  });
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)]!;
+}
+
+export async function runSweepBench(): Promise<SweepBenchRow[]> {
   const rows: SweepBenchRow[] = [];
-  rows.push(measure('catalogue, default settings, no timing', { jobs: 1 }));
-  rows.push(measure('catalogue, default settings, no timing', { jobs: 2 }));
-  rows.push(measure('synthetic 10,000 runs (oscillator, 10 methods x 1,000 tolerances)', { jobs: 2, synthetic: true }));
+  for (let k = 0; k < PAIRS; k++) {
+    rows.push(await measureSweep(`catalogue, default settings, no timing (pair ${k + 1})`, { jobs: 1 }));
+    rows.push(await measureSweep(`catalogue, default settings, no timing (pair ${k + 1})`, { jobs: 2 }));
+  }
+  rows.push(await measureSweep('synthetic 10,000 runs (oscillator, 10 methods x 1,000 tolerances)', { jobs: 2, synthetic: true }));
   return rows;
 }
 
+/** Per pair and median speed-up of jobs 2 over jobs 1 on the catalogue. */
+export function sweepSpeedups(rows: readonly SweepBenchRow[]): { pairs: number[]; median: number } {
+  const pairs: number[] = [];
+  for (let i = 0; i + 1 < rows.length; i += 2) {
+    const one = rows[i]!;
+    const two = rows[i + 1]!;
+    if (one.jobs === 1 && two.jobs === 2 && one.runs === two.runs) pairs.push(one.seconds / two.seconds);
+  }
+  return { pairs, median: pairs.length ? median(pairs) : NaN };
+}
+
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const rows = runSweepBench();
+  const rows = await runSweepBench();
   console.table(rows);
-  const [one, two] = rows;
-  console.log(`speed-up jobs 2 / jobs 1: ${(one!.seconds / two!.seconds).toFixed(2)}x`);
+  const s = sweepSpeedups(rows);
+  console.log(`speed-up jobs 2 / jobs 1: ${s.pairs.map((x) => x.toFixed(2)).join(', ')} (median ${s.median.toFixed(2)}x)`);
 }

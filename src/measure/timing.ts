@@ -42,7 +42,7 @@ export async function timeRun(
   const solve = () => {
     method.solve(problem, setting, solveOptions(problem, runOptions));
   };
-  // Warm-up until the JIT has settled: a fresh worker thread runs a method's code cold, and the
+  // Warm-up until the JIT has settled: a fresh worker runs a method's code cold, and the
   // first solves of a millisecond run can take twenty times longer (seen with radau-iia-5 on
   // robertson). Bounded in time, so a long solve is warmed once.
   const key = `${method.id}|${problem.id}`;

@@ -110,7 +110,7 @@ export interface SweepRequest {
   /** null or undefined: no timing. */
   timing?: TimingOptions | null;
   controller?: 'standard' | 'pi';
-  /** Worker threads; 1 runs in this process (unless a run timeout needs workers). */
+  /** Parallel workers; 1 runs in this process (unless a run timeout needs workers). */
   jobs?: number;
   runTimeoutSeconds?: number;
   shard?: { index: number; count: number };

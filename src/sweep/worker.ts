@@ -1,4 +1,4 @@
-// Worker-thread side of a parallel sweep: resolves the problem and method by the same entries the
+// Worker side of a parallel sweep (a tinypool child process): resolves the problem and method by the same entries the
 // user gave (built-in ids or file paths), caches them for the worker's life, executes one run.
 import type { Method, Problem } from '../core/types.js';
 import type { RunResult } from '../core/results.js';

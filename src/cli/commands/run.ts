@@ -96,7 +96,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('--time-budget <seconds>', 'timing budget per run; long solves get fewer samples', String(DEFAULT_TIMING.budgetSeconds))
     .option('--max-steps <n>', 'step limit per run (accepted + rejected); past it the run ends with status step-limit', '100000')
     .option('--controller <kind>', 'step-size controller for explicit pairs: standard or pi', 'standard')
-    .option('-j, --jobs <n>', 'worker threads (default: available cores)')
+    .option('-j, --jobs <n>', 'parallel workers (default: available cores)')
     .option('--run-timeout <seconds>', 'end a run that takes longer (its worker is terminated); status timeout')
     .option('--shard <K/N>', 'run only the K-th of N balanced slices of the plan (merge them with `stepgauge merge`)')
     .option('--no-report', 'write only results.json and results.csv, no plots or report')
