@@ -6,7 +6,7 @@
 // threads. Every V8 process runs garbage collection and optimising compilation on background
 // threads; worker threads share one process's, and on a 2-core machine those threads take the
 // second core from the other worker. Measured on the catalogue sweep (bench/README.md): threads
-// gave 1.1-1.3x over --jobs 1, single-threaded child processes 1.4-1.8x.
+// gave 1.0-1.3x over --jobs 1, single-threaded child processes 1.4-1.8x.
 import { existsSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -31,8 +31,8 @@ function workerFile(): string {
   return built;
 }
 
-/** Workers: single-threaded V8 child processes (see the header), at most `size` of them. */
-function createPool(size: number): Tinypool {
+/** One worker: a single-threaded V8 child process (see the header). */
+function createPool(): Tinypool {
   return new Tinypool({
     filename: workerFile(),
     runtime: 'child_process',
@@ -43,7 +43,7 @@ function createPool(size: number): Tinypool {
     // Structured clone, as between threads: JSON would turn a NaN or infinite error into null.
     serialization: 'advanced',
     minThreads: 1,
-    maxThreads: size,
+    maxThreads: 1,
     isolateWorkers: false,
   });
 }
@@ -103,7 +103,7 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
   const { options } = input;
   const laneCount = Math.max(1, input.jobs);
   // One single-worker pool per lane, so a lane's groups stay on the worker that has warmed up.
-  const pools = Array.from({ length: laneCount }, () => createPool(1));
+  const pools = Array.from({ length: laneCount }, () => createPool());
   const out: RunResult[] = [];
   let failed = 0;
   // Callbacks stay here; workers get only the serialisable run options.
@@ -167,7 +167,7 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
 export async function stiffnessOnPool(entries: ReadonlyMap<string, string>, timeoutSeconds: number): Promise<Map<string, number | null>> {
   const out = new Map<string, number | null>();
   if (entries.size === 0) return out;
-  const pool = createPool(1);
+  const pool = createPool();
   try {
     for (const [id, entry] of entries) {
       const controller = new AbortController();
