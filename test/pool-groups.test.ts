@@ -45,3 +45,18 @@ describe('affinityGroups', () => {
     );
   });
 });
+
+describe('planned cost of a method that maps its tolerance', () => {
+  it('grows like rtol^(-1/2) for trapezoidal-bdf2 and rtol^(-1/(p+1)) without stepGrowth', async () => {
+    // Exponents: per-step control of order p gives h ~ tol^(1/(p+1)) (Hairer, Norsett & Wanner I,
+    // sec. II.4); the map rtol' ~ rtol^(3/2) of tr-bdf2.ts turns p = 2 into rtol^(-1/2).
+    const { planSweep } = await import('../src/sweep/plan.js');
+    const { findMethod } = await import('../src/methods/registry.js');
+    const { findProblem } = await import('../problems/index.js');
+    const problem = findProblem('harmonic-oscillator')!;
+    const cost = (id: string, rtol: number) =>
+      planSweep({ problems: [problem], methods: [findMethod(id)!], tolerances: [rtol], methodsNamed: true }).runs[0]!.expectedCost;
+    expect(Math.log10(cost('trapezoidal-bdf2', 1e-8) / cost('trapezoidal-bdf2', 1e-6)) / 2).toBeCloseTo(0.5, 12);
+    expect(Math.log10(cost('dormand-prince-54', 1e-8) / cost('dormand-prince-54', 1e-6)) / 2).toBeCloseTo(1 / 6, 12);
+  });
+});

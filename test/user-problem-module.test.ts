@@ -78,5 +78,7 @@ describe('defineProblem and defineMethod validate', () => {
     expect(() => defineMethod({ ...m, family: 'magic' as never })).toThrow(/family must be one of/);
     expect(() => defineMethod({ ...m, order: 0 })).toThrow(/order must be a positive integer/);
     expect(() => defineMethod({ ...m, solve: 3 as never })).toThrow(/solve must be a function/);
+    expect(() => defineMethod({ ...m, stepGrowth: 0 })).toThrow(/stepGrowth must be a number in \(0, 1\]/);
+    expect(defineMethod({ ...m, stepGrowth: 0.5 }).stepGrowth).toBe(0.5);
   });
 });

@@ -169,6 +169,11 @@ export interface Method {
   readonly needsSeparable?: boolean;
   /** Order of the embedded error estimate, for adaptive pairs. */
   readonly embeddedOrder?: number;
+  /**
+   * For planning only: steps grow like rtol^(-stepGrowth). Without it, 1/(order + 1), what
+   * per-step error control of an order-p method gives; a method that maps its tolerance says so.
+   */
+  readonly stepGrowth?: number;
   readonly notes?: string;
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult;
 }

@@ -24,6 +24,9 @@ export function defineMethod(spec: MethodSpec): Method {
   if (typeof spec.stiff !== 'boolean') bad('stiff must be true or false');
   if (spec.needsSeparable !== undefined && typeof spec.needsSeparable !== 'boolean') bad('needsSeparable must be true or false');
   if (spec.embeddedOrder !== undefined && (!Number.isInteger(spec.embeddedOrder) || spec.embeddedOrder < 1)) bad('embeddedOrder must be a positive integer');
+  if (spec.stepGrowth !== undefined && !(Number.isFinite(spec.stepGrowth) && spec.stepGrowth > 0 && spec.stepGrowth <= 1)) {
+    bad(`stepGrowth must be a number in (0, 1] (steps grow like rtol^-stepGrowth), got ${JSON.stringify(spec.stepGrowth)}`);
+  }
   if (spec.adaptive && spec.family === 'fixed-step') bad("a 'fixed-step' method cannot be adaptive");
   if (typeof spec.solve !== 'function') bad('solve must be a function (problem, setting, options) => result');
   const solve = spec.solve;
@@ -37,6 +40,7 @@ export function defineMethod(spec: MethodSpec): Method {
     stiff: spec.stiff,
     ...(spec.needsSeparable !== undefined ? { needsSeparable: spec.needsSeparable } : {}),
     ...(spec.embeddedOrder !== undefined ? { embeddedOrder: spec.embeddedOrder } : {}),
+    ...(spec.stepGrowth !== undefined ? { stepGrowth: spec.stepGrowth } : {}),
     ...(spec.notes !== undefined ? { notes: spec.notes } : {}),
     solve: (problem, setting, options) => solve.call(spec, problem, setting, options),
   };

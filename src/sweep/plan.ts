@@ -63,7 +63,8 @@ export function pairingGap(problem: Problem, method: Method): string | null {
 
 function costOf(method: Method, setting: Setting): number {
   if ('steps' in setting) return setting.steps * Math.max(1, method.order);
-  return 10 * Math.pow(1 / setting.rtol, 1 / Math.max(1, method.order + 1)) * Math.max(1, method.order);
+  const growth = method.stepGrowth ?? 1 / Math.max(1, method.order + 1);
+  return 10 * Math.pow(1 / setting.rtol, growth) * Math.max(1, method.order);
 }
 
 export function planSweep(req: PlanRequest): SweepPlan {

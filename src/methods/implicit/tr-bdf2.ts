@@ -209,6 +209,8 @@ export const trBdf2: Method = {
   family: 'implicit',
   order: 2,
   embeddedOrder: 3,
+  // The tolerance map (header) makes steps grow like rtol^(-1/2) rather than rtol^(-1/3).
+  stepGrowth: 0.5,
   source:
     'R. E. Bank et al., IEEE Trans. CAD 4 (1985) 436-451; M. E. Hosea, L. F. Shampine, Appl. Numer. Math. 20 (1996) 21-37',
   adaptive: true,
