@@ -104,6 +104,31 @@ describe('failure isolation in one sweep', () => {
     expect(hung.stiffnessRatio).toBeNull();
   });
 
+  // A model the sweep must certify whose f never returns: with --run-timeout the certification
+  // runs on a worker under 4 run timeouts, the problem is left without a reference (its runs
+  // `error`, as when certification fails) and the other problem's runs finish.
+  it('certification that never returns: stopped under --run-timeout, the sweep goes on', async () => {
+    const cache = mkdtempSync(join(tmpdir(), 'sg-cache-'));
+    scratch.push(cache);
+    const before = process.env.STEPGAUGE_CACHE;
+    process.env.STEPGAUGE_CACHE = cache;
+    try {
+      const started = Date.now();
+      const { r, results } = await sweep(['--problem', `${MODULES}/hangs-uncertified.ts,harmonic-oscillator`, '-m', 'rk4', '-s', '10', '--run-timeout', '1', '--jobs', '1']);
+      expect(r.code, r.stderr).toBe(3);
+      expect(r.stderr).toContain('certifying a reference took longer than 4 s');
+      const runs = byKey(results.runs);
+      const hung = runs.get('hangs-uncertified x rk4 @ 10')!;
+      expect(['error', 'timeout']).toContain(hung.status);
+      expect(runs.get('harmonic-oscillator x rk4 @ 10')!.status).toBe('ok');
+      // 4 s for the certification, 1 s (plus grace) for the run and the stiffness ratio each.
+      expect(Date.now() - started).toBeLessThan(30_000);
+    } finally {
+      if (before === undefined) delete process.env.STEPGAUGE_CACHE;
+      else process.env.STEPGAUGE_CACHE = before;
+    }
+  });
+
   it('a right-hand side that never returns: --run-timeout 2 --jobs 1 ends that run with timeout, the others finish', async () => {
     const { r, results } = await sweep([
       '--problem', `${MODULES}/hangs-mid-span.ts,harmonic-oscillator`,

@@ -102,9 +102,14 @@ export function withCertifiedReference(p: Problem): Problem {
   try {
     return certified(p);
   } catch (e) {
-    const why = `could not certify a reference for ${p.id}: ${e instanceof Error ? e.message : String(e)}`;
-    return { ...p, reference: { kind: 'certified', points: [], unavailable: why } };
+    return withoutReference(p, `could not certify a reference for ${p.id}: ${e instanceof Error ? e.message : String(e)}`);
   }
+}
+
+/** The problem marked as having no reference, and why (a problem that needs none is kept as is). */
+export function withoutReference(p: Problem, why: string): Problem {
+  if (!needsCertificate(p)) return p;
+  return { ...p, reference: { kind: 'certified', points: [], unavailable: why } };
 }
 
 function certified(p: Problem): Problem {

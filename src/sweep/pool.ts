@@ -17,7 +17,7 @@ import { messageOf } from '../core/errors.js';
 import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
 import type { SweepOptions } from './run.js';
-import type { StiffnessTask, WorkerTask } from './worker.js';
+import type { CertifyTask, StiffnessTask, WorkerTask } from './worker.js';
 
 /** Extra seconds a worker gets past the solver's own deadline before it is terminated. */
 const TERMINATE_GRACE_SECONDS = 2;
@@ -55,6 +55,8 @@ export interface PoolInput {
   problemEntries: ReadonlyMap<string, string>;
   methodEntries: ReadonlyMap<string, string>;
   options: SweepOptions;
+  /** File entries whose reference was not certified in time, and why (see certifyOnPool). */
+  uncertified?: ReadonlyMap<string, string>;
 }
 
 /**
@@ -116,6 +118,8 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
       methodEntry: input.methodEntries.get(planned.method) ?? planned.method,
       options: taskOptions,
     };
+    const uncertified = input.uncertified?.get(task.problemEntry);
+    if (uncertified !== undefined) task.uncertified = uncertified;
     const controller = new AbortController();
     const limit = options.runTimeoutSeconds;
     // Timing repeats the solve, so the hard limit allows for the timing budget as well.
@@ -164,7 +168,11 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
  * model's f and Jacobian, and a model that never returns must not hang the sweep after its runs
  * were timed out. A ratio not computed in time is null.
  */
-export async function stiffnessOnPool(entries: ReadonlyMap<string, string>, timeoutSeconds: number): Promise<Map<string, number | null>> {
+export async function stiffnessOnPool(
+  entries: ReadonlyMap<string, string>,
+  timeoutSeconds: number,
+  uncertified?: ReadonlyMap<string, string>,
+): Promise<Map<string, number | null>> {
   const out = new Map<string, number | null>();
   if (entries.size === 0) return out;
   const pool = createPool();
@@ -174,9 +182,46 @@ export async function stiffnessOnPool(entries: ReadonlyMap<string, string>, time
       const timer = setTimeout(() => controller.abort(), (timeoutSeconds + TERMINATE_GRACE_SECONDS) * 1000);
       try {
         const task: StiffnessTask = { kind: 'stiffness', problemEntry: entry };
+        const why = uncertified?.get(entry);
+        if (why !== undefined) task.uncertified = why;
         out.set(id, (await pool.run(task, { signal: controller.signal })) as number | null);
       } catch {
         out.set(id, null);
+      } finally {
+        clearTimeout(timer);
+      }
+    }
+  } finally {
+    await pool.destroy();
+  }
+  return out;
+}
+
+/** A certification is two solves at a tight tolerance: it gets this many run timeouts. */
+export const CERTIFY_TIMEOUT_RUNS = 4;
+
+/**
+ * Certify the references of problem files on a worker, each within CERTIFY_TIMEOUT_RUNS run
+ * timeouts, before the main process loads them (which then reads the certificates from the
+ * cache). Answers the entries that ran out of time, with the reason to record. A file that fails
+ * to load is left for the main process, which reports it as bad input.
+ */
+export async function certifyOnPool(entries: readonly string[], runTimeoutSeconds: number): Promise<Map<string, string>> {
+  const out = new Map<string, string>();
+  if (entries.length === 0) return out;
+  const limit = CERTIFY_TIMEOUT_RUNS * runTimeoutSeconds;
+  const pool = createPool();
+  try {
+    for (const entry of entries) {
+      const controller = new AbortController();
+      const timer = setTimeout(() => controller.abort(), (limit + TERMINATE_GRACE_SECONDS) * 1000);
+      try {
+        const task: CertifyTask = { kind: 'certify', problemEntry: entry };
+        await pool.run(task, { signal: controller.signal });
+      } catch {
+        if (controller.signal.aborted) {
+          out.set(entry, `certifying a reference took longer than ${limit} s (${CERTIFY_TIMEOUT_RUNS} x --run-timeout) and was stopped`);
+        }
       } finally {
         clearTimeout(timer);
       }

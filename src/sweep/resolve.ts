@@ -3,7 +3,12 @@ import type { Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { builtinMethods } from '../methods/registry.js';
 import { catalogue } from '../../problems/index.js';
-import { withCertifiedReference } from '../measure/certify.js';
+import { withCertifiedReference, withoutReference } from '../measure/certify.js';
+
+/** The file entries of a comma list (built-in ids left out). */
+export function fileEntries(list: string | undefined): string[] {
+  return splitList(list).filter(looksLikePath);
+}
 
 /** True when a list entry names a file rather than a built-in id. */
 export function looksLikePath(entry: string): boolean {
@@ -62,14 +67,25 @@ async function resolveList<T extends { id: string }>(list: string | undefined, k
   return { items, named: true, entries: sources };
 }
 
-export async function resolveProblems(list: string | undefined, warn: (message: string) => void = () => {}): Promise<Resolved<Problem>> {
+/**
+ * The problems of a --problem list. `uncertified` maps a file entry to the reason its reference
+ * is not to be certified here (certification on a worker ran out of time): such a problem keeps
+ * no reference, like one whose certification failed.
+ */
+export async function resolveProblems(
+  list: string | undefined,
+  warn: (message: string) => void = () => {},
+  uncertified?: ReadonlyMap<string, string>,
+): Promise<Resolved<Problem>> {
   return resolveList(list, {
     noun: 'problem',
     flag: '--problem',
     builtins: catalogue,
     async load(entry) {
       const { loadUserProblem } = await import('./user-files.js');
-      const p = withCertifiedReference(await loadUserProblem(entry));
+      const loaded = await loadUserProblem(entry);
+      const skipped = uncertified?.get(entry);
+      const p = skipped !== undefined ? withoutReference(loaded, skipped) : withCertifiedReference(loaded);
       if (p.reference.unavailable) warn(`${entry}: ${p.reference.unavailable}`);
       return p;
     },

@@ -9,8 +9,8 @@ import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 import { resolve as resolvePath } from 'node:path';
 import { executeRun, type ExecuteOptions } from './execute.js';
 import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
-import { resolveMethods, resolveProblems } from './resolve.js';
-import { executeOnPool, stiffnessOnPool } from './pool.js';
+import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
+import { certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
 import { selectShard } from './shard.js';
 import type { TimingOptions } from '../measure/timing.js';
 
@@ -127,7 +127,10 @@ export const DEFAULT_MAX_STEPS = 100_000;
 
 /** Plans, executes and assembles one sweep; the library form of `stepgauge run`. */
 export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
-  const problems = await resolveProblems(req.problem, req.onWarning);
+  // With a run timeout, user models are not trusted to return: their references are certified on
+  // a worker under a limit first, so a model that never returns cannot hang the sweep here.
+  const uncertified = req.runTimeoutSeconds ? await certifyOnPool(fileEntries(req.problem).map((e) => resolvePath(e)), req.runTimeoutSeconds) : undefined;
+  const problems = await resolveProblems(req.problem, req.onWarning, uncertified && relativeKeys(uncertified, req.problem));
   const methods = await resolveMethods(req.method);
   const plan = planSweep({
     problems: problems.items,
@@ -159,12 +162,13 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
           problemEntries: absoluteEntries(problems.entries),
           methodEntries: absoluteEntries(methods.entries),
           options,
+          ...(uncertified ? { uncertified } : {}),
         })
       : await executePlan(todo, problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
   const wanted = new Set(selected.map((s) => s.planIndex));
   const runs = [...done.values(), ...fresh].filter((r) => wanted.has(r.planIndex ?? -1));
   // User models are code: with a run timeout, their stiffness ratio is computed under it too.
-  const stiffness = req.runTimeoutSeconds ? await stiffnessOnPool(absoluteEntries(problems.entries), req.runTimeoutSeconds) : undefined;
+  const stiffness = req.runTimeoutSeconds ? await stiffnessOnPool(absoluteEntries(problems.entries), req.runTimeoutSeconds, uncertified) : undefined;
   const results = await assembleResults({
     plan,
     problems: problems.items,
@@ -177,6 +181,16 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
   if (req.shard) results.shard = { index: req.shard.index, count: req.shard.count, planSha256: plan.sha256 };
   results.request = sweepRequestRecord(req);
   return results;
+}
+
+/** The uncertified map (keyed by absolute path) keyed by the entries as the user wrote them. */
+function relativeKeys(byAbsolute: ReadonlyMap<string, string>, list: string | undefined): Map<string, string> {
+  const out = new Map<string, string>();
+  for (const e of fileEntries(list)) {
+    const why = byAbsolute.get(resolvePath(e));
+    if (why !== undefined) out.set(e, why);
+  }
+  return out;
 }
 
 function absoluteEntries(entries: ReadonlyMap<string, string>): Map<string, string> {

@@ -15,6 +15,8 @@ export interface WorkerTask {
   problemEntry: string;
   methodEntry: string;
   options: ExecuteOptions;
+  /** Set when the problem's reference could not be certified in time: why (see resolveProblems). */
+  uncertified?: string;
 }
 
 // As a child process: Ctrl-C reaches the whole process group, but stopping is the parent's call
@@ -28,10 +30,10 @@ if (typeof process.send === 'function') {
 const problems = new Map<string, Problem>();
 const methods = new Map<string, Method>();
 
-async function problemFor(entry: string): Promise<Problem> {
+async function problemFor(entry: string, uncertified?: string): Promise<Problem> {
   let p = problems.get(entry);
   if (!p) {
-    p = (await resolveProblems(entry)).items[0]!;
+    p = (await resolveProblems(entry, undefined, uncertified !== undefined ? new Map([[entry, uncertified]]) : undefined)).items[0]!;
     problems.set(entry, p);
   }
   return p;
@@ -50,11 +52,25 @@ async function methodFor(entry: string): Promise<Method> {
 export interface StiffnessTask {
   kind: 'stiffness';
   problemEntry: string;
+  uncertified?: string;
 }
 
-export default async function runTask(task: WorkerTask | StiffnessTask): Promise<RunResult | number | null> {
-  if ('kind' in task) return problemStiffnessRatio(await problemFor(task.problemEntry));
-  const problem = await problemFor(task.problemEntry);
+/**
+ * Load a problem file and certify its reference here (the certificate lands in the shared
+ * cache, where the main process then finds it), so a model that never returns cannot hang the
+ * sweep before it starts. Answers the reason a certificate is unavailable, or null.
+ */
+export interface CertifyTask {
+  kind: 'certify';
+  problemEntry: string;
+}
+
+export default async function runTask(task: WorkerTask | StiffnessTask | CertifyTask): Promise<RunResult | number | string | null> {
+  if ('kind' in task) {
+    if (task.kind === 'certify') return (await problemFor(task.problemEntry)).reference.unavailable ?? null;
+    return problemStiffnessRatio(await problemFor(task.problemEntry, task.uncertified));
+  }
+  const problem = await problemFor(task.problemEntry, task.uncertified);
   let method: Method;
   try {
     method = await methodFor(task.methodEntry);
