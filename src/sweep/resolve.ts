@@ -1,4 +1,5 @@
 // Turning the user's --problem and --method lists into problem and method objects.
+import { resolve as resolvePath } from 'node:path';
 import type { Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { builtinMethods } from '../methods/registry.js';
@@ -68,9 +69,9 @@ async function resolveList<T extends { id: string }>(list: string | undefined, k
 }
 
 /**
- * The problems of a --problem list. `uncertified` maps a file entry to the reason its reference
- * is not to be certified here (certification on a worker ran out of time): such a problem keeps
- * no reference, like one whose certification failed.
+ * The problems of a --problem list. `uncertified` maps a file (absolute path) to the reason its
+ * reference is not to be certified here (certification on a worker ran out of time): such a
+ * problem keeps no reference, like one whose certification failed.
  */
 export async function resolveProblems(
   list: string | undefined,
@@ -84,7 +85,7 @@ export async function resolveProblems(
     async load(entry) {
       const { loadUserProblem } = await import('./user-files.js');
       const loaded = await loadUserProblem(entry);
-      const skipped = uncertified?.get(entry);
+      const skipped = uncertified?.get(resolvePath(entry));
       const p = skipped !== undefined ? withoutReference(loaded, skipped) : withCertifiedReference(loaded);
       if (p.reference.unavailable) warn(`${entry}: ${p.reference.unavailable}`);
       return p;

@@ -130,7 +130,7 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
   // With a run timeout, user models are not trusted to return: their references are certified on
   // a worker under a limit first, so a model that never returns cannot hang the sweep here.
   const uncertified = req.runTimeoutSeconds ? await certifyOnPool(fileEntries(req.problem).map((e) => resolvePath(e)), req.runTimeoutSeconds) : undefined;
-  const problems = await resolveProblems(req.problem, req.onWarning, uncertified && relativeKeys(uncertified, req.problem));
+  const problems = await resolveProblems(req.problem, req.onWarning, uncertified);
   const methods = await resolveMethods(req.method);
   const plan = planSweep({
     problems: problems.items,
@@ -181,16 +181,6 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
   if (req.shard) results.shard = { index: req.shard.index, count: req.shard.count, planSha256: plan.sha256 };
   results.request = sweepRequestRecord(req);
   return results;
-}
-
-/** The uncertified map (keyed by absolute path) keyed by the entries as the user wrote them. */
-function relativeKeys(byAbsolute: ReadonlyMap<string, string>, list: string | undefined): Map<string, string> {
-  const out = new Map<string, string>();
-  for (const e of fileEntries(list)) {
-    const why = byAbsolute.get(resolvePath(e));
-    if (why !== undefined) out.set(e, why);
-  }
-  return out;
 }
 
 function absoluteEntries(entries: ReadonlyMap<string, string>): Map<string, string> {
