@@ -55,7 +55,7 @@ function treeRssKB(root: number): number {
   return total;
 }
 
-export function measureSweep(name: string, args: Record<string, unknown>): Promise<SweepBenchRow> {
+function measureSweep(name: string, args: Record<string, unknown>): Promise<SweepBenchRow> {
   return new Promise((resolve, reject) => {
     const proc = spawn(process.execPath, [child, JSON.stringify(args)], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';

@@ -48,6 +48,32 @@ function createPool(): Tinypool {
   });
 }
 
+/** A task's answer, or how it failed (timedOut: its limit passed and its worker was ended). */
+type Outcome = { ok: true; value: unknown } | { ok: false; error: unknown; timedOut: boolean };
+
+/** One task on a pool, within limitMs (no limit when 0). */
+async function runLimited(pool: Tinypool, task: unknown, limitMs: number): Promise<Outcome> {
+  const controller = new AbortController();
+  const timer = limitMs > 0 ? setTimeout(() => controller.abort(), limitMs) : undefined;
+  try {
+    return { ok: true, value: await pool.run(task, { signal: controller.signal }) };
+  } catch (error) {
+    return { ok: false, error, timedOut: controller.signal.aborted };
+  } finally {
+    if (timer) clearTimeout(timer);
+  }
+}
+
+/** A one-worker pool for the duration of `use`. */
+async function withWorker<T>(use: (pool: Tinypool) => Promise<T>): Promise<T> {
+  const pool = createPool();
+  try {
+    return await use(pool);
+  } finally {
+    await pool.destroy();
+  }
+}
+
 export interface PoolInput {
   runs: readonly PlannedRun[];
   jobs: number;
@@ -120,25 +146,19 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
     };
     const uncertified = input.uncertified?.get(task.problemEntry);
     if (uncertified !== undefined) task.uncertified = uncertified;
-    const controller = new AbortController();
     const limit = options.runTimeoutSeconds;
     // Timing repeats the solve, so the hard limit allows for the timing budget as well.
     const hard = limit ? (limit + (options.timing?.budgetSeconds ?? 0) * 2 + TERMINATE_GRACE_SECONDS) * 1000 : 0;
-    const timer = hard ? setTimeout(() => controller.abort(), hard) : undefined;
-    try {
-      return flattenNumberArrays((await pool.run(task, { signal: controller.signal })) as RunResult);
-    } catch (e) {
-      const problem = input.problems.get(planned.problem)!;
-      const run = failedRun(problem, { id: planned.method }, planned.setting, messageOf(e));
-      if (controller.signal.aborted) {
-        run.status = 'timeout';
-        run.message = `run exceeded --run-timeout ${limit} s and its worker was terminated`;
-      }
-      run.planIndex = planned.planIndex;
-      return run;
-    } finally {
-      if (timer) clearTimeout(timer);
+    const outcome = await runLimited(pool, task, hard);
+    if (outcome.ok) return flattenNumberArrays(outcome.value as RunResult);
+    const problem = input.problems.get(planned.problem)!;
+    const run = failedRun(problem, { id: planned.method }, planned.setting, messageOf(outcome.error));
+    if (outcome.timedOut) {
+      run.status = 'timeout';
+      run.message = `run exceeded --run-timeout ${limit} s and its worker was terminated`;
     }
+    run.planIndex = planned.planIndex;
+    return run;
   };
 
   const groups = affinityGroups(input.runs);
@@ -175,25 +195,16 @@ export async function stiffnessOnPool(
 ): Promise<Map<string, number | null>> {
   const out = new Map<string, number | null>();
   if (entries.size === 0) return out;
-  const pool = createPool();
-  try {
+  const limitMs = (timeoutSeconds + TERMINATE_GRACE_SECONDS) * 1000;
+  await withWorker(async (pool) => {
     for (const [id, entry] of entries) {
-      const controller = new AbortController();
-      const timer = setTimeout(() => controller.abort(), (timeoutSeconds + TERMINATE_GRACE_SECONDS) * 1000);
-      try {
-        const task: StiffnessTask = { kind: 'stiffness', problemEntry: entry };
-        const why = uncertified?.get(entry);
-        if (why !== undefined) task.uncertified = why;
-        out.set(id, (await pool.run(task, { signal: controller.signal })) as number | null);
-      } catch {
-        out.set(id, null);
-      } finally {
-        clearTimeout(timer);
-      }
+      const task: StiffnessTask = { kind: 'stiffness', problemEntry: entry };
+      const why = uncertified?.get(entry);
+      if (why !== undefined) task.uncertified = why;
+      const outcome = await runLimited(pool, task, limitMs);
+      out.set(id, outcome.ok ? (outcome.value as number | null) : null);
     }
-  } finally {
-    await pool.destroy();
-  }
+  });
   return out;
 }
 
@@ -203,31 +214,24 @@ export const CERTIFY_TIMEOUT_RUNS = 4;
 /**
  * Certify the references of problem files on a worker, each within CERTIFY_TIMEOUT_RUNS run
  * timeouts, before the main process loads them (which then reads the certificates from the
- * cache). Answers the entries that ran out of time, with the reason to record. A file that fails
- * to load is left for the main process, which reports it as bad input.
+ * cache). Answers the entries left without a certificate (out of time, or certification
+ * failed), with the reason to record. A file that fails to load is left for the main process,
+ * which reports it as bad input.
  */
 export async function certifyOnPool(entries: readonly string[], runTimeoutSeconds: number): Promise<Map<string, string>> {
   const out = new Map<string, string>();
   if (entries.length === 0) return out;
   const limit = CERTIFY_TIMEOUT_RUNS * runTimeoutSeconds;
-  const pool = createPool();
-  try {
+  await withWorker(async (pool) => {
     for (const entry of entries) {
-      const controller = new AbortController();
-      const timer = setTimeout(() => controller.abort(), (limit + TERMINATE_GRACE_SECONDS) * 1000);
-      try {
-        const task: CertifyTask = { kind: 'certify', problemEntry: entry };
-        await pool.run(task, { signal: controller.signal });
-      } catch {
-        if (controller.signal.aborted) {
-          out.set(entry, `certifying a reference took longer than ${limit} s (${CERTIFY_TIMEOUT_RUNS} x --run-timeout) and was stopped`);
-        }
-      } finally {
-        clearTimeout(timer);
+      const task: CertifyTask = { kind: 'certify', problemEntry: entry };
+      const outcome = await runLimited(pool, task, (limit + TERMINATE_GRACE_SECONDS) * 1000);
+      // A certification that failed quickly is not repeated in the main process either.
+      if (outcome.ok && typeof outcome.value === 'string') out.set(entry, outcome.value);
+      if (!outcome.ok && outcome.timedOut) {
+        out.set(entry, `certifying a reference took longer than ${limit} s (${CERTIFY_TIMEOUT_RUNS} x --run-timeout) and was stopped`);
       }
     }
-  } finally {
-    await pool.destroy();
-  }
+  });
   return out;
 }

@@ -1,5 +1,6 @@
-// Worker side of a parallel sweep (a tinypool child process): resolves the problem and method by the same entries the
-// user gave (built-in ids or file paths), caches them for the worker's life, executes one run.
+// Worker side of a parallel sweep (a tinypool child process): resolves the problem and method by
+// the same entries the user gave (built-in ids or file paths), caches them for the worker's life,
+// executes one run.
 import type { Method, Problem } from '../core/types.js';
 import type { RunResult } from '../core/results.js';
 import { messageOf } from '../core/errors.js';

@@ -200,7 +200,9 @@ export type StepperFactory = (problem: Problem, tol: Tolerances, counts: Counts)
 
 /**
  * The whole adaptive solve of a stepper-based method: validate, build the stepper, choose the
- * starting step for the method's order, drive it to tEnd.
+ * starting step for the method's order, drive it to tEnd. A method that controls a different
+ * tolerance than the one requested (see radau-iia-5, trapezoidal-bdf2) passes its map; the
+ * stepper and the starting step both see the mapped tolerances.
  */
 export function solveAdaptive(
   problem: Problem,
@@ -209,9 +211,11 @@ export function solveAdaptive(
   methodId: string,
   order: number,
   createStepper: StepperFactory,
+  mapTolerances?: (requested: Tolerances) => Tolerances,
 ): SolveResult {
   checkProblem(problem);
-  const tol = parseAdaptive(problem, setting, methodId);
+  const requested = parseAdaptive(problem, setting, methodId);
+  const tol = mapTolerances ? mapTolerances(requested) : requested;
   const counts = zeroCounts();
   const stepper = createStepper(problem, tol, counts);
   const n = problem.dimension;

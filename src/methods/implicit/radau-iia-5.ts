@@ -7,9 +7,8 @@
 // and the predictive step-size controller of Gustafsson (8.25).
 import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
-import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { zeroCounts } from '../../core/types.js';
-import { checkProblem, drive, EPS, parseAdaptive, startingStep, propose, type Stepper } from './common.js';
+import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
+import { EPS, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
 import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
 
 /** Step-size safety factor and the bounds on h_new / h (1/FACL .. 1/FACR). */
@@ -37,7 +36,18 @@ const C1 = RADAU5_C[0]!;
 const C2 = RADAU5_C[1]!;
 const { gamma: GAM, alpha: ALPH, beta: BETA, t: T, tinv: TI, d: D } = RADAU5_TRANSFORM;
 
-function createStepper(problem: Problem, rtol: number, atol: Float64Array, counts: ReturnType<typeof zeroCounts>) {
+/**
+ * The authors' tolerance transformation (their code RADAU5, described with sec. IV.8): the
+ * order-3 estimate controls an order-5 solution, so the requested rtol is mapped to
+ * 0.1 rtol^(2/3) and atol keeps its ratio to rtol.
+ */
+function radauTolerances(tol: Tolerances): Tolerances {
+  const rtol = TOL_FACTOR * tol.rtol ** (2 / 3);
+  return { rtol, atol: tol.atol.map((a) => (a * rtol) / tol.rtol) };
+}
+
+function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
+  const { rtol, atol } = tol;
   const n = problem.dimension;
   const proposal = new Float64Array(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
@@ -292,19 +302,6 @@ export const radauIIA5: Method = {
     'Simplified Newton on the T-transformed stage system (one real, one complex LU per factorization, counted as 1 nlu). ' +
     "Newton failures count as rejected steps. Tolerances are transformed as in the authors' code: rtol' = 0.1 rtol^(2/3), atol' = atol rtol'/rtol.",
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-    checkProblem(problem);
-    const tol = parseAdaptive(problem, setting, 'radau-iia-5');
-    // The authors' tolerance transformation (their code RADAU5, described with sec. IV.8): the
-    // order-3 estimate controls an order-5 solution, so the requested rtol is mapped to
-    // 0.1 rtol^(2/3) and atol keeps its ratio to rtol.
-    const rtol = TOL_FACTOR * tol.rtol ** (2 / 3);
-    const atol = tol.atol.map((a) => (a * rtol) / tol.rtol);
-    const counts = zeroCounts();
-    const stepper = createStepper(problem, rtol, atol, counts);
-    const n = problem.dimension;
-    const h0 =
-      options.initialStep ??
-      startingStep(problem, stepper.y, stepper.f0, 5, { rtol, atol }, counts, new Float64Array(n), new Float64Array(n));
-    return drive(problem, options, stepper, h0, counts, 'radau-iia-5');
+    return solveAdaptive(problem, setting, options, 'radau-iia-5', 5, createStepper, radauTolerances);
   },
 };

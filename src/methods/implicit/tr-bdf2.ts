@@ -32,8 +32,7 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { zeroCounts } from '../../core/types.js';
-import { checkProblem, drive, EPS, parseAdaptive, startingStep, propose, type Stepper, type Tolerances } from './common.js';
+import { EPS, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
 
 const GAMMA = 2 - Math.SQRT2;
 const DIAG = GAMMA / 2;
@@ -222,14 +221,6 @@ export const trBdf2: Method = {
     "rtol' = min(rtol, 1e-3 (rtol/1e-3)^(3/2)), floored at 10 eps/0.03, atol' = atol rtol'/rtol; " +
     'this costs (1e-3/rtol)^(1/6) times the steps of the unmapped control (6.8 at rtol 1e-8).',
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-    checkProblem(problem);
-    const tol = trBdf2Tolerances(parseAdaptive(problem, setting, 'trapezoidal-bdf2'));
-    const counts = zeroCounts();
-    const stepper = createStepper(problem, tol, counts);
-    const n = problem.dimension;
-    const h0 =
-      options.initialStep ??
-      startingStep(problem, stepper.y, stepper.f0, 2, tol, counts, new Float64Array(n), new Float64Array(n));
-    return drive(problem, options, stepper, h0, counts, 'trapezoidal-bdf2');
+    return solveAdaptive(problem, setting, options, 'trapezoidal-bdf2', 2, createStepper, trBdf2Tolerances);
   },
 };
