@@ -1,8 +1,8 @@
 // The one engine for embedded explicit Runge-Kutta pairs: any compiled tableau with error weights.
 // Error estimate in the scaled RMS norm (HNW I, sec. II.4), the propagated solution is whatever
 // the tableau's b weights are (local extrapolation is a property of the data), FSAL reuse,
-// standard or PI control, exact landing on check times and tEnd. All buffers are allocated once
-// per solve; the step loop allocates nothing.
+// standard or PI control, exact landing on check times and tEnd. The work buffers are lent by
+// workspace.ts (kept between solves); the step loop allocates nothing.
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
@@ -20,7 +20,8 @@ import { finish } from './finish.js';
 import { genericStep } from './generic-step.js';
 import { stopTimes } from '../stop-times.js';
 import { budgetStop } from '../budget.js';
-import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_SIZE, IO_T, IO_T_NEW, type Tableau } from './tableau.js';
+import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, type StageKernel, type Tableau } from './tableau.js';
+import { borrowWork, returnWork, type ExplicitWork } from './workspace.js';
 import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
 
 export { COMBINED_ERR3_WEIGHT } from './control.js';
@@ -57,25 +58,43 @@ export function solveEmbedded(
   const t0 = problem.t0;
   const tEnd = problem.tEnd;
   const stops = stopTimes(options.checkTimes, t0, tEnd, methodId);
-  const f = problem.f;
   const s = tab.stages;
-  const fsal = tab.fsal;
-  const last = s - 1;
   // One step function per solve: the method's generated kernel, or the generic sweep.
   const step = tab.kernel !== null ? tab.kernel(n) : genericStep(tab, n);
+  const work = borrowWork(tab, n, problem.y0);
+  try {
+    return stepAdaptively(work, tab, problem, options, onAccept, step, rtol, atol, stops, s);
+  } finally {
+    returnWork(work);
+  }
+}
+
+function stepAdaptively(
+  work: ExplicitWork,
+  tab: Tableau,
+  problem: Problem,
+  options: SolveOptions,
+  onAccept: AcceptHook | undefined,
+  step: StageKernel,
+  rtol: number,
+  atol: Float64Array,
+  stops: Float64Array,
+  s: number,
+): SolveResult {
+  const n = problem.dimension;
+  const t0 = problem.t0;
+  const tEnd = problem.tEnd;
+  const f = problem.f;
+  const fsal = tab.fsal;
+  const last = s - 1;
   const kExp = tab.controlOrder + 1;
   const usePi = options.controller === 'pi';
   const observer = options.observer;
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
-
-  const K = new Float64Array(s * n);
-  const kRow: Float64Array[] = [];
-  for (let i = 0; i < s; i++) kRow.push(K.subarray(i * n, (i + 1) * n));
-  let y = Float64Array.from(problem.y0);
-  let yNew = new Float64Array(n);
-  const yStage = new Float64Array(n);
-  const io = new Float64Array(IO_SIZE);
+  const { K, kRow, yStage, io } = work;
+  let y = work.y;
+  let yNew = work.yNew;
   io[IO_RTOL] = rtol;
   const counts: Counts = zeroCounts();
 

@@ -1,13 +1,14 @@
 // The one engine for fixed-step explicit Runge-Kutta methods: equal steps h = (tEnd - t0)/steps
-// over the span with any compiled tableau. Buffers allocated once per solve. options.checkTimes
+// over the span with any compiled tableau. Work buffers lent by workspace.ts. options.checkTimes
 // does not apply: the grid is fixed by the setting, and moving a step would change the method.
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
 import { budgetStop } from '../budget.js';
 import { finish } from './finish.js';
-import type { FixedKernelFactory } from './kernels/unrolled.js';
-import { IO_H, IO_SIZE, IO_T, type Tableau } from './tableau.js';
+import type { FixedKernelFactory, FixedStepKernel } from './kernels/unrolled.js';
+import { IO_H, IO_T, type Tableau } from './tableau.js';
+import { borrowWork, returnWork, type ExplicitWork } from './workspace.js';
 import { checkOptions, checkProblem, fixedSteps } from './validate.js';
 
 export function solveFixed(
@@ -25,6 +26,28 @@ export function solveFixed(
   const t0 = problem.t0;
   const tEnd = problem.tEnd;
   const h = (tEnd - t0) / steps;
+  // The method's generated step when it has one (same arithmetic, straight-line code).
+  const stepFn = kernel ? kernel(n) : null;
+  const work = borrowWork(tab, n, problem.y0);
+  try {
+    return stepEqually(work, tab, problem, options, steps, h, stepFn);
+  } finally {
+    returnWork(work);
+  }
+}
+
+function stepEqually(
+  work: ExplicitWork,
+  tab: Tableau,
+  problem: Problem,
+  options: SolveOptions,
+  steps: number,
+  h: number,
+  stepFn: FixedStepKernel | null,
+): SolveResult {
+  const n = problem.dimension;
+  const t0 = problem.t0;
+  const tEnd = problem.tEnd;
   const f = problem.f;
   const s = tab.stages;
   const { c, aStart, aCol, aVal, bCol, bVal } = tab;
@@ -32,15 +55,7 @@ export function solveFixed(
   const observer = options.observer;
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
-
-  // The method's generated step when it has one (same arithmetic, straight-line code).
-  const stepFn = kernel ? kernel(n) : null;
-  const io = new Float64Array(IO_SIZE);
-  const K = new Float64Array(s * n);
-  const kRow: Float64Array[] = [];
-  for (let i = 0; i < s; i++) kRow.push(K.subarray(i * n, (i + 1) * n));
-  const y = Float64Array.from(problem.y0);
-  const yStage = new Float64Array(n);
+  const { io, K, kRow, y, yStage } = work;
   const counts: Counts = zeroCounts();
   let status: Status = 'ok';
   let message: string | undefined;
