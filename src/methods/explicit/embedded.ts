@@ -21,7 +21,7 @@ import { genericStep } from './generic-step.js';
 import { stopTimes } from '../stop-times.js';
 import { budgetStop } from '../budget.js';
 import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, type StageKernel, type Tableau } from './tableau.js';
-import { borrowWork, returnWork, type ExplicitWork } from './workspace.js';
+import { withWork, type ExplicitWork } from './workspace.js';
 import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
 
 export { COMBINED_ERR3_WEIGHT } from './control.js';
@@ -58,15 +58,9 @@ export function solveEmbedded(
   const t0 = problem.t0;
   const tEnd = problem.tEnd;
   const stops = stopTimes(options.checkTimes, t0, tEnd, methodId);
-  const s = tab.stages;
   // One step function per solve: the method's generated kernel, or the generic sweep.
   const step = tab.kernel !== null ? tab.kernel(n) : genericStep(tab, n);
-  const work = borrowWork(tab, n, problem.y0);
-  try {
-    return stepAdaptively(work, tab, problem, options, onAccept, step, rtol, atol, stops, s);
-  } finally {
-    returnWork(work);
-  }
+  return withWork(tab, n, problem.y0, (work) => stepAdaptively(work, tab, problem, options, onAccept, step, rtol, atol, stops));
 }
 
 function stepAdaptively(
@@ -79,12 +73,12 @@ function stepAdaptively(
   rtol: number,
   atol: Float64Array,
   stops: Float64Array,
-  s: number,
 ): SolveResult {
   const n = problem.dimension;
   const t0 = problem.t0;
   const tEnd = problem.tEnd;
   const f = problem.f;
+  const s = tab.stages;
   const fsal = tab.fsal;
   const last = s - 1;
   const kExp = tab.controlOrder + 1;

@@ -8,7 +8,7 @@ import { budgetStop } from '../budget.js';
 import { finish } from './finish.js';
 import type { FixedKernelFactory, FixedStepKernel } from './kernels/unrolled.js';
 import { IO_H, IO_T, type Tableau } from './tableau.js';
-import { borrowWork, returnWork, type ExplicitWork } from './workspace.js';
+import { withWork, type ExplicitWork } from './workspace.js';
 import { checkOptions, checkProblem, fixedSteps } from './validate.js';
 
 export function solveFixed(
@@ -28,12 +28,7 @@ export function solveFixed(
   const h = (tEnd - t0) / steps;
   // The method's generated step when it has one (same arithmetic, straight-line code).
   const stepFn = kernel ? kernel(n) : null;
-  const work = borrowWork(tab, n, problem.y0);
-  try {
-    return stepEqually(work, tab, problem, options, steps, h, stepFn);
-  } finally {
-    returnWork(work);
-  }
+  return withWork(tab, n, problem.y0, (work) => stepEqually(work, tab, problem, options, steps, h, stepFn));
 }
 
 function stepEqually(

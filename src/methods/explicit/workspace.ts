@@ -52,3 +52,13 @@ export function borrowWork(tab: Tableau, n: number, y0: readonly number[]): Expl
 export function returnWork(work: ExplicitWork): void {
   work.busy = false;
 }
+
+/** Runs `solve` on a lent set, which comes back however the solve ends (a throwing model too). */
+export function withWork<T>(tab: Tableau, n: number, y0: readonly number[], solve: (work: ExplicitWork) => T): T {
+  const work = borrowWork(tab, n, y0);
+  try {
+    return solve(work);
+  } finally {
+    returnWork(work);
+  }
+}
