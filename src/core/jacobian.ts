@@ -48,8 +48,15 @@ export interface JacobianSource {
   evaluate(t: number, y: Float64Array, fy: Float64Array): void;
 }
 
-export function makeJacobianSource(f: Rhs, jacobian: JacobianFn | undefined, n: number, counts: Counts): JacobianSource {
-  const jac = new Float64Array(n * n);
+/** `buffer` supplies the zeroed work arrays (a stepper passes its kept ones; by default, fresh). */
+export function makeJacobianSource(
+  f: Rhs,
+  jacobian: JacobianFn | undefined,
+  n: number,
+  counts: Counts,
+  buffer: (length: number) => Float64Array = (length) => new Float64Array(length),
+): JacobianSource {
+  const jac = buffer(n * n);
   if (jacobian) {
     return {
       jac,
@@ -60,8 +67,8 @@ export function makeJacobianSource(f: Rhs, jacobian: JacobianFn | undefined, n: 
       },
     };
   }
-  const yWork = new Float64Array(n);
-  const fWork = new Float64Array(n);
+  const yWork = buffer(n);
+  const fWork = buffer(n);
   return {
     jac,
     analytic: false,

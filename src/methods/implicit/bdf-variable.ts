@@ -9,6 +9,7 @@ import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { rescaleDifferences } from './bdf-rescale.js';
 import { EPS, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
+import type { WorkLease } from './work-lease.js';
 
 const MAX_ORDER = 5;
 const NEWTON_MAXITER = 4;
@@ -24,24 +25,24 @@ const KAPPA = 0.03;
 const GAMMA: number[] = [0];
 for (let k = 1; k <= MAX_ORDER + 1; k++) GAMMA.push(GAMMA[k - 1]! + 1 / k);
 
-function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
+function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease: WorkLease) {
   const n = problem.dimension;
-  const proposal = new Float64Array(1);
+  const proposal = lease.float64(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
   // written to a closure variable, which would allocate on each step.
   const st = { hCur: NaN, eta: 1 };
   const f = problem.f;
   const { rtol, atol } = tol;
-  const y = Float64Array.from(problem.y0);
-  const f0 = new Float64Array(n);
-  const D = new Float64Array((MAX_ORDER + 3) * n);
-  const yPred = new Float64Array(n), psi = new Float64Array(n), dcor = new Float64Array(n);
-  const ycur = new Float64Array(n), fcur = new Float64Array(n), delta = new Float64Array(n);
-  const w = new Float64Array(n), fy = new Float64Array(n);
-  const M = new Float64Array(n * n);
-  const piv = new Int32Array(n);
-  const work = new Float64Array(3 * (MAX_ORDER + 1) ** 2 + (MAX_ORDER + 1) * n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts);
+  const y = lease.copyOf(problem.y0);
+  const f0 = lease.float64(n);
+  const D = lease.float64((MAX_ORDER + 3) * n);
+  const yPred = lease.float64(n), psi = lease.float64(n), dcor = lease.float64(n);
+  const ycur = lease.float64(n), fcur = lease.float64(n), delta = lease.float64(n);
+  const w = lease.float64(n), fy = lease.float64(n);
+  const M = lease.float64(n * n);
+  const piv = lease.int32(n);
+  const work = lease.float64(3 * (MAX_ORDER + 1) ** 2 + (MAX_ORDER + 1) * n);
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
   const jac = jacSrc.jac;
   const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
 

@@ -7,6 +7,7 @@ import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from
 import { isAdaptiveSetting, zeroCounts } from '../../core/types.js';
 import { allFinite, toleranceVector } from '../../core/vector.js';
 import { budgetStop } from '../budget.js';
+import { withLease, type WorkLease } from './work-lease.js';
 import { stopTimes } from '../stop-times.js';
 
 const EPS = 2.220446049250313e-16;
@@ -196,7 +197,7 @@ export function drive(problem: Problem, options: SolveOptions, stepper: Stepper,
 }
 
 /** What an adaptive implicit method builds once per solve; `drive` steps it. */
-export type StepperFactory = (problem: Problem, tol: Tolerances, counts: Counts) => Stepper & { f0: Float64Array };
+export type StepperFactory = (problem: Problem, tol: Tolerances, counts: Counts, lease: WorkLease) => Stepper & { f0: Float64Array };
 
 /**
  * The whole adaptive solve of a stepper-based method: validate, build the stepper, choose the
@@ -217,10 +218,13 @@ export function solveAdaptive(
   const requested = parseAdaptive(problem, setting, methodId);
   const tol = mapTolerances ? mapTolerances(requested) : requested;
   const counts = zeroCounts();
-  const stepper = createStepper(problem, tol, counts);
   const n = problem.dimension;
-  const h0 = options.initialStep ?? startingStep(problem, stepper.y, stepper.f0, order, tol, counts, new Float64Array(n), new Float64Array(n));
-  return drive(problem, options, stepper, h0, counts, methodId);
+  // The stepper's buffers come from a lease kept per method and state size (work-lease.ts).
+  return withLease(createStepper, n, (lease) => {
+    const stepper = createStepper(problem, tol, counts, lease);
+    const h0 = options.initialStep ?? startingStep(problem, stepper.y, stepper.f0, order, tol, counts, lease.float64(n), lease.float64(n));
+    return drive(problem, options, stepper, h0, counts, methodId);
+  });
 }
 
 export { zeroCounts, EPS };

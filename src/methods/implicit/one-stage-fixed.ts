@@ -8,10 +8,13 @@ import { zeroCounts } from '../../core/types.js';
 import { checkProblem, parseFixed } from './common.js';
 import { driveFixed } from './fixed-step.js';
 import { newtonBuffers, solveStage } from './theta-newton.js';
+import { withLease } from './work-lease.js';
 
 export type OneStageMeta = Omit<Method, 'solve' | 'family' | 'adaptive' | 'stiff'>;
 
 export function oneStageFixedMethod(meta: OneStageMeta, theta: 1 | 0.5): Method {
+  // Owner of this method's kept work buffers (work-lease.ts).
+  const owner = {};
   return {
     ...meta,
     family: 'implicit',
@@ -22,23 +25,25 @@ export function oneStageFixedMethod(meta: OneStageMeta, theta: 1 | 0.5): Method 
       const { steps } = parseFixed(problem, setting, meta.id);
       const n = problem.dimension;
       const counts = zeroCounts();
-      const y = Float64Array.from(problem.y0);
-      const fy = new Float64Array(n);
-      const jac = makeJacobianSource(problem.f, problem.jacobian, n, counts);
-      const buf = newtonBuffers(n);
-      return driveFixed(problem, options, y, steps, (t, h) => {
-        problem.f(t, y, fy);
-        counts.nfev++;
-        // Explicit Euler start value for the stage.
-        const th = theta * h;
-        for (let i = 0; i < n; i++) buf.z[i] = y[i]! + th * fy[i]!;
-        const msg = solveStage(problem.f, jac, t, y, fy, t + th, th, y, buf, n, counts);
-        if (msg === undefined) {
-          if (theta === 1) y.set(buf.z);
-          else for (let i = 0; i < n; i++) y[i] = 2 * buf.z[i]! - y[i]!;
-        }
-        return msg;
-      }, counts);
+      return withLease(owner, n, (lease) => {
+        const y = lease.copyOf(problem.y0);
+        const fy = lease.float64(n);
+        const jac = makeJacobianSource(problem.f, problem.jacobian, n, counts, (length) => lease.float64(length));
+        const buf = newtonBuffers(n, lease);
+        return driveFixed(problem, options, y, steps, (t, h) => {
+          problem.f(t, y, fy);
+          counts.nfev++;
+          // Explicit Euler start value for the stage.
+          const th = theta * h;
+          for (let i = 0; i < n; i++) buf.z[i] = y[i]! + th * fy[i]!;
+          const msg = solveStage(problem.f, jac, t, y, fy, t + th, th, y, buf, n, counts);
+          if (msg === undefined) {
+            if (theta === 1) y.set(buf.z);
+            else for (let i = 0; i < n; i++) y[i] = 2 * buf.z[i]! - y[i]!;
+          }
+          return msg;
+        }, counts);
+      });
     },
   };
 }

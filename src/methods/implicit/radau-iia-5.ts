@@ -9,6 +9,7 @@ import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/l
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
+import type { WorkLease } from './work-lease.js';
 import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
 
 /** Step-size safety factor and the bounds on h_new / h (1/FACL .. 1/FACR). */
@@ -46,25 +47,25 @@ function radauTolerances(tol: Tolerances): Tolerances {
   return { rtol, atol: tol.atol.map((a) => (a * rtol) / tol.rtol) };
 }
 
-function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
+function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease: WorkLease) {
   const { rtol, atol } = tol;
   const n = problem.dimension;
-  const proposal = new Float64Array(1);
+  const proposal = lease.float64(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
   // written to a closure variable, which would allocate on each step.
   const st = { hLU: NaN, hOld: 0, faccon: 1, theta: THET, hacc: 0, erracc: 0 };
   const f = problem.f;
-  const y = Float64Array.from(problem.y0);
-  const f0 = new Float64Array(n);
-  const z1 = new Float64Array(n), z2 = new Float64Array(n), z3 = new Float64Array(n);
-  const w1 = new Float64Array(n), w2 = new Float64Array(n), w3 = new Float64Array(n);
-  const g1 = new Float64Array(n), g2 = new Float64Array(n), g3 = new Float64Array(n);
-  const ytmp = new Float64Array(n), ftmp = new Float64Array(n);
-  const cont1 = new Float64Array(n), cont2 = new Float64Array(n), cont3 = new Float64Array(n);
-  const scal = new Float64Array(n);
-  const e1 = new Float64Array(n * n), e2r = new Float64Array(n * n), e2i = new Float64Array(n * n);
-  const piv1 = new Int32Array(n), piv2 = new Int32Array(n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts);
+  const y = lease.copyOf(problem.y0);
+  const f0 = lease.float64(n);
+  const z1 = lease.float64(n), z2 = lease.float64(n), z3 = lease.float64(n);
+  const w1 = lease.float64(n), w2 = lease.float64(n), w3 = lease.float64(n);
+  const g1 = lease.float64(n), g2 = lease.float64(n), g3 = lease.float64(n);
+  const ytmp = lease.float64(n), ftmp = lease.float64(n);
+  const cont1 = lease.float64(n), cont2 = lease.float64(n), cont3 = lease.float64(n);
+  const scal = lease.float64(n);
+  const e1 = lease.float64(n * n), e2r = lease.float64(n * n), e2i = lease.float64(n * n);
+  const piv1 = lease.int32(n), piv2 = lease.int32(n);
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
   const jac = jacSrc.jac;
   const fnewt = Math.max((10 * EPS) / rtol, KAPPA);
   const cfac = SAFE * (1 + 2 * NIT);

@@ -11,6 +11,7 @@ import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
+import type { WorkLease } from './work-lease.js';
 
 /** Coefficients of RODAS4 (Hairer & Wanner 1996, sec. IV.7), transformed form. */
 export const RODAS4 = {
@@ -46,23 +47,23 @@ const SAFE = 0.9;
 const FAC_DOWN = 5;
 const FAC_UP = 6;
 
-function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
+function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease: WorkLease) {
   const n = problem.dimension;
-  const proposal = new Float64Array(1);
+  const proposal = lease.float64(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
   // written to a closure variable, which would allocate on each step.
   const st = { tLast: NaN };
   const f = problem.f;
   const { rtol, atol } = tol;
-  const y = Float64Array.from(problem.y0);
-  const f0 = new Float64Array(n);
-  const ft = new Float64Array(n);
+  const y = lease.copyOf(problem.y0);
+  const f0 = lease.float64(n);
+  const ft = lease.float64(n);
   const u: Float64Array[] = [];
-  for (let s = 0; s < STAGES; s++) u.push(new Float64Array(n));
-  const ytmp = new Float64Array(n), ftmp = new Float64Array(n), ynew = new Float64Array(n);
-  const M = new Float64Array(n * n);
-  const piv = new Int32Array(n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts);
+  for (let s = 0; s < STAGES; s++) u.push(lease.float64(n));
+  const ytmp = lease.float64(n), ftmp = lease.float64(n), ynew = lease.float64(n);
+  const M = lease.float64(n * n);
+  const piv = lease.int32(n);
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
   const jac = jacSrc.jac;
   const { gamma, alpha, gammaSum, a, c, m } = RODAS4;
   let f0Valid = false;

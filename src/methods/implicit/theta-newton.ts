@@ -5,6 +5,7 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import type { JacobianSource } from '../../core/jacobian.js';
 import type { Counts, Rhs } from '../../core/types.js';
+import type { WorkLease } from './work-lease.js';
 
 const MAX_ITER = 25;
 const REL_TOL = 1e-14;
@@ -17,13 +18,13 @@ export interface NewtonBuffers {
   readonly piv: Int32Array;
 }
 
-export function newtonBuffers(n: number): NewtonBuffers {
+export function newtonBuffers(n: number, lease: WorkLease): NewtonBuffers {
   return {
-    z: new Float64Array(n),
-    fz: new Float64Array(n),
-    delta: new Float64Array(n),
-    m: new Float64Array(n * n),
-    piv: new Int32Array(n),
+    z: lease.float64(n),
+    fz: lease.float64(n),
+    delta: lease.float64(n),
+    m: lease.float64(n * n),
+    piv: lease.int32(n),
   };
 }
 

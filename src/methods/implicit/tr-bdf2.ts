@@ -33,6 +33,7 @@ import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
+import type { WorkLease } from './work-lease.js';
 
 const GAMMA = 2 - Math.SQRT2;
 const DIAG = GAMMA / 2;
@@ -68,22 +69,22 @@ export function trBdf2Tolerances(tol: Tolerances): Tolerances {
   return { rtol, atol: tol.atol.map((a) => a * ratio) };
 }
 
-function createStepper(problem: Problem, tol: Tolerances, counts: Counts) {
+function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease: WorkLease) {
   const n = problem.dimension;
-  const proposal = new Float64Array(1);
+  const proposal = lease.float64(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
   // written to a closure variable, which would allocate on each step.
   const st = { hLU: NaN, eta: 1 };
   const f = problem.f;
   const { rtol, atol } = tol;
-  const y = Float64Array.from(problem.y0);
-  const f1 = new Float64Array(n), f2 = new Float64Array(n), f3 = new Float64Array(n);
-  const z = new Float64Array(n), rhs = new Float64Array(n), delta = new Float64Array(n);
-  const fz = new Float64Array(n), scal = new Float64Array(n), est = new Float64Array(n);
-  const z3 = new Float64Array(n);
-  const M = new Float64Array(n * n);
-  const piv = new Int32Array(n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts);
+  const y = lease.copyOf(problem.y0);
+  const f1 = lease.float64(n), f2 = lease.float64(n), f3 = lease.float64(n);
+  const z = lease.float64(n), rhs = lease.float64(n), delta = lease.float64(n);
+  const fz = lease.float64(n), scal = lease.float64(n), est = lease.float64(n);
+  const z3 = lease.float64(n);
+  const M = lease.float64(n * n);
+  const piv = lease.int32(n);
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
   const jac = jacSrc.jac;
   const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
   let needJac = true;
