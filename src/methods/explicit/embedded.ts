@@ -1,8 +1,8 @@
 // The one engine for embedded explicit Runge-Kutta pairs: any compiled tableau with error weights.
 // Error estimate in the scaled RMS norm (HNW I, sec. II.4), the propagated solution is whatever
 // the tableau's b weights are (local extrapolation is a property of the data), FSAL reuse,
-// standard or PI control, exact landing on check times and tEnd. The work buffers are lent by
-// workspace.ts (kept between solves); the step loop allocates nothing.
+// standard or PI control, exact landing on check times and tEnd. The work buffers are kept between
+// solves (../work-lease.ts); the step loop allocates nothing.
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
@@ -20,8 +20,8 @@ import { finish } from './finish.js';
 import { genericStep } from './generic-step.js';
 import { stopTimes } from '../stop-times.js';
 import { budgetStop } from '../budget.js';
-import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, type StageKernel, type Tableau } from './tableau.js';
-import { withWork, type ExplicitWork } from './workspace.js';
+import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_SIZE, IO_T, IO_T_NEW, type StageKernel, type Tableau } from './tableau.js';
+import { withLease, type WorkLease } from '../work-lease.js';
 import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
 
 export { COMBINED_ERR3_WEIGHT } from './control.js';
@@ -60,11 +60,11 @@ export function solveEmbedded(
   const stops = stopTimes(options.checkTimes, t0, tEnd, methodId);
   // One step function per solve: the method's generated kernel, or the generic sweep.
   const step = tab.kernel !== null ? tab.kernel(n) : genericStep(tab, n);
-  return withWork(tab, n, problem.y0, (work) => stepAdaptively(work, tab, problem, options, onAccept, step, rtol, atol, stops));
+  return withLease(tab, n, (lease) => stepAdaptively(lease, tab, problem, options, onAccept, step, rtol, atol, stops));
 }
 
 function stepAdaptively(
-  work: ExplicitWork,
+  lease: WorkLease,
   tab: Tableau,
   problem: Problem,
   options: SolveOptions,
@@ -86,9 +86,12 @@ function stepAdaptively(
   const observer = options.observer;
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
-  const { K, kRow, yStage, io } = work;
-  let y = work.y;
-  let yNew = work.yNew;
+  const K = lease.float64(s * n);
+  const kRow = lease.rows(K, s, n);
+  let y = lease.copyOf(problem.y0);
+  let yNew = lease.float64(n);
+  const yStage = lease.float64(n);
+  const io = lease.float64(IO_SIZE);
   io[IO_RTOL] = rtol;
   const counts: Counts = zeroCounts();
 

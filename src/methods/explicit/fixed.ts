@@ -1,5 +1,5 @@
 // The one engine for fixed-step explicit Runge-Kutta methods: equal steps h = (tEnd - t0)/steps
-// over the span with any compiled tableau. Work buffers lent by workspace.ts. options.checkTimes
+// over the span with any compiled tableau. Work buffers kept between solves (../work-lease.ts). options.checkTimes
 // does not apply: the grid is fixed by the setting, and moving a step would change the method.
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
@@ -7,8 +7,8 @@ import { allFinite } from '../../core/vector.js';
 import { budgetStop } from '../budget.js';
 import { finish } from './finish.js';
 import type { FixedKernelFactory, FixedStepKernel } from './kernels/unrolled.js';
-import { IO_H, IO_T, type Tableau } from './tableau.js';
-import { withWork, type ExplicitWork } from './workspace.js';
+import { IO_H, IO_SIZE, IO_T, type Tableau } from './tableau.js';
+import { withLease, type WorkLease } from '../work-lease.js';
 import { checkOptions, checkProblem, fixedSteps } from './validate.js';
 
 export function solveFixed(
@@ -28,11 +28,11 @@ export function solveFixed(
   const h = (tEnd - t0) / steps;
   // The method's generated step when it has one (same arithmetic, straight-line code).
   const stepFn = kernel ? kernel(n) : null;
-  return withWork(tab, n, problem.y0, (work) => stepEqually(work, tab, problem, options, steps, h, stepFn));
+  return withLease(tab, n, (lease) => stepEqually(lease, tab, problem, options, steps, h, stepFn));
 }
 
 function stepEqually(
-  work: ExplicitWork,
+  lease: WorkLease,
   tab: Tableau,
   problem: Problem,
   options: SolveOptions,
@@ -50,7 +50,11 @@ function stepEqually(
   const observer = options.observer;
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
-  const { io, K, kRow, y, yStage } = work;
+  const io = lease.float64(IO_SIZE);
+  const K = lease.float64(s * n);
+  const kRow = lease.rows(K, s, n);
+  const y = lease.copyOf(problem.y0);
+  const yStage = lease.float64(n);
   const counts: Counts = zeroCounts();
   let status: Status = 'ok';
   let message: string | undefined;

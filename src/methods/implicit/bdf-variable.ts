@@ -9,7 +9,7 @@ import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { rescaleDifferences } from './bdf-rescale.js';
 import { EPS, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
-import type { WorkLease } from './work-lease.js';
+import type { WorkLease } from '../work-lease.js';
 
 const MAX_ORDER = 5;
 const NEWTON_MAXITER = 4;

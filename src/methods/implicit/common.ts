@@ -7,7 +7,7 @@ import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from
 import { isAdaptiveSetting, zeroCounts } from '../../core/types.js';
 import { allFinite, toleranceVector } from '../../core/vector.js';
 import { budgetStop } from '../budget.js';
-import { withLease, type WorkLease } from './work-lease.js';
+import { withLease, type WorkLease } from '../work-lease.js';
 import { stopTimes } from '../stop-times.js';
 
 const EPS = 2.220446049250313e-16;

@@ -8,7 +8,7 @@ import { zeroCounts } from '../../core/types.js';
 import { checkProblem, parseFixed } from './common.js';
 import { driveFixed } from './fixed-step.js';
 import { newtonBuffers, solveStage } from './theta-newton.js';
-import { withLease } from './work-lease.js';
+import { withLease } from '../work-lease.js';
 
 export type OneStageMeta = Omit<Method, 'solve' | 'family' | 'adaptive' | 'stiff'>;
 

@@ -9,7 +9,7 @@ import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/l
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
-import type { WorkLease } from './work-lease.js';
+import type { WorkLease } from '../work-lease.js';
 import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
 
 /** Step-size safety factor and the bounds on h_new / h (1/FACL .. 1/FACR). */

@@ -11,7 +11,7 @@ import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
-import type { WorkLease } from './work-lease.js';
+import type { WorkLease } from '../work-lease.js';
 
 /** Coefficients of RODAS4 (Hairer & Wanner 1996, sec. IV.7), transformed form. */
 export const RODAS4 = {

@@ -5,7 +5,7 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import type { JacobianSource } from '../../core/jacobian.js';
 import type { Counts, Rhs } from '../../core/types.js';
-import type { WorkLease } from './work-lease.js';
+import type { WorkLease } from '../work-lease.js';
 
 const MAX_ITER = 25;
 const REL_TOL = 1e-14;

@@ -33,7 +33,7 @@ import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
-import type { WorkLease } from './work-lease.js';
+import type { WorkLease } from '../work-lease.js';
 
 const GAMMA = 2 - Math.SQRT2;
 const DIAG = GAMMA / 2;

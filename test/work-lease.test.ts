@@ -1,21 +1,25 @@
-// Work buffers of the implicit steppers kept between solves (src/methods/implicit/work-lease.ts):
-// a kept lease must give bitwise the results of fresh buffers, a solve inside a solve must get
-// its own lease, and a solve whose model throws must release it. Properties of the engines, no
-// outside values needed.
+// Work buffers kept between solves (src/methods/work-lease.ts), for the explicit engines and the
+// implicit steppers: a kept lease must give bitwise the results of fresh buffers, a solve inside
+// a solve must get its own lease, and a solve whose model throws must release it. Properties of
+// the engines, no outside values needed.
 import { describe, expect, it } from 'vitest';
 import type { Method, Problem, SolveResult } from '../src/core/types.js';
+import { explicitMethods } from '../src/methods/explicit/index.js';
 import { implicitMethods } from '../src/methods/implicit/index.js';
-import { WorkLease, leaseFor, withLease } from '../src/methods/implicit/work-lease.js';
+import { WorkLease, leaseFor, withLease } from '../src/methods/work-lease.js';
+import { harmonicOscillator } from '../problems/harmonic-oscillator.js';
+import { keplerEccentric } from '../problems/kepler-eccentric.js';
 import { robertson } from '../problems/robertson.js';
 import { vanDerPolStiff } from '../problems/van-der-pol-stiff.js';
 
 const OPTS = { maxSteps: 100_000 };
 
 function solveOnce(m: Method, p: Problem): SolveResult {
+  if (m.family !== 'implicit') return m.solve(p, m.adaptive ? { rtol: 1e-9, atol: 1e-9 } : { steps: 4000 }, { ...OPTS, checkTimes: p.checkTimes });
   return m.solve(p, m.adaptive ? { rtol: 1e-6, atol: 1e-6 * 1e-6 } : { steps: 400 }, OPTS);
 }
 
-describe('implicit work leases', () => {
+describe('work leases', () => {
   it('hands out distinct zeroed arrays, the same ones again after a release', () => {
     const owner = {};
     const a = leaseFor(owner, 3);
@@ -40,6 +44,23 @@ describe('implicit work leases', () => {
     expect(new WorkLease().float64(2)).toHaveLength(2);
   });
 
+  it('keeps row views with their matrix', () => {
+    const owner = {};
+    const a = leaseFor(owner, 2);
+    const K = a.float64(6);
+    const rows = a.rows(K, 3, 2);
+    expect(rows.map((r) => [r.byteOffset, r.length])).toEqual([[0, 2], [16, 2], [32, 2]]);
+    expect(rows[2]!.buffer).toBe(K.buffer);
+    a.release();
+    const b = leaseFor(owner, 2);
+    expect(b.rows(b.float64(6), 3, 2)).toBe(rows);
+    b.release();
+    const c = leaseFor(owner, 2);
+    const other = c.float64(8);
+    expect(c.rows(other, 4, 2)).not.toBe(rows);
+    c.release();
+  });
+
   it('releases the lease when the solve using it throws', () => {
     const owner = {};
     let used: WorkLease | null = null;
@@ -54,6 +75,17 @@ describe('implicit work leases', () => {
     next.release();
   });
 
+  for (const m of explicitMethods) {
+    it(`${m.id}: a second solve on kept buffers is bitwise the first`, () => {
+      for (const p of [keplerEccentric, harmonicOscillator]) {
+        const first = solveOnce(m, p);
+        const again = solveOnce(m, p);
+        expect(again.counts).toEqual(first.counts);
+        expect([...again.yFinal]).toEqual([...first.yFinal]);
+      }
+    });
+  }
+
   for (const m of implicitMethods) {
     it(`${m.id}: a second solve on kept buffers is bitwise the first`, () => {
       for (const p of [robertson, vanDerPolStiff]) {
@@ -67,14 +99,15 @@ describe('implicit work leases', () => {
   }
 
   it('gives a solve inside a solve its own buffers, and takes them back from a throwing model', () => {
-    for (const m of implicitMethods) {
-      const alone = solveOnce(m, vanDerPolStiff);
+    const cases = [...explicitMethods.map((m) => [m, harmonicOscillator] as const), ...implicitMethods.map((m) => [m, vanDerPolStiff] as const)];
+    for (const [m, problem] of cases) {
+      const alone = solveOnce(m, problem);
       let inner: SolveResult | null = null;
       const nesting: Problem = {
-        ...vanDerPolStiff,
+        ...problem,
         f: (t, y, dy) => {
-          if (inner === null) inner = solveOnce(m, vanDerPolStiff);
-          vanDerPolStiff.f(t, y, dy);
+          if (inner === null) inner = solveOnce(m, problem);
+          problem.f(t, y, dy);
         },
       };
       const outer = solveOnce(m, nesting);
@@ -82,14 +115,14 @@ describe('implicit work leases', () => {
       expect([...inner!.yFinal]).toEqual([...alone.yFinal]);
       let calls = 0;
       const throwing: Problem = {
-        ...vanDerPolStiff,
+        ...problem,
         f: (t, y, dy) => {
           if (++calls === 40) throw new Error('model failed');
-          vanDerPolStiff.f(t, y, dy);
+          problem.f(t, y, dy);
         },
       };
       expect(() => solveOnce(m, throwing)).toThrow('model failed');
-      const after = solveOnce(m, vanDerPolStiff);
+      const after = solveOnce(m, problem);
       expect([...after.yFinal]).toEqual([...alone.yFinal]);
       expect(after.counts).toEqual(alone.counts);
     }
