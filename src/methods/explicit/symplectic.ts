@@ -6,6 +6,7 @@ import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
 import { budgetStop } from '../budget.js';
+import { withLease, type WorkLease } from '../work-lease.js';
 import { finish } from './finish.js';
 import { checkOptions, checkProblem, fixedSteps } from './validate.js';
 
@@ -55,7 +56,18 @@ export function solveVerletComposition(
   checkProblem(problem, methodId);
   checkOptions(options, methodId);
   const steps = fixedSteps(setting, methodId);
-  const { pos, vel } = splitOf(problem, methodId);
+  const split = splitOf(problem, methodId);
+  return withLease(weights, problem.dimension, (lease) => stepComposition(lease, weights, split, problem, options, steps));
+}
+
+function stepComposition(
+  lease: WorkLease,
+  weights: Float64Array,
+  { pos, vel }: { pos: Int32Array; vel: Int32Array },
+  problem: Problem,
+  options: SolveOptions,
+  steps: number,
+): SolveResult {
   const np = pos.length;
   const nv = vel.length;
   const n = problem.dimension;
@@ -68,9 +80,9 @@ export function solveVerletComposition(
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
 
-  const y = Float64Array.from(problem.y0);
-  const force = new Float64Array(n);
-  const drift = new Float64Array(n);
+  const y = lease.copyOf(problem.y0);
+  const force = lease.float64(n);
+  const drift = lease.float64(n);
   const counts: Counts = zeroCounts();
   let status: Status = 'ok';
   let message: string | undefined;
