@@ -75,20 +75,13 @@ describe('work leases', () => {
     next.release();
   });
 
-  for (const m of explicitMethods) {
+  const reuseCases = [
+    ...explicitMethods.map((m) => [m, [keplerEccentric, harmonicOscillator]] as const),
+    ...implicitMethods.map((m) => [m, [robertson, vanDerPolStiff]] as const),
+  ];
+  for (const [m, problems] of reuseCases) {
     it(`${m.id}: a second solve on kept buffers is bitwise the first`, () => {
-      for (const p of [keplerEccentric, harmonicOscillator]) {
-        const first = solveOnce(m, p);
-        const again = solveOnce(m, p);
-        expect(again.counts).toEqual(first.counts);
-        expect([...again.yFinal]).toEqual([...first.yFinal]);
-      }
-    });
-  }
-
-  for (const m of implicitMethods) {
-    it(`${m.id}: a second solve on kept buffers is bitwise the first`, () => {
-      for (const p of [robertson, vanDerPolStiff]) {
+      for (const p of problems) {
         const first = solveOnce(m, p);
         const again = solveOnce(m, p);
         expect(again.status).toBe(first.status);
