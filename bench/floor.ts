@@ -137,7 +137,7 @@ export function medianMs(fn: () => void, timeMs: number): { ms: number; samples:
   return { ms: r.latency.p50, samples: r.latency.samplesCount };
 }
 
-function median(xs: number[]): number {
+export function median(xs: number[]): number {
   const a = [...xs].sort((x, y) => x - y);
   const k = a.length >> 1;
   return a.length % 2 ? a[k]! : (a[k - 1]! + a[k]!) / 2;

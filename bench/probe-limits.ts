@@ -18,9 +18,9 @@ import { fileURLToPath } from 'node:url';
 import { dormandPrince54 } from '../src/methods/explicit/index.js';
 import { DORMAND_PRINCE_54 as DP } from '../src/methods/explicit/tableaus/dormand-prince-54.js';
 import { keplerEccentric } from '../problems/kepler-eccentric.js';
-import { denseLinearProblem } from './floor.js';
+import { denseLinearProblem, median, medianMs } from './floor.js';
 
-const a = DP.a.map((row) => row.slice());
+const a = DP.a;
 const [a21] = a[1]!;
 const [a31, a32] = a[2]!;
 const [a41, a42, a43] = a[3]!;
@@ -109,22 +109,10 @@ function scalarKepler(rtol: number, atol: number, tEnd: number, y0: readonly num
   return { nfev, x: x0 };
 }
 
-function medianOf(xs: number[]): number {
-  const s = [...xs].sort((p, q) => p - q);
-  return s[s.length >> 1]!;
-}
-
-/** Median ns per evaluation over rounds of `reps` solves. */
-function nsPerEval(solve: () => number, reps: number, rounds: number): number {
-  let nfev = 0;
-  for (let i = 0; i < 50; i++) nfev = solve();
-  const out: number[] = [];
-  for (let r = 0; r < rounds; r++) {
-    const t0 = performance.now();
-    for (let i = 0; i < reps; i++) solve();
-    out.push(((performance.now() - t0) * 1e6) / (reps * nfev));
-  }
-  return medianOf(out);
+/** Median ns per evaluation of one solve, timed the way the floor benchmark times (tinybench). */
+function nsPerEval(solve: () => number, timeMs: number): number {
+  const nfev = solve();
+  return (medianMs(() => void solve(), timeMs).ms * 1e6) / nfev;
 }
 
 const KEPLER = { ...keplerEccentric, checkTimes: [] };
@@ -134,9 +122,9 @@ const scalar = () => scalarKepler(1e-12, 1e-12, KEPLER.tEnd, KEPLER.y0, 1e-3).nf
 function kepler(): void {
   // Alternate, so a change in machine speed hits both alike.
   const rows: { product: number; scalar: number }[] = [];
-  for (let k = 0; k < 5; k++) rows.push({ product: nsPerEval(product, 20, 5), scalar: nsPerEval(scalar, 20, 5) });
-  const prod = medianOf(rows.map((r) => r.product));
-  const scal = medianOf(rows.map((r) => r.scalar));
+  for (let k = 0; k < 5; k++) rows.push({ product: nsPerEval(product, 200), scalar: nsPerEval(scalar, 200) });
+  const prod = median(rows.map((r) => r.product));
+  const scal = median(rows.map((r) => r.scalar));
   console.log(JSON.stringify({ probe: 'kepler', productNsPerEval: prod, scalarLocalsNsPerEval: scal, nfevProduct: product(), nfevScalar: scalar() }));
 }
 
@@ -155,6 +143,7 @@ function buffers(mode: 'constant' | 'variable'): void {
     for (let i = 0; i < calls; i++) f(i, held[pick[i & 1]!]!, held[1 + pick[i & 1]!]!);
   };
   const run = mode === 'constant' ? constant : variable;
+  // Fixed repetitions, not a time budget, so the instruction counts under callgrind repeat.
   for (let w = 0; w < 20; w++) run();
   const times: number[] = [];
   for (let r = 0; r < 15; r++) {
@@ -162,7 +151,7 @@ function buffers(mode: 'constant' | 'variable'): void {
     run();
     times.push(((performance.now() - t0) * 1e3) / calls);
   }
-  console.log(JSON.stringify({ probe: `buffers-${mode}`, microsecondsPerCall: medianOf(times) }));
+  console.log(JSON.stringify({ probe: `buffers-${mode}`, microsecondsPerCall: median(times) }));
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {

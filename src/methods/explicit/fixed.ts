@@ -1,6 +1,7 @@
 // The one engine for fixed-step explicit Runge-Kutta methods: equal steps h = (tEnd - t0)/steps
-// over the span with any compiled tableau. Work buffers kept between solves (../work-lease.ts). options.checkTimes
-// does not apply: the grid is fixed by the setting, and moving a step would change the method.
+// over the span with any compiled tableau, on work buffers kept between solves (../work-lease.ts).
+// options.checkTimes does not apply: the grid is fixed by the setting, and moving a step would
+// change the method.
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
