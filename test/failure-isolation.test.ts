@@ -129,6 +129,35 @@ describe('failure isolation in one sweep', () => {
     }
   });
 
+  // Without a run timeout a worker holds two runs at once; one that ends the worker's process
+  // must not fail the other. A method's runs go to one worker problem by problem, costliest
+  // first, so the 10-step harmonic-oscillator run is queued on the worker behind the 20-step one,
+  // which ends it.
+  it('a method that exits its worker: that run fails, every other run (even one queued behind it) is ok', async () => {
+    const { r, results } = await sweep([
+      '--problem', 'harmonic-oscillator,kepler-circular',
+      '-m', `${MODULES}/exits-mid-sweep.ts`,
+      '-s', '10,20,40',
+      '--jobs', '2',
+    ]);
+    expect(r.code, r.stderr).toBe(3);
+    expect(results.runs).toHaveLength(6);
+    const runs = byKey(results.runs);
+    for (const run of results.runs) {
+      if (run.problem === 'harmonic-oscillator' && 'steps' in run.setting && run.setting.steps === 20) {
+        expect(run.status).toBe('error');
+        expect(run.message).toContain('exited');
+        continue;
+      }
+      expect(run.status, `${key(run)}: ${run.message}`).toBe('ok');
+      const steps = 'steps' in run.setting ? run.setting.steps : NaN;
+      // Classical Runge-Kutta: 4 evaluations per step (Kutta 1901), exactly.
+      expect(run.counts).toEqual({ nfev: 4 * steps, njev: 0, nlu: 0, accepted: steps, rejected: 0 });
+    }
+    expect(runs.size).toBe(6);
+    expect(r.stdout).toContain('6 runs, 1 not ok (1 error).');
+  }, 60_000);
+
   it('a right-hand side that never returns: --run-timeout 2 --jobs 1 ends that run with timeout, the others finish', async () => {
     const { r, results } = await sweep([
       '--problem', `${MODULES}/hangs-mid-span.ts,harmonic-oscillator`,

@@ -1,8 +1,9 @@
-// How a parallel sweep deals its runs to workers: whole (problem, method) groups, costliest first
+// How a parallel sweep deals its runs to workers: whole methods, costliest first, idle lanes
+// taking the back half of another lane's claim
 // (property tests; the invariants are the definition of the schedule, common practice, no source).
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { affinityGroups } from '../src/sweep/pool.js';
+import { methodGroups, RunDealer } from '../src/sweep/dealer.js';
 import type { PlannedRun } from '../src/sweep/plan.js';
 
 const plannedArb = fc
@@ -17,32 +18,92 @@ const plannedArb = fc
   )
   .map((rows) => rows.map((r, planIndex): PlannedRun => ({ ...r, setting: { steps: planIndex + 1 }, planIndex })));
 
-describe('affinityGroups', () => {
-  it('holds every run exactly once, each group a single (problem, method)', () => {
+/** Deals every run, the lanes still asking taking turns in the order `turns` gives. */
+function dealAll(runs: readonly PlannedRun[], lanes: number, turns: readonly number[]): { lane: number; run: PlannedRun }[] {
+  const dealer = new RunDealer(runs, lanes);
+  const open = new Set(Array.from({ length: lanes }, (_, i) => i));
+  const dealt: { lane: number; run: PlannedRun }[] = [];
+  for (let k = 0; open.size > 0; k++) {
+    const asking = [...open];
+    const lane = asking[(turns.length ? turns[k % turns.length]! : k) % asking.length]!;
+    const run = dealer.next(lane);
+    if (run) dealt.push({ lane, run });
+    else open.delete(lane);
+  }
+  return dealt;
+}
+
+describe('methodGroups', () => {
+  it('holds every run exactly once, a group per method, problems contiguous, costliest first', () => {
     fc.assert(
       fc.property(plannedArb, (runs) => {
-        const groups = affinityGroups(runs);
+        const groups = methodGroups(runs);
         const seen = groups.flatMap((g) => g.runs.map((r) => r.planIndex)).sort((a, b) => a - b);
         expect(seen).toEqual(runs.map((r) => r.planIndex));
-        for (const g of groups) expect(new Set(g.runs.map((r) => `${r.problem}/${r.method}`)).size).toBe(1);
-        expect(new Set(groups.map((g) => `${g.runs[0]!.problem}/${g.runs[0]!.method}`)).size).toBe(groups.length);
+        expect(new Set(groups.map((g) => g.method)).size).toBe(groups.length);
+        for (let i = 1; i < groups.length; i++) expect(groups[i - 1]!.cost).toBeGreaterThanOrEqual(groups[i]!.cost);
+        for (const g of groups) {
+          for (const r of g.runs) expect(r.method).toBe(g.method);
+          expect(g.cost).toBeCloseTo(g.runs.reduce((s, r) => s + r.expectedCost, 0), 6);
+          // A problem's runs sit together, costliest first.
+          const order = g.runs.map((r) => r.problem).filter((p, i, a) => i === 0 || a[i - 1] !== p);
+          expect(new Set(order).size).toBe(order.length);
+          for (let i = 1; i < g.runs.length; i++) {
+            if (g.runs[i]!.problem === g.runs[i - 1]!.problem) expect(g.runs[i - 1]!.expectedCost).toBeGreaterThanOrEqual(g.runs[i]!.expectedCost);
+          }
+        }
+        const again = methodGroups([...runs].reverse());
+        expect(again.map((g) => g.runs.map((r) => r.planIndex))).toEqual(groups.map((g) => g.runs.map((r) => r.planIndex)));
+      }),
+    );
+  });
+});
+
+describe('RunDealer', () => {
+  it('deals every run exactly once whatever order the lanes ask in', () => {
+    fc.assert(
+      fc.property(plannedArb, fc.integer({ min: 1, max: 4 }), fc.array(fc.nat({ max: 7 }), { maxLength: 30 }), (runs, lanes, turns) => {
+        const dealt = dealAll(runs, lanes, turns);
+        expect(dealt.map((d) => d.run.planIndex).sort((a, b) => a - b)).toEqual(runs.map((r) => r.planIndex));
       }),
     );
   });
 
-  it('orders groups and the runs inside them costliest first, and the same input the same way', () => {
-    fc.assert(
-      fc.property(plannedArb, (runs) => {
-        const groups = affinityGroups(runs);
-        for (let i = 1; i < groups.length; i++) expect(groups[i - 1]!.cost).toBeGreaterThanOrEqual(groups[i]!.cost);
-        for (const g of groups) {
-          for (let i = 1; i < g.runs.length; i++) expect(g.runs[i - 1]!.expectedCost).toBeGreaterThanOrEqual(g.runs[i]!.expectedCost);
-          expect(g.cost).toBeCloseTo(g.runs.reduce((s, r) => s + r.expectedCost, 0), 6);
-        }
-        const again = affinityGroups([...runs].reverse());
-        expect(again.map((g) => g.runs.map((r) => r.planIndex))).toEqual(groups.map((g) => g.runs.map((r) => r.planIndex)));
-      }),
-    );
+  it('gives one lane a whole method while other methods are left to claim', () => {
+    const runs: PlannedRun[] = ['m1', 'm1', 'm1', 'm2', 'm2', 'm3'].map((method, planIndex) => ({
+      problem: 'a',
+      method,
+      setting: { steps: planIndex + 1 },
+      planIndex,
+      expectedCost: 10 - planIndex,
+    }));
+    const dealt = dealAll(runs, 2, [0, 1]);
+    const lanesOf = (m: string) => new Set(dealt.filter((d) => d.run.method === m).map((d) => d.lane));
+    expect(lanesOf('m1').size).toBe(1);
+    expect(lanesOf('m2').size).toBe(1);
+    expect([...lanesOf('m1')]).not.toEqual([...lanesOf('m2')]);
+  });
+
+  it('splits a single method over idle lanes, the idle lane taking the back half', () => {
+    const runs: PlannedRun[] = Array.from({ length: 8 }, (_, planIndex) => ({
+      problem: 'a',
+      method: 'm1',
+      setting: { rtol: 10 ** -(planIndex + 3) },
+      planIndex,
+      expectedCost: planIndex + 1,
+    }));
+    const dealer = new RunDealer(runs, 2);
+    // Lane 0 claims the group (costliest first: plan indices 7, 6, ..., 0); lane 1 then takes the
+    // back half (the smaller, when odd) of the seven lane 0 has left.
+    expect(dealer.next(0)!.planIndex).toBe(7);
+    expect([dealer.next(1), dealer.next(1), dealer.next(1)].map((r) => r!.planIndex)).toEqual([2, 1, 0]);
+    expect(dealer.next(0)!.planIndex).toBe(6);
+    // Lane 1 has run dry: of lane 0's remaining 5, 4, 3 it takes the last, then of 5, 4 the 4.
+    expect(dealer.next(1)!.planIndex).toBe(3);
+    expect(dealer.next(1)!.planIndex).toBe(4);
+    expect(dealer.next(0)!.planIndex).toBe(5);
+    expect(dealer.next(0)).toBeUndefined();
+    expect(dealer.next(1)).toBeUndefined();
   });
 });
 
