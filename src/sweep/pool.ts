@@ -1,12 +1,14 @@
-// Parallel execution on a tinypool pool, one run per task, at most `jobs` in flight so a run's
-// timeout clock starts when it really starts. A run past its timeout has its worker terminated and
-// replaced; the run is recorded with status `timeout` and the sweep goes on.
+// Parallel execution on tinypool workers, one run per task, one worker per lane; the dealer
+// (dealer.ts) decides which lane runs what. With a run timeout a worker holds one run at a time,
+// so a run's timeout clock starts when it really starts; a run past its timeout has its worker
+// terminated and replaced, the run is recorded with status `timeout` and the sweep goes on.
 //
 // The workers are tinypool's child processes started with V8's --single-threaded, not worker
 // threads. Every V8 process runs garbage collection and optimising compilation on background
 // threads; worker threads share one process's, and on a 2-core machine those threads take the
 // second core from the other worker. Measured on the catalogue sweep (bench/README.md): threads
-// gave 1.0-1.3x over --jobs 1, single-threaded child processes 1.4-1.8x.
+// gave 1.0-1.3x over --jobs 1, single-threaded child processes 1.4x, 1.56x with the dealer's
+// whole-method claims.
 import { existsSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -150,8 +152,8 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
 
   const dealer = new RunDealer(input.runs, laneCount);
   // Without a run timeout a lane keeps a second run queued on its worker, which starts it the
-  // moment the first is answered instead of a round trip later (about 0.6 ms a run, a tenth of the
-  // catalogue sweep). With a timeout one run at a time, so a run's clock starts when it does.
+  // moment the first is answered instead of a round trip later (a few percent of the catalogue
+  // sweep, whose runs take milliseconds). With a timeout one run at a time (see the header).
   const depth = options.runTimeoutSeconds ? 1 : LANE_DEPTH;
   // A worker that dies (a user module that exits or crashes the process) takes every run it
   // holds; with two held, the partner did nothing wrong, so lost runs are run again, alone, at the
