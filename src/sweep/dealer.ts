@@ -7,6 +7,7 @@
 // (or one method that outweighs the rest) still spreads over every lane, and an expected cost
 // that was badly wrong costs at most the tail of one claim.
 import type { PlannedRun } from './plan.js';
+import { costOf } from './shard.js';
 
 /** Runs of one method, problem by problem (costliest problem first), costliest run first within a problem. */
 export interface RunGroup {
@@ -15,11 +16,6 @@ export interface RunGroup {
   cost: number;
 }
 
-/** Unknown or nonsensical costs count as one unit, as in shard.ts. */
-function costOf(r: PlannedRun): number {
-  const c = r.expectedCost;
-  return Number.isFinite(c) && c >= 0 ? c : 1;
-}
 
 function byCostThenPlan<T extends { cost: number; first: number }>(a: T, b: T): number {
   return b.cost - a.cost || a.first - b.first;
@@ -53,11 +49,17 @@ export function methodGroups(runs: readonly PlannedRun[]): RunGroup[] {
  * Deals runs to `lanes` lanes on request. Single-threaded (the main process's event loop), so a
  * call is atomic; which lane runs what depends on timing, never what a run computes.
  */
+/** A lane's claim: runs[from..to) are still to be dealt. */
+interface Claim {
+  runs: PlannedRun[];
+  from: number;
+  to: number;
+}
+
 export class RunDealer {
   private readonly groups: RunGroup[];
   private nextGroup = 0;
-  /** Each lane's claim: runs[from..to) of its current group are still to do. */
-  private readonly claims: { runs: PlannedRun[]; from: number; to: number }[];
+  private readonly claims: Claim[];
 
   constructor(runs: readonly PlannedRun[], lanes: number) {
     this.groups = methodGroups(runs);
@@ -71,7 +73,7 @@ export class RunDealer {
     return claim.runs[claim.from++];
   }
 
-  private claimGroup(claim: { runs: PlannedRun[]; from: number; to: number }): boolean {
+  private claimGroup(claim: Claim): boolean {
     const group = this.groups[this.nextGroup];
     if (!group) return false;
     this.nextGroup++;
@@ -82,8 +84,8 @@ export class RunDealer {
   }
 
   /** Takes the back half of the claim with the most runs left (ties: the lowest lane). */
-  private stealFor(claim: { runs: PlannedRun[]; from: number; to: number }): boolean {
-    let victim: (typeof this.claims)[number] | undefined;
+  private stealFor(claim: Claim): boolean {
+    let victim: Claim | undefined;
     for (const c of this.claims) if (c !== claim && c.to - c.from >= 2 && (!victim || c.to - c.from > victim.to - victim.from)) victim = c;
     if (!victim) return false;
     const split = victim.from + Math.ceil((victim.to - victim.from) / 2);

@@ -23,7 +23,8 @@ export function parseShardSpec(spec: string, where = '--shard'): ShardSpec {
 
 type Keyed = { expectedCost?: number; planIndex?: number; problem?: string; method?: string; setting?: unknown };
 
-function costOf(r: { expectedCost?: number }): number {
+/** A run's expected cost for balancing; unknown or nonsensical costs count as one unit. */
+export function costOf(r: { expectedCost?: number }): number {
   const c = r.expectedCost;
   // Unknown or nonsensical costs count as one unit so they still spread evenly.
   return c !== undefined && Number.isFinite(c) && c >= 0 ? c : 1;
