@@ -23,10 +23,9 @@ export function parseShardSpec(spec: string, where = '--shard'): ShardSpec {
 
 type Keyed = { expectedCost?: number; planIndex?: number; problem?: string; method?: string; setting?: unknown };
 
-/** A run's expected cost for balancing; unknown or nonsensical costs count as one unit. */
+/** A run's expected cost for balancing; unknown or nonsensical costs count as one unit, so they still spread evenly. */
 export function costOf(r: { expectedCost?: number }): number {
   const c = r.expectedCost;
-  // Unknown or nonsensical costs count as one unit so they still spread evenly.
   return c !== undefined && Number.isFinite(c) && c >= 0 ? c : 1;
 }
 
