@@ -1,8 +1,31 @@
-// One sweep in a fresh process; prints { jobs, runs, seconds, peakRssMB } as the last line.
+// One sweep in a fresh process; prints { jobs, runs, seconds, peakRssMB, cpuSeconds } as the last line.
+import { readFileSync } from 'node:fs';
 import { runSweep } from '../src/sweep/run.js';
+
+/** Kernel clock ticks per second for /proc times (USER_HZ, 100 on Linux: common practice, no source). */
+const TICKS_PER_SECOND = 100;
+
+/**
+ * CPU seconds (user + system) used so far by this process and by its children that have ended and
+ * been waited for: the sweep's worker processes, once the pool has been destroyed. Linux /proc
+ * only; null elsewhere.
+ */
+function processTreeCpuSeconds(): number | null {
+  try {
+    const stat = readFileSync('/proc/self/stat', 'utf8');
+    // Fields after the command name, which is in parentheses and may contain spaces.
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    // utime, stime, cutime, cstime are fields 14-17 of proc(5); fields[0] here is field 3.
+    const ticks = [11, 12, 13, 14].reduce((sum, i) => sum + Number(fields[i]), 0);
+    return ticks / TICKS_PER_SECOND;
+  } catch {
+    return null;
+  }
+}
 
 const args = JSON.parse(process.argv[2] ?? '{}') as { jobs?: number; synthetic?: boolean };
 const jobs = args.jobs ?? 1;
+const cpuBefore = processTreeCpuSeconds();
 const started = performance.now();
 let runs = 0;
 if (args.synthetic) {
@@ -15,6 +38,8 @@ if (args.synthetic) {
   runs = results.runs.length;
 }
 const seconds = (performance.now() - started) / 1000;
-// maxRSS is in kilobytes and covers worker threads, which share the process.
+const cpuAfter = processTreeCpuSeconds();
+const cpuSeconds = cpuBefore !== null && cpuAfter !== null ? Math.round((cpuAfter - cpuBefore) * 100) / 100 : null;
+// maxRSS is in kilobytes and covers this process only (workers are child processes).
 const peakRssMB = process.resourceUsage().maxRSS / 1024;
-console.log(JSON.stringify({ jobs, runs, seconds, peakRssMB }));
+console.log(JSON.stringify({ jobs, runs, seconds, peakRssMB, cpuSeconds }));

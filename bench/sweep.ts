@@ -6,10 +6,16 @@
 // Parallel sweeps run their runs in worker processes, whose memory a process's own maxRSS does
 // not include; so resident memory is sampled from /proc for the sweep process and all its
 // descendants together, and the peak of that sum is reported (`peakTreeRssMB`).
+//
+// CPU time is reported beside wall time (`cpuSeconds`: the sweep process and its workers, from
+// /proc, so Linux only) with `coreUse` = CPU seconds / (wall seconds x cores): a parallel sweep at
+// coreUse near 1 can only get faster by doing less work, and a sequential one above 1 / cores is
+// being helped by V8's own background threads (optimising compiler, garbage collector).
 import { spawn } from 'node:child_process';
 import { readdirSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
+import { availableParallelism } from 'node:os';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const child = join(here, 'sweep-child.js');
@@ -25,6 +31,10 @@ export interface SweepBenchRow {
   peakRssMB: number;
   /** Peak of the summed resident memory of the sweep process and its workers (sampled). */
   peakTreeRssMB: number;
+  /** User + system CPU seconds of the sweep process and its workers during the sweep (null off Linux). */
+  cpuSeconds: number | null;
+  /** cpuSeconds / (seconds x available cores). */
+  coreUse: number | null;
 }
 
 /** Resident kilobytes of pid and every descendant, from /proc (0 for processes already gone). */
@@ -68,8 +78,9 @@ function measureSweep(name: string, args: Record<string, unknown>): Promise<Swee
     proc.on('close', (code) => {
       clearInterval(timer);
       if (code !== 0) return reject(new Error(`sweep child exited with ${code}`));
-      const row = JSON.parse(out.trim().split('\n').at(-1)!) as Omit<SweepBenchRow, 'name' | 'peakTreeRssMB'>;
-      resolve({ name, ...row, peakTreeRssMB: Math.max(peakKB / 1024, row.peakRssMB) });
+      const row = JSON.parse(out.trim().split('\n').at(-1)!) as Omit<SweepBenchRow, 'name' | 'peakTreeRssMB' | 'coreUse'>;
+      const coreUse = row.cpuSeconds === null ? null : Math.round((row.cpuSeconds / (row.seconds * availableParallelism())) * 100) / 100;
+      resolve({ name, ...row, peakTreeRssMB: Math.max(peakKB / 1024, row.peakRssMB), coreUse });
     });
   });
 }
