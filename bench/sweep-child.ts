@@ -7,8 +7,9 @@ const TICKS_PER_SECOND = 100;
 
 /**
  * CPU seconds (user + system) used so far by this process and by its children that have ended and
- * been waited for: the sweep's worker processes, once the pool has been destroyed. Linux /proc
- * only; null elsewhere.
+ * been waited for: the sweep's worker processes, once the pool has been destroyed (tinypool's
+ * destroy waits for each worker's exit, and Node reaps a child before reporting its exit). Linux
+ * /proc only; null elsewhere.
  */
 function processTreeCpuSeconds(): number | null {
   try {
