@@ -1,5 +1,5 @@
-// How a parallel sweep deals its runs to workers: whole methods, costliest first, idle lanes
-// taking the back half of another lane's claim
+// How a parallel sweep deals its runs to workers: whole methods, costliest first, each in plan
+// order, idle lanes taking the back half of another lane's claim
 // (property tests; the invariants are the definition of the schedule, common practice, no source).
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
@@ -34,7 +34,7 @@ function dealAll(runs: readonly PlannedRun[], lanes: number, turns: readonly num
 }
 
 describe('methodGroups', () => {
-  it('holds every run exactly once, a group per method, problems contiguous, costliest first', () => {
+  it('holds every run exactly once, a group per method, costliest first, problems contiguous, plan order within', () => {
     fc.assert(
       fc.property(plannedArb, (runs) => {
         const groups = methodGroups(runs);
@@ -45,11 +45,13 @@ describe('methodGroups', () => {
         for (const g of groups) {
           for (const r of g.runs) expect(r.method).toBe(g.method);
           expect(g.cost).toBeCloseTo(g.runs.reduce((s, r) => s + r.expectedCost, 0), 6);
-          // A problem's runs sit together, costliest first.
+          // A problem's runs sit together, problems in order of first appearance, runs in plan order.
           const order = g.runs.map((r) => r.problem).filter((p, i, a) => i === 0 || a[i - 1] !== p);
           expect(new Set(order).size).toBe(order.length);
+          const firstIndex = (p: string) => Math.min(...g.runs.filter((r) => r.problem === p).map((r) => r.planIndex));
+          for (let i = 1; i < order.length; i++) expect(firstIndex(order[i - 1]!)).toBeLessThan(firstIndex(order[i]!));
           for (let i = 1; i < g.runs.length; i++) {
-            if (g.runs[i]!.problem === g.runs[i - 1]!.problem) expect(g.runs[i - 1]!.expectedCost).toBeGreaterThanOrEqual(g.runs[i]!.expectedCost);
+            if (g.runs[i]!.problem === g.runs[i - 1]!.problem) expect(g.runs[i - 1]!.planIndex).toBeLessThan(g.runs[i]!.planIndex);
           }
         }
         const again = methodGroups([...runs].reverse());
@@ -93,15 +95,15 @@ describe('RunDealer', () => {
       expectedCost: planIndex + 1,
     }));
     const dealer = new RunDealer(runs, 2);
-    // Lane 0 claims the group (costliest first: plan indices 7, 6, ..., 0); lane 1 then takes the
-    // back half (the smaller, when odd) of the seven lane 0 has left.
-    expect(dealer.next(0)!.planIndex).toBe(7);
-    expect([dealer.next(1), dealer.next(1), dealer.next(1)].map((r) => r!.planIndex)).toEqual([2, 1, 0]);
-    expect(dealer.next(0)!.planIndex).toBe(6);
-    // Lane 1 has run dry: of lane 0's remaining 5, 4, 3 it takes the last, then of 5, 4 the 4.
-    expect(dealer.next(1)!.planIndex).toBe(3);
+    // Lane 0 claims the group (plan order: 0, 1, ..., 7); lane 1 then takes the back half (the
+    // smaller, when odd) of the seven lane 0 has left.
+    expect(dealer.next(0)!.planIndex).toBe(0);
+    expect([dealer.next(1), dealer.next(1), dealer.next(1)].map((r) => r!.planIndex)).toEqual([5, 6, 7]);
+    expect(dealer.next(0)!.planIndex).toBe(1);
+    // Lane 1 has run dry: of lane 0's remaining 2, 3, 4 it takes the last, then of 2, 3 the 3.
     expect(dealer.next(1)!.planIndex).toBe(4);
-    expect(dealer.next(0)!.planIndex).toBe(5);
+    expect(dealer.next(1)!.planIndex).toBe(3);
+    expect(dealer.next(0)!.planIndex).toBe(2);
     expect(dealer.next(0)).toBeUndefined();
     expect(dealer.next(1)).toBeUndefined();
   });

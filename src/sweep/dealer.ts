@@ -1,16 +1,21 @@
-// Which run a parallel sweep's worker (a lane) gets next. V8 compiles each method's step code and
-// each problem's right-hand side per process, and the catalogue's runs take milliseconds, so a
-// schedule that deals single runs, or even (problem, method) groups, pays most of that warm-up in
-// every worker (measured on the catalogue: the workers' summed run time fell from 6.7 to about
-// 5.9 s when they took whole methods; bench/README.md). A lane therefore claims a whole method's runs,
-// ordered problem by problem, costliest method first, and works through them. A lane that finds
-// nothing left to claim takes the back half of the largest remaining claim, so one method's sweep
-// (or one method that outweighs the rest) still spreads over every lane, and an expected cost
-// that was badly wrong costs at most the tail of one claim.
+// Which run a parallel sweep's worker (a lane) gets next, and the order a sweep on one process
+// runs in. V8 compiles each method's step code and each problem's right-hand side per process,
+// and the catalogue's runs take milliseconds, so a schedule that deals single runs, or even
+// (problem, method) groups, pays most of that warm-up in every worker (measured on the
+// catalogue: the workers' summed run time fell from 6.7 to about 5.9 s when they took whole
+// methods; bench/README.md). A lane therefore claims a whole method's runs, costliest method
+// first, and works through them in plan order: problem by problem, each problem's settings from
+// the loosest (cheapest) up. That order is measured too: in one process the catalogue's runs
+// took 5.7-5.95 s so against 6.4 s with each problem's costliest run first, the parallel sweep
+// 3.3-3.4 s against 3.85-3.9 s, and `--jobs 1`, which now runs in the same order, 5.4-5.5 s
+// against 5.8 s in plan order (which of V8's compilations and deoptimisations it saves was not
+// traced). A lane that finds nothing left to claim takes the back half of the largest remaining
+// claim, so one method's sweep (or one method that outweighs the rest) still spreads over every
+// lane, and an expected cost that was badly wrong costs at most the tail of one claim.
 import type { PlannedRun } from './plan.js';
 import { costOf } from './shard.js';
 
-/** Runs of one method, problem by problem (costliest problem first), costliest run first within a problem. */
+/** Runs of one method in plan order: problem by problem, each problem's settings as planned. */
 export interface RunGroup {
   method: string;
   runs: PlannedRun[];
@@ -21,28 +26,30 @@ function byCostThenPlan<T extends { cost: number; first: number }>(a: T, b: T): 
   return b.cost - a.cost || a.first - b.first;
 }
 
-/** The runs grouped by method, in the order a lane works through them; a pure function of the plan. */
+/** The runs grouped by method, costliest method first; a pure function of the plan. */
 export function methodGroups(runs: readonly PlannedRun[]): RunGroup[] {
-  const byMethod = new Map<string, Map<string, PlannedRun[]>>();
+  const byMethod = new Map<string, PlannedRun[]>();
   for (const r of runs) {
-    let problems = byMethod.get(r.method);
-    if (!problems) byMethod.set(r.method, (problems = new Map()));
-    const list = problems.get(r.problem);
+    const list = byMethod.get(r.method);
     if (list) list.push(r);
-    else problems.set(r.problem, [r]);
+    else byMethod.set(r.method, [r]);
   }
   const groups: (RunGroup & { first: number })[] = [];
-  for (const [method, problems] of byMethod) {
-    const parts = [...problems.values()].map((list) => {
-      list.sort((a, b) => costOf(b) - costOf(a) || a.planIndex - b.planIndex);
-      return { list, cost: list.reduce((s, r) => s + costOf(r), 0), first: list.reduce((m, r) => Math.min(m, r.planIndex), Infinity) };
-    });
-    parts.sort(byCostThenPlan);
-    const cost = parts.reduce((s, p) => s + p.cost, 0);
-    groups.push({ method, runs: parts.flatMap((p) => p.list), cost, first: parts.reduce((m, p) => Math.min(m, p.first), Infinity) });
+  for (const [method, list] of byMethod) {
+    // Problems in the order they first appear in the plan, each problem's runs in plan order:
+    // for a plan (problem-major) that is plain plan order.
+    const firstOf = new Map<string, number>();
+    for (const r of list) firstOf.set(r.problem, Math.min(firstOf.get(r.problem) ?? Infinity, r.planIndex));
+    list.sort((a, b) => firstOf.get(a.problem)! - firstOf.get(b.problem)! || a.planIndex - b.planIndex);
+    groups.push({ method, runs: list, cost: list.reduce((s, r) => s + costOf(r), 0), first: list[0]!.planIndex });
   }
   groups.sort(byCostThenPlan);
   return groups.map(({ method, runs: list, cost }) => ({ method, runs: list, cost }));
+}
+
+/** The order a sweep on one process runs in: the groups one after another (see the header). */
+export function executionOrder(runs: readonly PlannedRun[]): PlannedRun[] {
+  return methodGroups(runs).flatMap((g) => g.runs);
 }
 
 /** A lane's claim: runs[from..to) are still to be dealt. */

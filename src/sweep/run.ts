@@ -11,6 +11,7 @@ import { executeRun, type ExecuteOptions } from './execute.js';
 import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
 import { certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
+import { executionOrder } from './dealer.js';
 import { selectShard } from './shard.js';
 import type { TimingOptions } from '../measure/timing.js';
 
@@ -164,7 +165,7 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
           options,
           ...(uncertified ? { uncertified } : {}),
         })
-      : await executePlan(todo, problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
+      : await executePlan(executionOrder(todo), problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
   const wanted = new Set(selected.map((s) => s.planIndex));
   const runs = [...done.values(), ...fresh].filter((r) => wanted.has(r.planIndex ?? -1));
   // User models are code: with a run timeout, their stiffness ratio is computed under it too.
