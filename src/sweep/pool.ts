@@ -8,7 +8,8 @@
 // threads; worker threads share one process's, and on a 2-core machine those threads take the
 // second core from the other worker. Measured on the catalogue sweep (bench/README.md): threads
 // gave 1.0-1.3x over --jobs 1, single-threaded child processes 1.4x, 1.56-1.60x with the
-// dealer's whole-method claims (both cores 98% busy: the bench README says what bounds it).
+// dealer's whole-method claims, 1.62-1.69x with each method's runs in plan order (both cores
+// 98% busy: the bench README says what bounds it).
 import { existsSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
