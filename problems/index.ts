@@ -1,5 +1,7 @@
-// The built-in catalogue: one file per problem, one line here per problem.
+// The built-in catalogue: one file per problem, one line here per problem. Each is held in the
+// one object layout every solved problem has (src/problems/uniform.ts).
 import type { Problem } from '../src/core/types.js';
+import { uniformProblem } from '../src/problems/uniform.js';
 import { harmonicOscillator } from './harmonic-oscillator.js';
 import { keplerCircular } from './kepler-circular.js';
 import { keplerEccentric } from './kepler-eccentric.js';
@@ -16,18 +18,8 @@ export const catalogue: Problem[] = [
   vanDerPolStiff,
   robertson,
   linearOscillatorChain,
-];
+].map(uniformProblem);
 
 export function findProblem(id: string): Problem | undefined {
   return catalogue.find((p) => p.id === id);
 }
-
-export {
-  harmonicOscillator,
-  keplerCircular,
-  keplerEccentric,
-  vanDerPol,
-  vanDerPolStiff,
-  robertson,
-  linearOscillatorChain,
-};

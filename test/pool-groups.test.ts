@@ -123,3 +123,73 @@ describe('planned cost of a method that maps its tolerance', () => {
     expect(Math.log10(cost('dormand-prince-54', 1e-8) / cost('dormand-prince-54', 1e-6)) / 2).toBeCloseTo(1 / 6, 12);
   });
 });
+
+describe('RunDealer batches', () => {
+  // Batches: a lane takes up to `max` runs of its claim at once, and its worker may hand back the
+  // ones it did not start (executeOnPool). The invariant is the schedule's definition (common
+  // practice, no source): every run is finished exactly once, whatever is handed back.
+  it('finishes every run exactly once when lanes take batches and hand back unstarted runs', () => {
+    fc.assert(
+      fc.property(
+        plannedArb,
+        fc.integer({ min: 1, max: 3 }),
+        fc.array(fc.record({ lane: fc.nat({ max: 2 }), max: fc.integer({ min: 1, max: 5 }), started: fc.nat({ max: 5 }) }), { maxLength: 60 }),
+        (runs, lanes, script) => {
+          const dealer = new RunDealer(runs, lanes);
+          const finished: number[] = [];
+          const open = new Set(Array.from({ length: lanes }, (_, i) => i));
+          for (let k = 0; open.size > 0; k++) {
+            const step = script.length ? script[k % script.length]! : { lane: k, max: 2, started: 1 };
+            const lane = [...open][step.lane % open.size]!;
+            const batch = dealer.take(lane, step.max);
+            if (batch.length === 0) {
+              open.delete(lane);
+              continue;
+            }
+            expect(batch.length).toBeLessThanOrEqual(step.max);
+            // A worker always starts the first run of a batch.
+            const started = Math.max(1, Math.min(batch.length, step.started));
+            finished.push(...batch.slice(0, started).map((r) => r.planIndex));
+            dealer.giveBack(lane, batch.slice(started));
+          }
+          expect(finished.sort((a, b) => a - b)).toEqual(runs.map((r) => r.planIndex));
+        },
+      ),
+    );
+  });
+
+  it('keeps a batch within one claim and hands back to the front of it', () => {
+    const runs: PlannedRun[] = ['m1', 'm1', 'm1', 'm1', 'm2', 'm2'].map((method, planIndex) => ({
+      problem: 'a',
+      method,
+      setting: { steps: planIndex + 1 },
+      planIndex,
+      expectedCost: 10 - planIndex,
+    }));
+    const dealer = new RunDealer(runs, 1);
+    // m1 is the costlier method, claimed first; a batch of 8 stops at the end of its claim.
+    expect(dealer.take(0, 8).map((r) => r.planIndex)).toEqual([0, 1, 2, 3]);
+    dealer.giveBack(0, [runs[2]!, runs[3]!]);
+    expect(dealer.take(0, 1).map((r) => r.planIndex)).toEqual([2]);
+    expect(dealer.take(0, 8).map((r) => r.planIndex)).toEqual([3]);
+    expect(dealer.take(0, 8).map((r) => r.planIndex)).toEqual([4, 5]);
+    expect(dealer.take(0, 8)).toEqual([]);
+  });
+
+  it('lets an idle lane steal runs another lane handed back', () => {
+    const runs: PlannedRun[] = Array.from({ length: 6 }, (_, planIndex) => ({
+      problem: 'a',
+      method: 'm1',
+      setting: { steps: planIndex + 1 },
+      planIndex,
+      expectedCost: 1,
+    }));
+    const dealer = new RunDealer(runs, 2);
+    const batch = dealer.take(0, 6);
+    expect(batch.map((r) => r.planIndex)).toEqual([0, 1, 2, 3, 4, 5]);
+    dealer.giveBack(0, batch.slice(1));
+    // Lane 1 has nothing of its own: it takes the back half of the five handed back.
+    expect(dealer.take(1, 6).map((r) => r.planIndex)).toEqual([4, 5]);
+    expect(dealer.take(0, 6).map((r) => r.planIndex)).toEqual([1, 2, 3]);
+  });
+});

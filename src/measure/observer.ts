@@ -22,17 +22,48 @@ export interface RunWatch {
   comparedPoints(): number;
 }
 
+/**
+ * A growing list of numbers in a Float64Array. A plain array that starts with an integer such
+ * as t0 = 0 changes its element kind at the first fraction, which throws away the observer's
+ * optimised code (a deoptimisation per run).
+ */
+class NumberLog {
+  private data = new Float64Array(64);
+  length = 0;
+
+  push(v: number): void {
+    if (this.length === this.data.length) {
+      const grown = new Float64Array(this.data.length * 2);
+      grown.set(this.data);
+      this.data = grown;
+    }
+    this.data[this.length++] = v;
+  }
+
+  toArray(): number[] {
+    return Array.from(this.data.subarray(0, this.length));
+  }
+}
+
 export function watchRun(problem: Problem): RunWatch {
   const n = problem.dimension;
   const lookup = referenceLookup(problem);
+  const referenceAt = lookup.at;
   const meter = errorMeter(problem);
   const ref = new Float64Array(n);
   const invariants = problem.invariants;
-  const initial = new Float64Array(invariants.length);
-  const worstDrift = new Float64Array(invariants.length);
-  const traceT: number[] = [];
-  const traceD: number[][] = invariants.map(() => []);
-  const span = problem.tEnd - problem.t0;
+  const invariantFns = invariants.map((inv) => inv.fn);
+  const invariantCount = invariants.length;
+  const initial = new Float64Array(invariantCount);
+  const worstDrift = new Float64Array(invariantCount);
+  const traceT = new NumberLog();
+  const traceD = invariants.map(() => new NumberLog());
+  // The closure reads these locals, never the problem: problems from different sources are
+  // different objects to V8, and a hot closure that reads fields of many kinds of object is
+  // compiled again for each.
+  const t0 = problem.t0;
+  const tEnd = problem.tEnd;
+  const span = tEnd - t0;
   let lastBucket = -1;
   let started = false;
   let worstError = -1;
@@ -46,31 +77,31 @@ export function watchRun(problem: Problem): RunWatch {
 
   const observer = (t: number, y: Float64Array): void => {
     if (!started) {
-      for (let k = 0; k < invariants.length; k++) initial[k] = invariants[k]!.fn(t, y);
+      for (let k = 0; k < invariantCount; k++) initial[k] = invariantFns[k]!(t, y);
       started = true;
     }
     let compare = true;
     if (analytic) {
-      const bucket = Math.floor(((t - problem.t0) / span) * ERROR_BUCKETS);
-      compare = bucket > lastErrorBucket || checks.has(t) || t === problem.tEnd;
+      const bucket = Math.floor(((t - t0) / span) * ERROR_BUCKETS);
+      compare = bucket > lastErrorBucket || checks.has(t) || t === tEnd;
       if (compare) lastErrorBucket = bucket;
     }
-    if (compare && lookup.at(t, ref)) {
+    if (compare && referenceAt(t, ref)) {
       const e = meter(t, y, ref);
       compared++;
       if (worstError === worstError && (e > worstError || e !== e)) worstError = e; // NaN, once seen, stays
     }
-    if (invariants.length === 0) return;
-    const bucket = Math.floor(((t - problem.t0) / span) * TRACE_BUCKETS);
-    const record = bucket > lastBucket || t === problem.tEnd;
+    if (invariantCount === 0) return;
+    const bucket = Math.floor(((t - t0) / span) * TRACE_BUCKETS);
+    const record = bucket > lastBucket || t === tEnd;
     if (record) {
       lastBucket = bucket;
       traceT.push(t);
     }
-    for (let k = 0; k < invariants.length; k++) {
+    for (let k = 0; k < invariantCount; k++) {
       const i0 = initial[k]!;
       const denom = Math.abs(i0) > TINY_INVARIANT ? Math.abs(i0) : 1;
-      const d = Math.abs(invariants[k]!.fn(t, y) - i0) / denom;
+      const d = Math.abs(invariantFns[k]!(t, y) - i0) / denom;
       const was = worstDrift[k]!;
       if (was === was && (d > was || d !== d)) worstDrift[k] = d; // NaN, once seen, stays
       if (record) traceD[k]!.push(d);
@@ -87,10 +118,10 @@ export function watchRun(problem: Problem): RunWatch {
       return out;
     },
     trace() {
-      if (invariants.length === 0) return undefined;
+      if (invariantCount === 0) return undefined;
       const drift: Record<string, number[]> = {};
-      invariants.forEach((inv, k) => (drift[inv.name] = traceD[k]!));
-      return { t: traceT, drift };
+      invariants.forEach((inv, k) => (drift[inv.name] = traceD[k]!.toArray()));
+      return { t: traceT.toArray(), drift };
     },
   };
 }

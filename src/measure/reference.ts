@@ -22,8 +22,8 @@ export function referenceLookup(problem: Problem): ReferenceLookup {
   // would take a step ending at 39.95 for the reference at 40.
   const matches = (a: number, b: number) => a === b || Math.abs(a - b) <= TIME_MATCH * Math.max(Math.abs(a), Math.abs(b));
   let cursor = 0;
+  // Both kinds of lookup list their fields in the same order: one object layout for the observer.
   return {
-    tabulatedTimes: points.map((p) => p.t),
     at(t, out) {
       // Observers ask in increasing time, so a moving cursor makes the search O(1) amortised.
       if (cursor >= points.length || (points[cursor]!.t > t && !matches(points[cursor]!.t, t))) cursor = 0;
@@ -33,5 +33,6 @@ export function referenceLookup(problem: Problem): ReferenceLookup {
       for (let i = 0; i < p.y.length; i++) out[i] = p.y[i]!;
       return true;
     },
+    tabulatedTimes: points.map((p) => p.t),
   };
 }

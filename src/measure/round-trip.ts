@@ -4,12 +4,13 @@
 import type { Method, Problem, Setting } from '../core/types.js';
 import { scaleFloors, scaledMaxError } from './error-norm.js';
 import type { RunOptions } from './run-one.js';
+import { uniformProblem } from '../problems/uniform.js';
 
 /** The same dynamics run backwards in time: s = tEnd - t, so y' = -f(tEnd - s, y). */
 export function reversedProblem(problem: Problem, yEnd: ArrayLike<number>): Problem {
   const { f, jacobian, tEnd, dimension: n } = problem;
   const span = tEnd - problem.t0;
-  const back: Problem = {
+  return uniformProblem({
     ...problem,
     id: `${problem.id}-reversed`,
     t0: 0,
@@ -19,21 +20,16 @@ export function reversedProblem(problem: Problem, yEnd: ArrayLike<number>): Prob
       f(tEnd - s, y, dy);
       for (let i = 0; i < n; i++) dy[i] = -dy[i]!;
     },
+    jacobian: jacobian
+      ? (s, y, jac) => {
+          jacobian(tEnd - s, y, jac);
+          for (let i = 0; i < n * n; i++) jac[i] = -jac[i]!;
+        }
+      : undefined,
     checkTimes: [],
     invariants: [],
     reference: { kind: 'exact', exact: undefined },
-  };
-  if (jacobian) {
-    return {
-      ...back,
-      jacobian: (s, y, jac) => {
-        jacobian(tEnd - s, y, jac);
-        for (let i = 0; i < n * n; i++) jac[i] = -jac[i]!;
-      },
-    };
-  }
-  const { jacobian: _drop, ...withoutJacobian } = back;
-  return withoutJacobian;
+  });
 }
 
 export function roundTripError(problem: Problem, method: Method, setting: Setting, yEnd: ArrayLike<number>, options: RunOptions): number | null {
@@ -41,5 +37,5 @@ export function roundTripError(problem: Problem, method: Method, setting: Settin
   const back = reversedProblem(problem, yEnd);
   const r = method.solve(back, setting, { maxSteps: options.maxSteps, ...(options.controller ? { controller: options.controller } : {}) });
   if (r.status !== 'ok') return null;
-  return scaledMaxError(r.yFinal, problem.y0, scaleFloors(problem.errorScale, problem.dimension), problem.dimension);
+  return scaledMaxError(r.yFinal, Float64Array.from(problem.y0), scaleFloors(problem.errorScale, problem.dimension), problem.dimension);
 }

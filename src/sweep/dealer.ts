@@ -80,6 +80,33 @@ export class RunDealer {
     return claim.runs[claim.from++];
   }
 
+  /**
+   * Up to `max` runs for `lane` to send together: the next run as `next` deals it, then the
+   * following runs of the same claim (never a new claim or a steal). Empty when all are dealt.
+   */
+  take(lane: number, max: number): PlannedRun[] {
+    const first = this.next(lane);
+    if (!first) return [];
+    const claim = this.claims[lane]!;
+    const end = Math.min(claim.to, claim.from + Math.max(0, max - 1));
+    const out = [first, ...claim.runs.slice(claim.from, end)];
+    claim.from = end;
+    return out;
+  }
+
+  /**
+   * Runs dealt to `lane` but not started (a batch its worker stopped early) go back to the front
+   * of its claim, in order, where the lane takes them next and an idle lane can still steal them.
+   */
+  giveBack(lane: number, runs: readonly PlannedRun[]): void {
+    if (runs.length === 0) return;
+    const claim = this.claims[lane]!;
+    // A copy: a steal may share the old array with another lane's claim.
+    claim.runs = [...runs, ...claim.runs.slice(claim.from, claim.to)];
+    claim.from = 0;
+    claim.to = claim.runs.length;
+  }
+
   private claimGroup(claim: Claim): boolean {
     const group = this.groups[this.nextGroup];
     if (!group) return false;

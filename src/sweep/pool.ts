@@ -1,6 +1,7 @@
-// Parallel execution on tinypool workers, one run per task, one worker per lane; the dealer
-// (dealer.ts) decides which lane runs what. With a run timeout a worker holds one run at a time,
-// so a run's timeout clock starts when it really starts; a run past its timeout has its worker
+// Parallel execution on tinypool workers, one worker per lane; the dealer (dealer.ts) decides
+// which lane runs what. Without a run timeout short runs travel several to a message (see
+// BATCH_MAX_RUNS). With a run timeout a worker holds one run at a time, one run to a message, so
+// a run's timeout clock starts when it really starts; a run past its timeout has its worker
 // terminated and replaced, the run is recorded with status `timeout` and the sweep goes on.
 //
 // The workers are tinypool's child processes started with V8's --single-threaded, not worker
@@ -8,8 +9,9 @@
 // threads; worker threads share one process's, and on a 2-core machine those threads take the
 // second core from the other worker. Measured on the catalogue sweep (bench/README.md): threads
 // gave 1.0-1.3x over --jobs 1, single-threaded child processes 1.4x, 1.56-1.60x with the
-// dealer's whole-method claims, 1.62-1.69x with each method's runs in plan order (both cores
-// 98% busy: the bench README says what bounds it).
+// dealer's whole-method claims, 1.62-1.69x with each method's runs in plan order, 1.73-1.82x
+// with short runs batched and every problem in one object layout (src/problems/uniform.ts), which
+// saved a quarter of the compile time the workers spend on the cores the runs need.
 import { existsSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -20,14 +22,25 @@ import { messageOf } from '../core/errors.js';
 import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
 import type { SweepOptions } from './run.js';
-import type { CertifyTask, StiffnessTask, WorkerTask } from './worker.js';
+import type { BatchAnswer, BatchTask, CertifyTask, StiffnessTask, WorkerTask } from './worker.js';
 import { RunDealer } from './dealer.js';
 
 /** Extra seconds a worker gets past the solver's own deadline before it is terminated. */
 const TERMINATE_GRACE_SECONDS = 2;
 
-/** Runs a lane keeps on its worker at once when no run timeout is set (see executeOnPool). */
+/** Messages a lane keeps on its worker at once when no run timeout is set (see executeOnPool). */
 const LANE_DEPTH = 2;
+
+/**
+ * Without a run timeout a message carries up to BATCH_MAX_RUNS runs, and its worker starts no
+ * further run of it once BATCH_BUDGET_MS have passed, answering the rest as not started: a long
+ * run still goes about alone, a short one travels with its neighbours. Each message costs the
+ * two processes about 1 ms of CPU time on the cores the runs need, against a median catalogue
+ * run of a few milliseconds (bench/README.md); the budget keeps the last messages of a sweep
+ * short, so no lane waits long for another at the end.
+ */
+const BATCH_MAX_RUNS = 8;
+const BATCH_BUDGET_MS = 20;
 
 /** The compiled worker: workers cannot load TypeScript, so tests running from src use dist. */
 function workerFile(): string {
@@ -120,8 +133,7 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
   // Callbacks stay here; workers get only the serialisable run options.
   const { onRun, shouldStop, ...taskOptions } = options;
 
-  /** One run; `lost` when its worker failed under it (the run answered nothing, not even an error). */
-  const one = async (pool: Tinypool, planned: PlannedRun): Promise<{ run: RunResult; lost: boolean }> => {
+  const workerTask = (planned: PlannedRun): WorkerTask => {
     const task: WorkerTask = {
       planned,
       problemEntry: input.problemEntries.get(planned.problem) ?? planned.problem,
@@ -130,19 +142,38 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
     };
     const uncertified = input.uncertified?.get(task.problemEntry);
     if (uncertified !== undefined) task.uncertified = uncertified;
+    return task;
+  };
+  const failedAs = (planned: PlannedRun, message: string): RunResult => {
+    const run = failedRun(input.problems.get(planned.problem)!, { id: planned.method }, planned.setting, message);
+    run.planIndex = planned.planIndex;
+    return run;
+  };
+
+  /**
+   * Sends a batch in one message: the runs its worker did (failed ones included) and the runs it
+   * did not start; `lost` when the worker failed under it (it answered nothing, not even an error).
+   */
+  const send = async (pool: Tinypool, batch: readonly PlannedRun[]): Promise<{ runs: RunResult[]; notStarted: PlannedRun[]; lost: boolean }> => {
     const limit = options.runTimeoutSeconds;
     // Timing repeats the solve, so the hard limit allows for the timing budget as well.
     const hard = limit ? (limit + (options.timing?.budgetSeconds ?? 0) * 2 + TERMINATE_GRACE_SECONDS) * 1000 : 0;
+    const task: BatchTask = { kind: 'batch', runs: batch.map(workerTask), budgetMs: BATCH_BUDGET_MS };
     const outcome = await runLimited(pool, task, hard);
-    if (outcome.ok) return { run: flattenNumberArrays(outcome.value as RunResult), lost: false };
-    const problem = input.problems.get(planned.problem)!;
-    const run = failedRun(problem, { id: planned.method }, planned.setting, messageOf(outcome.error));
-    if (outcome.timedOut) {
-      run.status = 'timeout';
-      run.message = `run exceeded --run-timeout ${limit} s and its worker was terminated`;
+    if (outcome.ok) {
+      const { results } = outcome.value as BatchAnswer;
+      const runs = results.map((result, k) => ('thrown' in result ? failedAs(batch[k]!, result.thrown) : flattenNumberArrays(result)));
+      return { runs, notStarted: batch.slice(results.length), lost: false };
     }
-    run.planIndex = planned.planIndex;
-    return { run, lost: !outcome.timedOut };
+    const runs = batch.map((planned) => {
+      const run = failedAs(planned, messageOf(outcome.error));
+      if (outcome.timedOut) {
+        run.status = 'timeout';
+        run.message = `run exceeded --run-timeout ${limit} s and its worker was terminated`;
+      }
+      return run;
+    });
+    return { runs, notStarted: [], lost: !outcome.timedOut };
   };
 
   const record = (run: RunResult): void => {
@@ -152,20 +183,22 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
   };
 
   const dealer = new RunDealer(input.runs, laneCount);
-  // Without a run timeout a lane keeps a second run queued on its worker, which starts it the
-  // moment the first is answered instead of a round trip later (a few percent of the catalogue
-  // sweep, whose runs take milliseconds). With a timeout one run at a time (see the header).
+  // Without a run timeout a lane keeps a second message queued on its worker, which starts it
+  // the moment the first is answered instead of a round trip later, and short runs travel
+  // together (BATCH_MAX_RUNS). With a timeout one run at a time (see the header).
   const depth = options.runTimeoutSeconds ? 1 : LANE_DEPTH;
+  const batchSize = options.runTimeoutSeconds ? 1 : BATCH_MAX_RUNS;
   // A worker that dies (a user module that exits or crashes the process) takes every run it
-  // holds; with two held, the partner did nothing wrong, so lost runs are run again, alone, at the
-  // end, and only what fails alone is recorded as failed.
+  // holds; with several held, the others did nothing wrong, so lost runs are run again, alone, at
+  // the end, and only what fails alone is recorded as failed.
   const lost: PlannedRun[] = [];
   const feed = async (pool: Tinypool, laneIndex: number): Promise<void> => {
-    for (let planned = dealer.next(laneIndex); planned; planned = dealer.next(laneIndex)) {
+    for (let batch = dealer.take(laneIndex, batchSize); batch.length > 0; batch = dealer.take(laneIndex, batchSize)) {
       if (shouldStop?.()) return;
-      const answer = await one(pool, planned);
-      if (answer.lost && depth > 1) lost.push(planned);
-      else record(answer.run);
+      const answer = await send(pool, batch);
+      if (answer.lost && (depth > 1 || batch.length > 1)) lost.push(...batch);
+      else answer.runs.forEach(record);
+      dealer.giveBack(laneIndex, answer.notStarted);
     }
   };
   const lane = (pool: Tinypool, laneIndex: number): Promise<unknown> =>
@@ -175,7 +208,7 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
     lost.sort((a, b) => a.planIndex - b.planIndex);
     for (const planned of lost) {
       if (shouldStop?.()) break;
-      record((await one(pools[0]!, planned)).run);
+      (await send(pools[0]!, [planned])).runs.forEach(record);
     }
   } finally {
     await Promise.all(pools.map((p) => p.destroy()));

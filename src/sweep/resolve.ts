@@ -5,6 +5,7 @@ import { InputError } from '../core/errors.js';
 import { builtinMethods } from '../methods/registry.js';
 import { catalogue } from '../../problems/index.js';
 import { withCertifiedReference, withoutReference } from '../measure/certify.js';
+import { uniformProblem } from '../problems/uniform.js';
 
 /** The file entries of a comma list (built-in ids left out). */
 export function fileEntries(list: string | undefined): string[] {
@@ -88,7 +89,7 @@ export async function resolveProblems(
       const skipped = uncertified?.get(resolvePath(entry));
       const p = skipped !== undefined ? withoutReference(loaded, skipped) : withCertifiedReference(loaded);
       if (p.reference.unavailable) warn(`${entry}: ${p.reference.unavailable}`);
-      return p;
+      return uniformProblem(p);
     },
   });
 }

@@ -1,6 +1,6 @@
 // Worker side of a parallel sweep (a tinypool child process): resolves the problem and method by
 // the same entries the user gave (built-in ids or file paths), caches them for the worker's life,
-// executes one run.
+// executes runs (several to a message when they are short, see executeOnPool).
 import type { Method, Problem } from '../core/types.js';
 import type { RunResult } from '../core/results.js';
 import { messageOf } from '../core/errors.js';
@@ -66,11 +66,37 @@ export interface CertifyTask {
   problemEntry: string;
 }
 
-export default async function runTask(task: WorkerTask | StiffnessTask | CertifyTask): Promise<RunResult | number | string | null> {
-  if ('kind' in task) {
-    if (task.kind === 'certify') return (await problemFor(task.problemEntry)).reference.unavailable ?? null;
-    return problemStiffnessRatio(await problemFor(task.problemEntry, task.uncertified));
+/**
+ * Several runs in one message, run in order until `budgetMs` has passed (at least one run):
+ * each message costs both processes CPU time, and short runs are many (see executeOnPool).
+ */
+export interface BatchTask {
+  kind: 'batch';
+  runs: WorkerTask[];
+  /** No further run starts once this many milliseconds have passed since the first started. */
+  budgetMs: number;
+}
+
+/** The first results.length runs of the batch, each its result or the message of what it threw; the rest were not started. */
+export interface BatchAnswer {
+  results: (RunResult | { thrown: string })[];
+}
+
+async function runBatch(task: BatchTask): Promise<BatchAnswer> {
+  const answer: BatchAnswer = { results: [] };
+  const started = performance.now();
+  for (const run of task.runs) {
+    if (answer.results.length > 0 && performance.now() - started >= task.budgetMs) break;
+    try {
+      answer.results.push(await runOne(run));
+    } catch (e) {
+      answer.results.push({ thrown: messageOf(e) });
+    }
   }
+  return answer;
+}
+
+async function runOne(task: WorkerTask): Promise<RunResult> {
   const problem = await problemFor(task.problemEntry, task.uncertified);
   let method: Method;
   try {
@@ -79,4 +105,10 @@ export default async function runTask(task: WorkerTask | StiffnessTask | Certify
     return { ...failedRun(problem, { id: task.planned.method }, task.planned.setting, messageOf(e)), planIndex: task.planned.planIndex };
   }
   return executeRun(problem, method, task.planned, task.options);
+}
+
+export default async function runTask(task: BatchTask | StiffnessTask | CertifyTask): Promise<BatchAnswer | number | string | null> {
+  if (task.kind === 'batch') return runBatch(task);
+  if (task.kind === 'certify') return (await problemFor(task.problemEntry)).reference.unavailable ?? null;
+  return problemStiffnessRatio(await problemFor(task.problemEntry, task.uncertified));
 }
