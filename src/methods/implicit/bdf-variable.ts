@@ -30,7 +30,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const proposal = lease.float64(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
   // written to a closure variable, which would allocate on each step.
-  const st = { hCur: NaN, eta: 1 };
+  const st = { hCur: NaN, eta: 1, iters: 0 };
   const f = problem.f;
   const { rtol, atol } = tol;
   const y = lease.copyOf(problem.y0);
@@ -63,6 +63,81 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       s += r * r;
     }
     return Math.sqrt(s / n);
+  }
+
+  // The attempt is split into phases, each its own function: V8 compiles a function again
+  // whenever it meets a branch or a right-hand side it had not seen when it first compiled it,
+  // which each new problem brings, and then only the phase that met something new is compiled
+  // again (see radau-iia-5.ts).
+
+  /** Simplified Newton on d - c f(t+h, y_pred + d) + psi = 0: true when it converged, its iterations in st.iters. */
+  function newtonSolve(t: number, h: number, c: number): boolean {
+    let dyOld = 0;
+    let rate = 0;
+    st.eta = Math.max(st.eta, EPS) ** 0.8;
+    for (let it = 0; it < NEWTON_MAXITER; it++) {
+      f(t + h, ycur, fcur);
+      counts.nfev++;
+      for (let i = 0; i < n; i++) delta[i] = c * fcur[i]! - psi[i]! - dcor[i]!;
+      luSolve(M, n, piv, delta);
+      const dy = norm(delta);
+      st.iters = it + 1;
+      if (!Number.isFinite(dy)) return false;
+      if (it > 0) {
+        rate = dy / dyOld;
+        if (rate >= 1 || (rate ** (NEWTON_MAXITER - it) / (1 - rate)) * dy > newtonTol) return false;
+        st.eta = rate / (1 - rate);
+      }
+      for (let i = 0; i < n; i++) {
+        ycur[i] = ycur[i]! + delta[i]!;
+        dcor[i] = dcor[i]! + delta[i]!;
+      }
+      if (dy === 0 || st.eta * dy <= newtonTol) return true;
+      dyOld = dy;
+    }
+    return false;
+  }
+
+  /** Takes the step (error err <= 1): differences updated newest first, then order and step chosen. */
+  function accept(h: number, err: number, safety: number): boolean {
+    const o1 = (k + 1) * n;
+    const o2 = (k + 2) * n;
+    for (let i = 0; i < n; i++) {
+      D[o2 + i] = dcor[i]! - D[o1 + i]!;
+      D[o1 + i] = dcor[i]!;
+    }
+    for (let j = k; j >= 0; j--) {
+      const oj = j * n;
+      for (let i = 0; i < n; i++) D[oj + i] = D[oj + i]! + D[oj + n + i]!;
+    }
+    for (let i = 0; i < n; i++) y[i] = D[i]!;
+    jacCurrent = false;
+    nEqual++;
+    if (nEqual < k + 1) return propose(proposal, true, h);
+    // Order and step selection among k-1, k, k+1.
+    const errM = k > 1 ? norm(D.subarray(k * n, (k + 1) * n)) / k : Infinity;
+    const errP = k < MAX_ORDER ? norm(D.subarray(o2, o2 + n)) / (k + 2) : Infinity;
+    const fM = k > 1 ? Math.max(errM, 1e-10) ** (-1 / k) : 0;
+    const f0k = Math.max(err, 1e-10) ** (-1 / (k + 1));
+    const fP = k < MAX_ORDER ? Math.max(errP, 1e-10) ** (-1 / (k + 2)) : 0;
+    let newK = k;
+    let best = f0k;
+    if (fM > best) {
+      best = fM;
+      newK = k - 1;
+    }
+    if (fP > best) {
+      best = fP;
+      newK = k + 1;
+    }
+    const factor = Math.min(MAX_FACTOR, safety * best);
+    if (newK === k && factor >= 1 && factor < HOLD_RATIO) return propose(proposal, true, h);
+    if (newK !== k) {
+      k = newK;
+      luValid = false;
+    }
+    nEqual = 0;
+    return propose(proposal, true, h * factor);
   }
 
   function attempt(t: number, h: number): boolean {
@@ -112,36 +187,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       dcor[i] = 0;
       w[i] = 1 / (atol[i]! + rtol * Math.abs(p));
     }
-    // Simplified Newton on d - c f(t+h, y_pred + d) + psi = 0.
-    let converged = false;
-    let iters = 0;
-    let dyOld = 0;
-    let rate = 0;
-    st.eta = Math.max(st.eta, EPS) ** 0.8;
-    for (let it = 0; it < NEWTON_MAXITER; it++) {
-      f(t + h, ycur, fcur);
-      counts.nfev++;
-      for (let i = 0; i < n; i++) delta[i] = c * fcur[i]! - psi[i]! - dcor[i]!;
-      luSolve(M, n, piv, delta);
-      const dy = norm(delta);
-      iters = it + 1;
-      if (!Number.isFinite(dy)) break;
-      if (it > 0) {
-        rate = dy / dyOld;
-        if (rate >= 1 || (rate ** (NEWTON_MAXITER - it) / (1 - rate)) * dy > newtonTol) break;
-        st.eta = rate / (1 - rate);
-      }
-      for (let i = 0; i < n; i++) {
-        ycur[i] = ycur[i]! + delta[i]!;
-        dcor[i] = dcor[i]! + delta[i]!;
-      }
-      if (dy === 0 || st.eta * dy <= newtonTol) {
-        converged = true;
-        break;
-      }
-      dyOld = dy;
-    }
-    if (!converged) {
+    if (!newtonSolve(t, h, c)) {
       st.eta = 1;
       if (!jacCurrent) {
         needJac = true;
@@ -154,51 +200,13 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       const b = Math.abs(ycur[i]!);
       w[i] = 1 / (atol[i]! + rtol * (a > b ? a : b));
     }
-    const safety = (0.9 * (2 * NEWTON_MAXITER + 1)) / (2 * NEWTON_MAXITER + iters);
+    const safety = (0.9 * (2 * NEWTON_MAXITER + 1)) / (2 * NEWTON_MAXITER + st.iters);
     const err = norm(dcor) / (k + 1);
     if (!(err <= 1)) {
       const factor = Number.isFinite(err) ? Math.max(MIN_FACTOR, safety * err ** (-1 / (k + 1))) : MIN_FACTOR;
       return propose(proposal, false, h * factor);
     }
-    // Accepted: update the differences, newest first.
-    const o1 = (k + 1) * n;
-    const o2 = (k + 2) * n;
-    for (let i = 0; i < n; i++) {
-      D[o2 + i] = dcor[i]! - D[o1 + i]!;
-      D[o1 + i] = dcor[i]!;
-    }
-    for (let j = k; j >= 0; j--) {
-      const oj = j * n;
-      for (let i = 0; i < n; i++) D[oj + i] = D[oj + i]! + D[oj + n + i]!;
-    }
-    for (let i = 0; i < n; i++) y[i] = D[i]!;
-    jacCurrent = false;
-    nEqual++;
-    if (nEqual < k + 1) return propose(proposal, true, h);
-    // Order and step selection among k-1, k, k+1.
-    const errM = k > 1 ? norm(D.subarray(k * n, (k + 1) * n)) / k : Infinity;
-    const errP = k < MAX_ORDER ? norm(D.subarray(o2, o2 + n)) / (k + 2) : Infinity;
-    const fM = k > 1 ? Math.max(errM, 1e-10) ** (-1 / k) : 0;
-    const f0k = Math.max(err, 1e-10) ** (-1 / (k + 1));
-    const fP = k < MAX_ORDER ? Math.max(errP, 1e-10) ** (-1 / (k + 2)) : 0;
-    let newK = k;
-    let best = f0k;
-    if (fM > best) {
-      best = fM;
-      newK = k - 1;
-    }
-    if (fP > best) {
-      best = fP;
-      newK = k + 1;
-    }
-    const factor = Math.min(MAX_FACTOR, safety * best);
-    if (newK === k && factor >= 1 && factor < HOLD_RATIO) return propose(proposal, true, h);
-    if (newK !== k) {
-      k = newK;
-      luValid = false;
-    }
-    nEqual = 0;
-    return propose(proposal, true, h * factor);
+    return accept(h, err, safety);
   }
 
   return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };

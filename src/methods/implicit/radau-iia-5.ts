@@ -53,7 +53,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const proposal = lease.float64(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
   // written to a closure variable, which would allocate on each step.
-  const st = { hLU: NaN, hOld: 0, faccon: 1, theta: THET, hacc: 0, erracc: 0 };
+  const st = { hLU: NaN, hOld: 0, faccon: 1, theta: THET, hacc: 0, erracc: 0, hFail: NaN, newt: 0 };
   const f = problem.f;
   const y = lease.copyOf(problem.y0);
   const f0 = lease.float64(n);
@@ -112,50 +112,47 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     return Math.max(Math.sqrt(s / n), 1e-10);
   }
 
-  function attempt(t: number, h: number): boolean {
-    if (needJac) {
-      jacSrc.evaluate(t, y, f0);
-      needJac = false;
-      jacCurrent = true;
-      st.hLU = NaN;
-    }
-    if (h !== st.hLU && !factor(h)) {
-      // Singular iteration matrix: a smaller h moves it away from singularity of J - (gamma/h) I.
-      reject = true;
-      if (!jacCurrent) needJac = true;
-      return propose(proposal, false, h * NEWTON_FAIL_FACTOR);
-    }
-    // Starting values from the previous step's collocation polynomial, else zero.
+  // The attempt is split into its phases, each its own function: V8 compiles a function again
+  // whenever it meets a branch or a right-hand side it had not seen when it first compiled it,
+  // which each new problem brings, and one function holding every phase (with the model inlined
+  // five times) took about 80 ms a compilation; now only the phase that met something new is
+  // compiled again.
+
+  /** Newton starting values from the previous step's collocation polynomial, else zero. */
+  function startValues(h: number): void {
     if (first || !havePoly) {
       z1.fill(0); z2.fill(0); z3.fill(0);
       w1.fill(0); w2.fill(0); w3.fill(0);
-    } else {
-      const r = h / st.hOld;
-      const s1 = 1 + C1 * r, s2 = 1 + C2 * r, s3 = 1 + r;
-      for (let i = 0; i < n; i++) {
-        const a1 = cont1[i]!, a2 = cont2[i]!, a3 = cont3[i]!;
-        const v1 = (s1 - 1) * (a1 + (s1 - C2) * (a2 + (s1 - C1) * a3));
-        const v2 = (s2 - 1) * (a1 + (s2 - C2) * (a2 + (s2 - C1) * a3));
-        const v3 = (s3 - 1) * (a1 + (s3 - C2) * (a2 + (s3 - C1) * a3));
-        z1[i] = v1; z2[i] = v2; z3[i] = v3;
-        w1[i] = TI[0]! * v1 + TI[1]! * v2 + TI[2]! * v3;
-        w2[i] = TI[3]! * v1 + TI[4]! * v2 + TI[5]! * v3;
-        w3[i] = TI[6]! * v1 + TI[7]! * v2 + TI[8]! * v3;
-      }
+      return;
     }
-    for (let i = 0; i < n; i++) scal[i] = atol[i]! + rtol * Math.abs(y[i]!);
+    const r = h / st.hOld;
+    const s1 = 1 + C1 * r, s2 = 1 + C2 * r, s3 = 1 + r;
+    for (let i = 0; i < n; i++) {
+      const a1 = cont1[i]!, a2 = cont2[i]!, a3 = cont3[i]!;
+      const v1 = (s1 - 1) * (a1 + (s1 - C2) * (a2 + (s1 - C1) * a3));
+      const v2 = (s2 - 1) * (a1 + (s2 - C2) * (a2 + (s2 - C1) * a3));
+      const v3 = (s3 - 1) * (a1 + (s3 - C2) * (a2 + (s3 - C1) * a3));
+      z1[i] = v1; z2[i] = v2; z3[i] = v3;
+      w1[i] = TI[0]! * v1 + TI[1]! * v2 + TI[2]! * v3;
+      w2[i] = TI[3]! * v1 + TI[4]! * v2 + TI[5]! * v3;
+      w3[i] = TI[6]! * v1 + TI[7]! * v2 + TI[8]! * v3;
+    }
+  }
 
-    // Simplified Newton iteration on the transformed stage system.
+  /**
+   * Simplified Newton iteration on the transformed stage system. True when it converged, with
+   * the iteration count in st.newt; else the step size to retry with in st.hFail.
+   */
+  function newtonSolve(t: number, h: number): boolean {
     const fac1 = GAM / h, alphn = ALPH / h, betan = BETA / h;
     st.faccon = Math.max(st.faccon, EPS) ** 0.8;
     st.theta = THET;
     let newt = 0;
     let dynold = 0;
     let thqold = 0;
-    let converged = false;
-    let hFail = h * NEWTON_FAIL_FACTOR;
+    st.hFail = h * NEWTON_FAIL_FACTOR;
     while (true) {
-      if (newt >= NIT) break;
+      if (newt >= NIT) return false;
       for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z1[i]!;
       f(t + C1 * h, ytmp, g1);
       for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z2[i]!;
@@ -182,7 +179,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
         s += a * a + b * b + c * c;
       }
       const dyno = Math.sqrt(s / (3 * n));
-      if (!Number.isFinite(dyno)) break;
+      if (!Number.isFinite(dyno)) return false;
       if (newt >= 1) {
         const thq = dyno / dynold;
         st.theta = newt === 1 ? thq : Math.sqrt(thq * thqold);
@@ -193,11 +190,11 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
           if (dyth >= 1) {
             // Convergence predicted too slow: shrink h by the factor that would make it fit.
             const qnewt = Math.max(1e-4, Math.min(20, dyth));
-            hFail = h * 0.8 * qnewt ** (-1 / (4 + NIT - 1 - newt));
-            break;
+            st.hFail = h * 0.8 * qnewt ** (-1 / (4 + NIT - 1 - newt));
+            return false;
           }
         } else {
-          break;
+          return false;
         }
       }
       dynold = Math.max(dyno, EPS);
@@ -211,17 +208,14 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       }
       newt++;
       if (st.faccon * dyno <= fnewt) {
-        converged = true;
-        break;
+        st.newt = newt;
+        return true;
       }
     }
-    if (!converged) {
-      reject = true;
-      if (!jacCurrent) needJac = true;
-      return propose(proposal, false, hFail);
-    }
+  }
 
-    // Embedded error estimate: (gamma/h I - J)^{-1} (f0 + sum d_j z_j / h).
+  /** Embedded error estimate: (gamma/h I - J)^{-1} (f0 + sum d_j z_j / h), filtered once more on first and rejected steps. */
+  function estimateError(t: number, h: number): number {
     const dz1 = D[0]! / h, dz2 = D[1]! / h, dz3 = D[2]! / h;
     for (let i = 0; i < n; i++) {
       const c = dz1 * z1[i]! + dz2 * z2[i]! + dz3 * z3[i]!;
@@ -238,16 +232,12 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       luSolve(e1, n, piv1, g2);
       err = errorNorm(g2);
     }
-    const fac = Math.min(SAFE, cfac / (newt + 2 * NIT));
-    let quot = Math.max(FACR, Math.min(FACL, err ** 0.25 / fac));
-    let hnew = h / quot;
-    if (!(err < 1)) {
-      reject = true;
-      if (!jacCurrent) needJac = true;
-      return propose(proposal, false, first ? h * 0.1 : hnew);
-    }
+    return err;
+  }
 
-    // Accepted.
+  /** Takes the step (error err <= 1, h_new = h / quot proposed): new state, collocation polynomial, next h. */
+  function accept(t: number, h: number, err: number, quot: number): boolean {
+    let hnew = h / quot;
     if (!first && st.hacc > 0) {
       let facgus = ((st.hacc / h) * (err * err / st.erracc) ** 0.25) / SAFE;
       facgus = Math.max(FACR, Math.min(FACL, facgus));
@@ -285,6 +275,37 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     }
     if (st.theta > THET) needJac = true;
     return propose(proposal, true, hnew);
+  }
+
+  function attempt(t: number, h: number): boolean {
+    if (needJac) {
+      jacSrc.evaluate(t, y, f0);
+      needJac = false;
+      jacCurrent = true;
+      st.hLU = NaN;
+    }
+    if (h !== st.hLU && !factor(h)) {
+      // Singular iteration matrix: a smaller h moves it away from singularity of J - (gamma/h) I.
+      reject = true;
+      if (!jacCurrent) needJac = true;
+      return propose(proposal, false, h * NEWTON_FAIL_FACTOR);
+    }
+    startValues(h);
+    for (let i = 0; i < n; i++) scal[i] = atol[i]! + rtol * Math.abs(y[i]!);
+    if (!newtonSolve(t, h)) {
+      reject = true;
+      if (!jacCurrent) needJac = true;
+      return propose(proposal, false, st.hFail);
+    }
+    const err = estimateError(t, h);
+    const fac = Math.min(SAFE, cfac / (st.newt + 2 * NIT));
+    const quot = Math.max(FACR, Math.min(FACL, err ** 0.25 / fac));
+    if (!(err < 1)) {
+      reject = true;
+      if (!jacCurrent) needJac = true;
+      return propose(proposal, false, first ? h * 0.1 : h / quot);
+    }
+    return accept(t, h, err, quot);
   }
 
   return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };
