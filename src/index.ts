@@ -26,6 +26,7 @@ export { withCertifiedReference, certify } from './measure/certify.js';
 export { roundTripError } from './measure/round-trip.js';
 export { stiffnessRatio } from './measure/stiffness.js';
 export { runSweep, type SweepRequest } from './sweep/run.js';
+export { prestartLanes, type PrestartedLanes } from './sweep/lanes.js';
 export { planSweep, DEFAULT_TOLERANCES, DEFAULT_STEPS, type PlannedRun, type SweepPlan } from './sweep/plan.js';
 export { chooseMethod, type Choice, type Candidate, type ChooseOptions } from './sweep/choose.js';
 export { selectShard, parseShardSpec } from './sweep/shard.js';

@@ -21,7 +21,7 @@ const WARMUP_SOLVES = 20;
 const FIRST_WARMUP_CAP_SECONDS = 2;
 const warmedPairs = new Set<string>();
 
-export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 0.1, minSamples: 3 };
+export { DEFAULT_TIMING } from '../core/defaults.js';
 
 export interface TimingResult {
   medianSeconds: number;

@@ -4,18 +4,13 @@
 // a run's timeout clock starts when it really starts; a run past its timeout has its worker
 // terminated and replaced, the run is recorded with status `timeout` and the sweep goes on.
 //
-// The workers are tinypool's child processes started with V8's --single-threaded, not worker
-// threads. Every V8 process runs garbage collection and optimising compilation on background
-// threads; worker threads share one process's, and on a 2-core machine those threads take the
-// second core from the other worker. Measured on the catalogue sweep (bench/README.md): threads
-// gave 1.0-1.3x over --jobs 1, single-threaded child processes 1.4x, 1.56-1.60x with the
-// dealer's whole-method claims, 1.62-1.69x with each method's runs in plan order, 1.73-1.82x
-// with short runs batched and every problem in one object layout (src/problems/uniform.ts), which
-// saved a quarter of the compile time the workers spend on the cores the runs need.
-import { existsSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import Tinypool from 'tinypool';
+// The workers are single-threaded child processes (lanes.ts says why). Measured on the catalogue
+// sweep (bench/README.md), --jobs 2 over --jobs 1: worker threads gave 1.0-1.3x, single-threaded
+// child processes 1.4x, 1.56-1.60x with the dealer's whole-method claims, 1.62-1.69x with each
+// method's runs in plan order, 1.73-1.82x with short runs batched and every problem in one object
+// layout (src/problems/uniform.ts), which saved a quarter of the compile time the workers spend
+// on the cores the runs need.
+import type Tinypool from 'tinypool';
 import type { Problem } from '../core/types.js';
 import type { RunResult } from '../core/results.js';
 import { messageOf } from '../core/errors.js';
@@ -24,12 +19,10 @@ import type { PlannedRun } from './plan.js';
 import type { SweepOptions } from './run.js';
 import type { BatchAnswer, BatchTask, CertifyTask, StiffnessTask, WorkerTask } from './worker.js';
 import { RunDealer } from './dealer.js';
+import { createLane, LANE_DEPTH, type PrestartedLanes } from './lanes.js';
 
 /** Extra seconds a worker gets past the solver's own deadline before it is terminated. */
 const TERMINATE_GRACE_SECONDS = 2;
-
-/** Messages a lane keeps on its worker at once when no run timeout is set (see executeOnPool). */
-const LANE_DEPTH = 2;
 
 /**
  * Without a run timeout a message carries up to BATCH_MAX_RUNS runs, and its worker starts no
@@ -41,33 +34,6 @@ const LANE_DEPTH = 2;
  */
 const BATCH_MAX_RUNS = 8;
 const BATCH_BUDGET_MS = 20;
-
-/** The compiled worker: workers cannot load TypeScript, so tests running from src use dist. */
-function workerFile(): string {
-  const here = fileURLToPath(import.meta.url);
-  if (here.endsWith('.js')) return join(dirname(here), 'worker.js');
-  const built = join(dirname(here), '..', '..', 'dist', 'src', 'sweep', 'worker.js');
-  if (!existsSync(built)) throw new Error(`parallel runs need the compiled worker at ${built}; run npm run build`);
-  return built;
-}
-
-/** One worker: a single-threaded V8 child process (see the header). */
-function createPool(): Tinypool {
-  return new Tinypool({
-    filename: workerFile(),
-    runtime: 'child_process',
-    // A 4 MB young generation (V8's default grows to 16 MB per half): a worker's live data is a few
-    // runs' buffers, and the smaller nursery keeps each worker near 60 MB resident instead of 90
-    // with no measurable change in sweep time (bench/sweep.ts samples the whole process tree).
-    execArgv: ['--single-threaded', '--max-semi-space-size=4'],
-    // Structured clone, as between threads: JSON would turn a NaN or infinite error into null.
-    serialization: 'advanced',
-    minThreads: 1,
-    maxThreads: 1,
-    concurrentTasksPerWorker: LANE_DEPTH,
-    isolateWorkers: false,
-  });
-}
 
 /** A task's answer, or how it failed (timedOut: its limit passed and its worker was ended). */
 type Outcome = { ok: true; value: unknown } | { ok: false; error: unknown; timedOut: boolean };
@@ -89,7 +55,7 @@ async function runLimited(pool: Tinypool, task: unknown, limitMs: number): Promi
 
 /** A one-worker pool for the duration of `use`. */
 async function withWorker<T>(use: (pool: Tinypool) => Promise<T>): Promise<T> {
-  const pool = createPool();
+  const pool = createLane();
   try {
     return await use(pool);
   } finally {
@@ -106,6 +72,8 @@ export interface PoolInput {
   options: SweepOptions;
   /** File entries whose reference was not certified in time, and why (see certifyOnPool). */
   uncertified?: ReadonlyMap<string, string>;
+  /** Lanes already started (prestartLanes); those taken are ended here, like the ones made here. */
+  lanes?: PrestartedLanes;
 }
 
 /**
@@ -127,7 +95,7 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
   const { options } = input;
   const laneCount = Math.max(1, input.jobs);
   // One single-worker pool per lane, so a lane's runs stay on the worker that has warmed up.
-  const pools = Array.from({ length: laneCount }, () => createPool());
+  const pools = Array.from({ length: laneCount }, () => input.lanes?.take() ?? createLane());
   const out: RunResult[] = [];
   let failed = 0;
   // Callbacks stay here; workers get only the serialisable run options.

@@ -12,8 +12,10 @@ import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from '
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
 import { certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
 import { executionOrder } from './dealer.js';
+import type { PrestartedLanes } from './lanes.js';
 import { selectShard } from './shard.js';
 import type { TimingOptions } from '../measure/timing.js';
+import { DEFAULT_MAX_STEPS } from '../core/defaults.js';
 
 export interface SweepProgress {
   done: number;
@@ -122,9 +124,14 @@ export interface SweepRequest {
   onWarning?: (message: string) => void;
   /** Runs already finished (resume): matched by plan index and not run again. */
   finished?: readonly RunResult[];
+  /**
+   * Workers started ahead of the sweep (prestartLanes). A parallel sweep takes up to `jobs` of
+   * them and ends them; the caller releases the rest, e.g. all of them after bad input.
+   */
+  lanes?: PrestartedLanes;
 }
 
-export const DEFAULT_MAX_STEPS = 100_000;
+export { DEFAULT_MAX_STEPS };
 
 /** Plans, executes and assembles one sweep; the library form of `stepgauge run`. */
 export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
@@ -164,6 +171,7 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
           methodEntries: absoluteEntries(methods.entries),
           options,
           ...(uncertified ? { uncertified } : {}),
+          ...(req.lanes ? { lanes: req.lanes } : {}),
         })
       : await executePlan(executionOrder(todo), problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
   const wanted = new Set(selected.map((s) => s.planIndex));

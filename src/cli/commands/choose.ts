@@ -2,10 +2,8 @@
 import type { RegisterCommand } from './index.js';
 import { InputError } from '../../core/errors.js';
 import { parsePositive, parsePositiveInt } from '../options.js';
-import { resolveMethods, resolveProblems } from '../../sweep/resolve.js';
-import { chooseMethod, type Candidate, type Choice } from '../../sweep/choose.js';
-import { DEFAULT_TIMING } from '../../measure/timing.js';
-import { DEFAULT_MAX_STEPS } from '../../sweep/run.js';
+import type { Candidate, Choice } from '../../sweep/choose.js';
+import { DEFAULT_MAX_STEPS, DEFAULT_TIMING } from '../../core/defaults.js';
 import { sig3 } from '../../report/format.js';
 import { CAUTION_SHORT } from '../../report/caution.js';
 
@@ -66,6 +64,8 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       const target = parsePositive(flags.target ?? '', '--target');
       if (flags.measure !== 'final' && flags.measure !== 'max') throw new InputError(`'${flags.measure}' is not final or max`, '--measure');
       if (flags.cost !== 'time' && flags.cost !== 'nfev') throw new InputError(`'${flags.cost}' is not time or nfev`, '--cost');
+      const { resolveMethods, resolveProblems } = await import('../../sweep/resolve.js');
+      const { chooseMethod } = await import('../../sweep/choose.js');
       const problems = await resolveProblems(flags.problem);
       if (problems.items.length !== 1) throw new InputError('choose takes exactly one problem', '--problem');
       const methods = await resolveMethods(flags.method);

@@ -1,8 +1,6 @@
 // `stepgauge list`: the built-in problems and methods, as a table or as JSON.
+// Command modules load what their action needs when it runs (see DEVELOPERS.md, "CLI start-up").
 import type { RegisterCommand } from './index.js';
-import { builtinMethods } from '../../methods/registry.js';
-import { catalogue } from '../../../problems/index.js';
-import { methodRecord, problemRecord } from '../../sweep/run.js';
 
 export const registerList: RegisterCommand = (program) => {
   program
@@ -10,6 +8,9 @@ export const registerList: RegisterCommand = (program) => {
     .description('list built-in problems and methods with family, order and source')
     .option('--json', 'print { methods, problems } as JSON')
     .action(async (flags: { json?: boolean }) => {
+      const { builtinMethods } = await import('../../methods/registry.js');
+      const { catalogue } = await import('../../../problems/index.js');
+      const { methodRecord, problemRecord } = await import('../../sweep/run.js');
       const methods = builtinMethods().map(methodRecord);
       const problems = catalogue.map((p) => problemRecord(p));
       if (flags.json) {

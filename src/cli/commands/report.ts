@@ -2,7 +2,6 @@
 // integrating again.
 import { dirname } from 'node:path';
 import { readResultsFile } from '../../report/read-results.js';
-import { installReport } from '../../report/install.js';
 import type { RegisterCommand } from './index.js';
 
 export const registerReport: RegisterCommand = (program) => {
@@ -15,6 +14,7 @@ export const registerReport: RegisterCommand = (program) => {
     .action(async (path: string, flags: { out?: string; title?: string }) => {
       // The validating reader throws InputError naming the file and the field.
       const results = readResultsFile(path);
+      const { installReport } = await import('../../report/install.js');
       const written = await installReport(results, flags.out ?? dirname(path), flags.title ? { title: flags.title } : {});
       for (const f of written) process.stdout.write(`wrote ${f}\n`);
     });

@@ -1,26 +1,25 @@
 // `stepgauge run`: plan the sweep, integrate, write results.json/results.csv (and the report).
+// The integrators, the sweep machinery and the report renderer are loaded inside the action,
+// after the workers of a parallel sweep were started (prestartLanes), so the workers load their
+// modules while this process loads its own.
 import type { Command } from 'commander';
 import { availableParallelism } from 'node:os';
 import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
+import { existsSync } from 'node:fs';
 import type { RegisterCommand } from './index.js';
 import { parsePositive, parsePositiveInt, parseSteps, parseTolerances } from '../options.js';
 import { checkWritableTarget, defaultOutDir, pointLatest } from '../output-folder.js';
-import { progressLine, type ProgressLine } from '../progress.js';
-import { summaryText } from '../summary.js';
+import type { ProgressLine } from '../progress.js';
 import { DEFAULT_STEPS } from '../../sweep/plan.js';
-import { runSweep, sweepRequestRecord, type SweepRequest } from '../../sweep/run.js';
+import type { SweepRequest } from '../../sweep/run.js';
 import { parseShardSpec } from '../../sweep/shard.js';
-import { DEFAULT_TIMING } from '../../measure/timing.js';
-import { writeFolderAtomically } from '../../report/atomic.js';
-import { resultsCsv } from '../../report/csv.js';
-import { resultsJson } from '../../report/json.js';
-import { writeReport } from '../../report/index.js';
+import { DEFAULT_MAX_STEPS, DEFAULT_TIMING } from '../../core/defaults.js';
 import type { ResultsFile } from '../../core/results.js';
 import { InputError } from '../../core/errors.js';
 import { Journal, readJournal } from '../../sweep/journal.js';
 import { readResultsFile } from '../../report/read-results.js';
-import { existsSync } from 'node:fs';
+import { prestartLanes, type PrestartedLanes } from '../../sweep/lanes.js';
 
 /** The request and finished runs of an interrupted sweep in `dir` (journal first, then results.json). */
 function resumeState(dir: string): { request: SweepRequest; finished: ResultsFile['runs'] } {
@@ -74,6 +73,10 @@ export function requestFromFlags(flags: RunFlags): SweepRequest {
 }
 
 export async function writeSweepFolder(outDir: string, results: ResultsFile, withReport: boolean): Promise<void> {
+  const { writeFolderAtomically } = await import('../../report/atomic.js');
+  const { resultsCsv } = await import('../../report/csv.js');
+  const { resultsJson } = await import('../../report/json.js');
+  const { writeReport } = await import('../../report/index.js');
   await writeFolderAtomically(outDir, async (tmp) => {
     await writeFile(join(tmp, 'results.json'), resultsJson(results));
     await writeFile(join(tmp, 'results.csv'), resultsCsv(results));
@@ -94,7 +97,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('-o, --out <dir>', 'output folder (default reports/<date>-<time>, with reports/latest pointing at it)')
     .option('--no-timing', 'skip wall-time measurement (time is recorded as null)')
     .option('--time-budget <seconds>', 'timing budget per run; long solves get fewer samples', String(DEFAULT_TIMING.budgetSeconds))
-    .option('--max-steps <n>', 'step limit per run (accepted + rejected); past it the run ends with status step-limit', '100000')
+    .option('--max-steps <n>', 'step limit per run (accepted + rejected); past it the run ends with status step-limit', String(DEFAULT_MAX_STEPS))
     .option('--controller <kind>', 'step-size controller for explicit pairs: standard or pi', 'standard')
     .option('-j, --jobs <n>', 'parallel workers (default: available cores)')
     .option('--run-timeout <seconds>', 'end a run that takes longer (its worker is terminated); status timeout')
@@ -112,61 +115,77 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
         outDir = flags.resume;
       }
       checkWritableTarget(outDir);
-      const log = (s: string) => (flags.json ? process.stderr : process.stdout).write(`${s}\n`);
-      let progress: ProgressLine = { update() {}, stop() {} };
-      req.onPlan = (plan, selected) => {
-        // Pairs the user asked for by name deserve a reason; default pairings left out are expected.
-        if (req.method !== undefined) for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
-        else if (plan.skipped.length > 0 && !flags.quiet) {
-          log(`${plan.skipped.length} default pairings left out (stiff problems take stiff methods; symplectic methods need a separable problem); see "skipped" in results.json`);
-        }
-        if (selected.length === 0) throw new InputError('the selection pairs no method with any problem', req.method ? '--method' : '--problem');
-        progress = progressLine(selected.length, Boolean(flags.quiet || flags.json));
-      };
-      let journal: Journal | undefined;
-      const onPlan = req.onPlan;
-      req.onPlan = (plan, selected) => {
-        onPlan(plan, selected);
-        journal = new Journal(outDir, { planSha256: plan.sha256, request: sweepRequestRecord(req) }, req.finished ?? []);
-      };
-      req.onWarning = (message) => process.stderr.write(`stepgauge: warning: ${message}\n`);
-      req.onRun = (p) => {
-        journal?.append(p.last);
-        progress.update(p);
-      };
-      // First Ctrl-C (or SIGTERM): start no new run, write what finished; a second one leaves at once.
-      let stopping = false;
-      const onSignal = () => {
-        if (stopping) process.exit(130);
-        stopping = true;
-        process.stderr.write('\nstepgauge: stopping after the runs in flight (press Ctrl-C again to quit now)\n');
-      };
-      process.on('SIGINT', onSignal);
-      process.on('SIGTERM', onSignal);
-      req.shouldStop = () => stopping;
-      let results: ResultsFile;
+      // Workers go first (see the header); only a sweep that will use them starts them.
+      const lanes: PrestartedLanes | undefined = (req.jobs ?? 1) > 1 || req.runTimeoutSeconds ? prestartLanes(req.jobs ?? 1) : undefined;
       try {
-        results = await runSweep(req);
+        await sweepAndWrite(req, flags, outDir, setExit, lanes);
       } finally {
-        progress.stop();
-        process.off('SIGINT', onSignal);
-        process.off('SIGTERM', onSignal);
+        await lanes?.release();
       }
-      await writeSweepFolder(outDir, results, flags.report);
-      journal?.remove();
-      if (!flags.out && flags.resume === undefined) pointLatest(outDir);
-      if (results.interrupted) {
-        process.stderr.write(`stepgauge: interrupted; ${results.runs.length} finished runs written to ${outDir}; finish with: stepgauge run --resume ${outDir}\n`);
-        setExit(130);
-        return;
-      }
-
-      if (flags.json) process.stdout.write(resultsJson(results));
-      else {
-        log(summaryText(results));
-        log(`\nwrote ${join(outDir, 'results.json')}, results.csv${flags.report ? ', report.html, report.md and plots/' : ''}`);
-      }
-      // 3: the sweep completed and was written, but some runs ended with a failure status.
-      if (results.runs.some((r) => r.status !== 'ok')) setExit(3);
     });
 };
+
+/** The sweep itself: progress, journal, Ctrl-C handling, the output folder and the summary. */
+async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string, setExit: (code: number) => void, lanes: PrestartedLanes | undefined): Promise<void> {
+  const { runSweep, sweepRequestRecord } = await import('../../sweep/run.js');
+  const { progressLine } = await import('../progress.js');
+  const { summaryText } = await import('../summary.js');
+  const { resultsJson } = await import('../../report/json.js');
+  if (lanes) req.lanes = lanes;
+  const log = (s: string) => (flags.json ? process.stderr : process.stdout).write(`${s}\n`);
+  let progress: ProgressLine = { update() {}, stop() {} };
+  req.onPlan = (plan, selected) => {
+    // Pairs the user asked for by name deserve a reason; default pairings left out are expected.
+    if (req.method !== undefined) for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
+    else if (plan.skipped.length > 0 && !flags.quiet) {
+      log(`${plan.skipped.length} default pairings left out (stiff problems take stiff methods; symplectic methods need a separable problem); see "skipped" in results.json`);
+    }
+    if (selected.length === 0) throw new InputError('the selection pairs no method with any problem', req.method ? '--method' : '--problem');
+    progress = progressLine(selected.length, Boolean(flags.quiet || flags.json));
+  };
+  let journal: Journal | undefined;
+  const onPlan = req.onPlan;
+  req.onPlan = (plan, selected) => {
+    onPlan(plan, selected);
+    journal = new Journal(outDir, { planSha256: plan.sha256, request: sweepRequestRecord(req) }, req.finished ?? []);
+  };
+  req.onWarning = (message) => process.stderr.write(`stepgauge: warning: ${message}\n`);
+  req.onRun = (p) => {
+    journal?.append(p.last);
+    progress.update(p);
+  };
+  // First Ctrl-C (or SIGTERM): start no new run, write what finished; a second one leaves at once.
+  let stopping = false;
+  const onSignal = () => {
+    if (stopping) process.exit(130);
+    stopping = true;
+    process.stderr.write('\nstepgauge: stopping after the runs in flight (press Ctrl-C again to quit now)\n');
+  };
+  process.on('SIGINT', onSignal);
+  process.on('SIGTERM', onSignal);
+  req.shouldStop = () => stopping;
+  let results: ResultsFile;
+  try {
+    results = await runSweep(req);
+  } finally {
+    progress.stop();
+    process.off('SIGINT', onSignal);
+    process.off('SIGTERM', onSignal);
+  }
+  await writeSweepFolder(outDir, results, flags.report);
+  journal?.remove();
+  if (!flags.out && flags.resume === undefined) pointLatest(outDir);
+  if (results.interrupted) {
+    process.stderr.write(`stepgauge: interrupted; ${results.runs.length} finished runs written to ${outDir}; finish with: stepgauge run --resume ${outDir}\n`);
+    setExit(130);
+    return;
+  }
+
+  if (flags.json) process.stdout.write(resultsJson(results));
+  else {
+    log(summaryText(results));
+    log(`\nwrote ${join(outDir, 'results.json')}, results.csv${flags.report ? ', report.html, report.md and plots/' : ''}`);
+  }
+  // 3: the sweep completed and was written, but some runs ended with a failure status.
+  if (results.runs.some((r) => r.status !== 'ok')) setExit(3);
+}

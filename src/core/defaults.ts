@@ -1,0 +1,9 @@
+// Defaults shared by the library and the CLI, in a module of their own so the CLI can show them
+// in its help without loading the integrators, the sweep machinery or the report renderer.
+import type { TimingOptions } from '../measure/timing.js';
+
+/** Wall-time measurement per run: a 0.1 s budget, at least 3 samples. */
+export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 0.1, minSamples: 3 };
+
+/** Step limit per run (accepted + rejected steps). */
+export const DEFAULT_MAX_STEPS = 100_000;

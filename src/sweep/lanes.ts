@@ -1,0 +1,65 @@
+// The worker processes of a parallel sweep ("lanes", one worker each) and their early start.
+//
+// The workers are tinypool's child processes started with V8's --single-threaded, not worker
+// threads. Every V8 process runs garbage collection and optimising compilation on background
+// threads; worker threads share one process's, and on a 2-core machine those threads take the
+// second core from the other worker (measurements in bench/README.md).
+//
+// A worker spends its first fifth of a second starting Node and loading the integrators. The CLI
+// starts its lanes before it loads the sweep machinery itself (prestartLanes), so the two loads
+// overlap instead of following each other.
+import { existsSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import Tinypool from 'tinypool';
+
+/** Messages a lane keeps on its worker at once when no run timeout is set (see executeOnPool). */
+export const LANE_DEPTH = 2;
+
+/** The compiled worker: workers cannot load TypeScript, so tests running from src use dist. */
+function workerFile(): string {
+  const here = fileURLToPath(import.meta.url);
+  if (here.endsWith('.js')) return join(dirname(here), 'worker.js');
+  const built = join(dirname(here), '..', '..', 'dist', 'src', 'sweep', 'worker.js');
+  if (!existsSync(built)) throw new Error(`parallel runs need the compiled worker at ${built}; run npm run build`);
+  return built;
+}
+
+/** One lane: a pool of exactly one single-threaded V8 child process (see the header). */
+export function createLane(): Tinypool {
+  return new Tinypool({
+    filename: workerFile(),
+    runtime: 'child_process',
+    // A 4 MB young generation (V8's default grows to 16 MB per half): a worker's live data is a few
+    // runs' buffers, and the smaller nursery keeps each worker near 60 MB resident instead of 90
+    // with no measurable change in sweep time (bench/sweep.ts samples the whole process tree).
+    execArgv: ['--single-threaded', '--max-semi-space-size=4'],
+    // Structured clone, as between threads: JSON would turn a NaN or infinite error into null.
+    serialization: 'advanced',
+    minThreads: 1,
+    maxThreads: 1,
+    concurrentTasksPerWorker: LANE_DEPTH,
+    isolateWorkers: false,
+  });
+}
+
+/**
+ * Lanes started ahead of a sweep. The sweep takes what it needs and owns those from then on
+ * (it ends them); `release` ends the ones never taken, e.g. when the input turned out bad.
+ */
+export interface PrestartedLanes {
+  take(): Tinypool | undefined;
+  release(): Promise<void>;
+}
+
+/** Starts `count` lanes now; each begins loading the worker module at once. */
+export function prestartLanes(count: number): PrestartedLanes {
+  const waiting = Array.from({ length: Math.max(0, count) }, () => createLane());
+  return {
+    take: () => waiting.shift(),
+    release: async () => {
+      const left = waiting.splice(0);
+      await Promise.all(left.map((lane) => lane.destroy()));
+    },
+  };
+}

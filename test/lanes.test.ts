@@ -1,0 +1,55 @@
+// Workers started ahead of a sweep (prestartLanes): a parallel sweep takes them and gives the
+// same runs as one in this process; lanes not taken are ended, so a run stopped by bad input
+// still exits at once instead of waiting on idle workers.
+import { describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { join } from 'node:path';
+import { prestartLanes } from '../src/sweep/lanes.js';
+import { runSweep, type SweepRequest } from '../src/sweep/run.js';
+import type { ResultsFile } from '../src/core/results.js';
+
+const REQUEST: SweepRequest = {
+  problem: 'harmonic-oscillator,van-der-pol',
+  method: 'dormand-prince-54,rk4',
+  tolerances: [1e-4, 1e-6],
+  steps: [100, 200],
+  timing: null,
+};
+
+/** Runs without what two executions of one sweep may differ in (wall time). */
+function runsOf(r: ResultsFile): unknown {
+  return r.runs.map((x) => ({ ...x, time: undefined }));
+}
+
+describe('prestarted lanes', () => {
+  it('are taken by a parallel sweep, which matches the in-process sweep run for run', async () => {
+    const serial = await runSweep({ ...REQUEST, jobs: 1 });
+    const lanes = prestartLanes(3);
+    let taken = 0;
+    const counted = { take: () => (taken++, lanes.take()), release: () => lanes.release() };
+    try {
+      const parallel = await runSweep({ ...REQUEST, jobs: 2, lanes: counted });
+      // Expected: 2 problems x (2 tolerances for dormand-prince-54 + 2 step counts for rk4) = 8 runs.
+      expect(serial.runs.length).toBe(8);
+      expect(runsOf(parallel)).toEqual(runsOf(serial));
+      expect(taken).toBe(2);
+    } finally {
+      await lanes.release();
+    }
+    // The third lane went to release; nothing is left to take.
+    expect(lanes.take()).toBeUndefined();
+  });
+
+  it('are ended when the input turns out bad, so the CLI exits promptly with code 2', () => {
+    const bin = join(import.meta.dirname, '..', 'bin', 'stepgauge.js');
+    const started = Date.now();
+    const r = spawnSync(process.execPath, [bin, 'run', '--jobs', '2', '-p', 'no-such-problem', '--no-report', '-q', '-o', join(import.meta.dirname, 'never-written')], {
+      encoding: 'utf8',
+      timeout: 60_000,
+    });
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/no-such-problem/);
+    // Common practice, no source: well under the 60 s kill timeout means no worker held the process open.
+    expect(Date.now() - started).toBeLessThan(30_000);
+  });
+});
