@@ -154,12 +154,15 @@ async function main(): Promise<void> {
     show(table('sweep: catalogue at jobs 1 and 2, 10,000-run memory sweep', rows, Object.keys(rows[0] ?? {})));
     const speed = await optional<{ pairs: number[]; median: number }>('sweep.js', 'sweepSpeedups');
     if (speed) {
-      const s = await speed(rows);
-      const two = rows.filter((r) => r.jobs === 2 && String(r.name).startsWith('catalogue')).map((r) => Number(r.seconds));
+      const lib = await speed(rows, 'library');
+      const cli = await speed(rows, 'cli');
+      const two = rows.filter((r) => r.jobs === 2 && !String(r.name).startsWith('synthetic')).map((r) => Number(r.seconds));
       const synthetic = rows.find((r) => String(r.name).startsWith('synthetic'));
+      const pairsText = (s: { pairs: number[] }) => s.pairs.map((x) => x.toFixed(2)).join(', ');
       const sweepTargets: Row[] = [
         { target: 'catalogue sweep, --jobs 2, no timing: slowest of the pairs, s', measured: Math.max(...two), limit: 20, met: Math.max(...two) < 20 },
-        { target: `catalogue sweep: --jobs 1 / --jobs 2, median of ${s.pairs.length} pairs (${s.pairs.map((x) => x.toFixed(2)).join(', ')})`, measured: s.median, limit: 1.7, met: s.median >= 1.7 },
+        { target: `catalogue, stepgauge run: --jobs 1 / --jobs 2, median of ${cli.pairs.length} pairs (${pairsText(cli)})`, measured: cli.median, limit: 1.7, met: cli.median >= 1.7 },
+        { target: `catalogue, runSweep: --jobs 1 / --jobs 2, median of ${lib.pairs.length} pairs (${pairsText(lib)})`, measured: lib.median, limit: 1.7, met: lib.median >= 1.7 },
       ];
       if (synthetic) {
         const mb = Number(synthetic.peakTreeRssMB);

@@ -1,6 +1,11 @@
 // One sweep in a fresh process; prints { jobs, runs, seconds, peakRssMB, cpuSeconds } as the last line.
-import { readFileSync } from 'node:fs';
-import { runSweep } from '../src/sweep/run.js';
+// With `cli: true` the sweep is the command `stepgauge run --no-timing --no-report -q --jobs N`
+// called as the launcher calls it, and its seconds count from this process's start, so they include
+// starting Node and loading the CLI; otherwise the library's runSweep is timed alone. Modules are
+// loaded only once the mode is known, so the CLI mode loads what the command itself loads.
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 
 /** Kernel clock ticks per second for /proc times (USER_HZ, 100 on Linux: common practice, no source). */
 const TICKS_PER_SECOND = 100;
@@ -24,21 +29,33 @@ function processTreeCpuSeconds(): number | null {
   }
 }
 
-const args = JSON.parse(process.argv[2] ?? '{}') as { jobs?: number; synthetic?: boolean };
+const args = JSON.parse(process.argv[2] ?? '{}') as { jobs?: number; synthetic?: boolean; cli?: boolean };
 const jobs = args.jobs ?? 1;
-const cpuBefore = processTreeCpuSeconds();
+// The CLI mode's CPU time counts from the process's start, like its seconds.
+const cpuBefore = args.cli ? 0 : processTreeCpuSeconds();
 const started = performance.now();
 let runs = 0;
-if (args.synthetic) {
+if (args.cli) {
+  const out = mkdtempSync(join(tmpdir(), 'stepgauge-bench-cli-'));
+  const { main } = await import('../src/cli/main.js');
+  const code = await main(['run', '--no-timing', '--no-report', '-q', '--jobs', String(jobs), '-o', join(out, 'sweep')]);
+  // 3: the sweep finished with failed runs, which the catalogue has (bench/README.md); others are real failures.
+  if (code !== 0 && code !== 3) throw new Error(`stepgauge run exited with ${code}`);
+  runs = (JSON.parse(readFileSync(join(out, 'sweep', 'results.json'), 'utf8')) as { runs: unknown[] }).runs.length;
+  rmSync(out, { recursive: true, force: true });
+} else if (args.synthetic) {
+  const { runSweep } = await import('../src/sweep/run.js');
   const tolerances = Array.from({ length: 1000 }, (_, k) => 1e-4 * (1 - k / 1100));
   const methods = ['bogacki-shampine-32', 'fehlberg-45', 'cash-karp-45', 'dormand-prince-54', 'tsitouras-54', 'verner-65', 'dormand-prince-853', 'radau-iia-5', 'bdf-variable', 'odex'];
   const results = await runSweep({ problem: 'harmonic-oscillator', method: methods.join(','), tolerances, jobs });
   runs = results.runs.length;
 } else {
+  const { runSweep } = await import('../src/sweep/run.js');
   const results = await runSweep({ jobs });
   runs = results.runs.length;
 }
-const seconds = (performance.now() - started) / 1000;
+// The CLI mode counts from the process's start (process.uptime), the library mode from its call.
+const seconds = args.cli ? process.uptime() : (performance.now() - started) / 1000;
 const cpuAfter = processTreeCpuSeconds();
 const cpuSeconds = cpuBefore !== null && cpuAfter !== null ? Math.round((cpuAfter - cpuBefore) * 100) / 100 : null;
 // maxRSS is in kilobytes and covers this process only (workers are child processes).

@@ -7,6 +7,10 @@
 // not include; so resident memory is sampled from /proc for the sweep process and all its
 // descendants together, and the peak of that sum is reported (`peakTreeRssMB`).
 //
+// The pair is measured at two levels: the library's runSweep alone (`library`), and the command
+// `stepgauge run --no-timing --no-report -q --jobs N` from the start of its process (`cli`), which
+// adds starting Node, loading the CLI and writing results.json and results.csv to both sides.
+//
 // CPU time is reported beside wall time (`cpuSeconds`: the sweep process and its workers, from
 // /proc, so Linux only) with `coreUse` = CPU seconds / (wall seconds x cores): a parallel sweep at
 // coreUse near 1 can only get faster by doing less work, and a sequential one above 1 / cores is
@@ -19,11 +23,13 @@ import { availableParallelism } from 'node:os';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const child = join(here, 'sweep-child.js');
-const PAIRS = 3;
+const PAIRS = 4;
 const SAMPLE_MS = 50;
 
 export interface SweepBenchRow {
   name: string;
+  /** What was timed: the library's runSweep, or the whole `stepgauge run` process. */
+  level: 'library' | 'cli';
   jobs: number;
   runs: number;
   seconds: number;
@@ -65,7 +71,7 @@ function treeRssKB(root: number): number {
   return total;
 }
 
-function measureSweep(name: string, args: Record<string, unknown>): Promise<SweepBenchRow> {
+function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; cli?: boolean }): Promise<SweepBenchRow> {
   return new Promise((resolve, reject) => {
     const proc = spawn(process.execPath, [child, JSON.stringify(args)], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';
@@ -78,9 +84,9 @@ function measureSweep(name: string, args: Record<string, unknown>): Promise<Swee
     proc.on('close', (code) => {
       clearInterval(timer);
       if (code !== 0) return reject(new Error(`sweep child exited with ${code}`));
-      const row = JSON.parse(out.trim().split('\n').at(-1)!) as Omit<SweepBenchRow, 'name' | 'peakTreeRssMB' | 'coreUse'>;
+      const row = JSON.parse(out.trim().split('\n').at(-1)!) as Omit<SweepBenchRow, 'name' | 'level' | 'peakTreeRssMB' | 'coreUse'>;
       const coreUse = row.cpuSeconds === null ? null : Math.round((row.cpuSeconds / (row.seconds * availableParallelism())) * 100) / 100;
-      resolve({ name, ...row, peakTreeRssMB: Math.max(peakKB / 1024, row.peakRssMB), coreUse });
+      resolve({ name, level: args.cli ? 'cli' : 'library', ...row, peakTreeRssMB: Math.max(peakKB / 1024, row.peakRssMB), coreUse });
     });
   });
 }
@@ -95,17 +101,20 @@ export async function runSweepBench(): Promise<SweepBenchRow[]> {
   for (let k = 0; k < PAIRS; k++) {
     rows.push(await measureSweep(`catalogue, default settings, no timing (pair ${k + 1})`, { jobs: 1 }));
     rows.push(await measureSweep(`catalogue, default settings, no timing (pair ${k + 1})`, { jobs: 2 }));
+    rows.push(await measureSweep(`catalogue via stepgauge run (pair ${k + 1})`, { jobs: 1, cli: true }));
+    rows.push(await measureSweep(`catalogue via stepgauge run (pair ${k + 1})`, { jobs: 2, cli: true }));
   }
   rows.push(await measureSweep('synthetic 10,000 runs (oscillator, 10 methods x 1,000 tolerances)', { jobs: 2, synthetic: true }));
   return rows;
 }
 
-/** Per pair and median speed-up of jobs 2 over jobs 1 on the catalogue. */
-export function sweepSpeedups(rows: readonly SweepBenchRow[]): { pairs: number[]; median: number } {
+/** Per pair and median speed-up of jobs 2 over jobs 1 on the catalogue, at one level. */
+export function sweepSpeedups(rows: readonly SweepBenchRow[], level: SweepBenchRow['level'] = 'library'): { pairs: number[]; median: number } {
   const pairs: number[] = [];
-  for (let i = 0; i + 1 < rows.length; i += 2) {
-    const one = rows[i]!;
-    const two = rows[i + 1]!;
+  const atLevel = rows.filter((r) => r.level === level && !r.name.startsWith('synthetic'));
+  for (let i = 0; i + 1 < atLevel.length; i += 2) {
+    const one = atLevel[i]!;
+    const two = atLevel[i + 1]!;
     if (one.jobs === 1 && two.jobs === 2 && one.runs === two.runs) pairs.push(one.seconds / two.seconds);
   }
   return { pairs, median: pairs.length ? median(pairs) : NaN };
@@ -114,6 +123,8 @@ export function sweepSpeedups(rows: readonly SweepBenchRow[]): { pairs: number[]
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
   const rows = await runSweepBench();
   console.table(rows);
-  const s = sweepSpeedups(rows);
-  console.log(`speed-up jobs 2 / jobs 1: ${s.pairs.map((x) => x.toFixed(2)).join(', ')} (median ${s.median.toFixed(2)}x)`);
+  for (const level of ['library', 'cli'] as const) {
+    const s = sweepSpeedups(rows, level);
+    console.log(`speed-up jobs 2 / jobs 1 (${level}): ${s.pairs.map((x) => x.toFixed(2)).join(', ')} (median ${s.median.toFixed(2)}x)`);
+  }
 }

@@ -168,6 +168,7 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
   try {
     results = await runSweep(req);
   } finally {
+    journal?.close();
     progress.stop();
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
