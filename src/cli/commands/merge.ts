@@ -2,6 +2,7 @@
 import { writeFileAtomic } from '../../report/atomic.js';
 import { readResultsFile } from '../../report/read-results.js';
 import { mergeResults } from '../../sweep/merge.js';
+import { resultsJson } from '../../report/json.js';
 import type { RegisterCommand } from './index.js';
 
 export const registerMerge: RegisterCommand = (program) => {
@@ -13,7 +14,7 @@ export const registerMerge: RegisterCommand = (program) => {
     .action(async (paths: string[], flags: { out: string }) => {
       const files = paths.map((path) => ({ path, results: readResultsFile(path) }));
       const merged = mergeResults(files, (w) => process.stderr.write(`stepgauge: warning: ${w}\n`));
-      await writeFileAtomic(flags.out, `${JSON.stringify(merged, null, 2)}\n`);
+      await writeFileAtomic(flags.out, resultsJson(merged));
       process.stdout.write(`wrote ${flags.out}: ${merged.runs.length} runs from ${files.length} file(s)\n`);
     });
 };

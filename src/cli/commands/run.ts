@@ -76,11 +76,12 @@ export async function writeSweepFolder(outDir: string, results: ResultsFile, wit
   const { writeFolderAtomically } = await import('../../report/atomic.js');
   const { resultsCsv } = await import('../../report/csv.js');
   const { resultsJson } = await import('../../report/json.js');
-  const { writeReport } = await import('../../report/index.js');
+  // The renderer (chart.js, the canvas binding, fonts) is loaded only for a report.
+  const writeReport = withReport ? (await import('../../report/index.js')).writeReport : null;
   await writeFolderAtomically(outDir, async (tmp) => {
     await writeFile(join(tmp, 'results.json'), resultsJson(results));
     await writeFile(join(tmp, 'results.csv'), resultsCsv(results));
-    if (withReport) {
+    if (writeReport) {
       await writeReport(results, tmp);
     }
   });
