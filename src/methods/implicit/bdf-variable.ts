@@ -30,7 +30,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const proposal = lease.float64(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
   // written to a closure variable, which would allocate on each step.
-  const st = { hCur: NaN, eta: 1, iters: 0 };
+  const st = { hCur: NaN, eta: 1, iters: 0, err: 0 };
   const f = problem.f;
   const { rtol, atol } = tol;
   const y = lease.copyOf(problem.y0);
@@ -68,10 +68,17 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   // The attempt is split into phases, each its own function: V8 compiles a function again
   // whenever it meets a branch or a right-hand side it had not seen when it first compiled it,
   // which each new problem brings, and then only the phase that met something new is compiled
-  // again (see radau-iia-5.ts).
+  // again (see radau-iia-5.ts). Computed doubles pass between phases in `st`, not as arguments or
+  // return values: a double crossing a call that V8 does not inline is boxed, an allocation.
+
+  /** Step-size safety factor, smaller after a slow Newton iteration (st.iters iterations). */
+  function newtonSafety(): number {
+    return (0.9 * (2 * NEWTON_MAXITER + 1)) / (2 * NEWTON_MAXITER + st.iters);
+  }
 
   /** Simplified Newton on d - c f(t+h, y_pred + d) + psi = 0: true when it converged, its iterations in st.iters. */
-  function newtonSolve(t: number, h: number, c: number): boolean {
+  function newtonSolve(t: number, h: number): boolean {
+    const c = h / GAMMA[k]!;
     let dyOld = 0;
     let rate = 0;
     st.eta = Math.max(st.eta, EPS) ** 0.8;
@@ -98,8 +105,10 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     return false;
   }
 
-  /** Takes the step (error err <= 1): differences updated newest first, then order and step chosen. */
-  function accept(h: number, err: number, safety: number): boolean {
+  /** Takes the step (error st.err <= 1): differences updated newest first, then order and step chosen. */
+  function accept(h: number): boolean {
+    const err = st.err;
+    const safety = newtonSafety();
     const o1 = (k + 1) * n;
     const o2 = (k + 2) * n;
     for (let i = 0; i < n; i++) {
@@ -187,7 +196,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       dcor[i] = 0;
       w[i] = 1 / (atol[i]! + rtol * Math.abs(p));
     }
-    if (!newtonSolve(t, h, c)) {
+    if (!newtonSolve(t, h)) {
       st.eta = 1;
       if (!jacCurrent) {
         needJac = true;
@@ -200,13 +209,13 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       const b = Math.abs(ycur[i]!);
       w[i] = 1 / (atol[i]! + rtol * (a > b ? a : b));
     }
-    const safety = (0.9 * (2 * NEWTON_MAXITER + 1)) / (2 * NEWTON_MAXITER + st.iters);
     const err = norm(dcor) / (k + 1);
+    st.err = err;
     if (!(err <= 1)) {
-      const factor = Number.isFinite(err) ? Math.max(MIN_FACTOR, safety * err ** (-1 / (k + 1))) : MIN_FACTOR;
+      const factor = Number.isFinite(err) ? Math.max(MIN_FACTOR, newtonSafety() * err ** (-1 / (k + 1))) : MIN_FACTOR;
       return propose(proposal, false, h * factor);
     }
-    return accept(h, err, safety);
+    return accept(h);
   }
 
   return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };

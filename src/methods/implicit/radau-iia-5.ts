@@ -53,7 +53,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const proposal = lease.float64(1);
   // Scalars carried across steps live in fields, not closure variables: V8 boxes every double
   // written to a closure variable, which would allocate on each step.
-  const st = { hLU: NaN, hOld: 0, faccon: 1, theta: THET, hacc: 0, erracc: 0, hFail: NaN, newt: 0 };
+  const st = { hLU: NaN, hOld: 0, faccon: 1, theta: THET, hacc: 0, erracc: 0, hFail: NaN, newt: 0, err: 0, quot: 1 };
   const f = problem.f;
   const y = lease.copyOf(problem.y0);
   const f0 = lease.float64(n);
@@ -116,7 +116,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   // whenever it meets a branch or a right-hand side it had not seen when it first compiled it,
   // which each new problem brings, and one function holding every phase (with the model inlined
   // five times) took about 80 ms a compilation; now only the phase that met something new is
-  // compiled again.
+  // compiled again. Computed doubles pass between phases in `st`, not as arguments or return
+  // values: a double crossing a call that V8 does not inline is boxed, an allocation per step.
 
   /** Newton starting values from the previous step's collocation polynomial, else zero. */
   function startValues(h: number): void {
@@ -214,8 +215,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     }
   }
 
-  /** Embedded error estimate: (gamma/h I - J)^{-1} (f0 + sum d_j z_j / h), filtered once more on first and rejected steps. */
-  function estimateError(t: number, h: number): number {
+  /** Embedded error estimate into st.err: (gamma/h I - J)^{-1} (f0 + sum d_j z_j / h), filtered once more on first and rejected steps. */
+  function estimateError(t: number, h: number): void {
     const dz1 = D[0]! / h, dz2 = D[1]! / h, dz3 = D[2]! / h;
     for (let i = 0; i < n; i++) {
       const c = dz1 * z1[i]! + dz2 * z2[i]! + dz3 * z3[i]!;
@@ -232,11 +233,13 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       luSolve(e1, n, piv1, g2);
       err = errorNorm(g2);
     }
-    return err;
+    st.err = err;
   }
 
-  /** Takes the step (error err <= 1, h_new = h / quot proposed): new state, collocation polynomial, next h. */
-  function accept(t: number, h: number, err: number, quot: number): boolean {
+  /** Takes the step (error st.err <= 1, h_new = h / st.quot proposed): new state, collocation polynomial, next h. */
+  function accept(t: number, h: number): boolean {
+    const err = st.err;
+    let quot = st.quot;
     let hnew = h / quot;
     if (!first && st.hacc > 0) {
       let facgus = ((st.hacc / h) * (err * err / st.erracc) ** 0.25) / SAFE;
@@ -297,7 +300,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       if (!jacCurrent) needJac = true;
       return propose(proposal, false, st.hFail);
     }
-    const err = estimateError(t, h);
+    estimateError(t, h);
+    const err = st.err;
     const fac = Math.min(SAFE, cfac / (st.newt + 2 * NIT));
     const quot = Math.max(FACR, Math.min(FACL, err ** 0.25 / fac));
     if (!(err < 1)) {
@@ -305,7 +309,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       if (!jacCurrent) needJac = true;
       return propose(proposal, false, first ? h * 0.1 : h / quot);
     }
-    return accept(t, h, err, quot);
+    st.quot = quot;
+    return accept(t, h);
   }
 
   return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };
