@@ -112,6 +112,17 @@ export function startingStep(
 }
 
 /**
+ * x to a small non-negative integer power by repeated multiplication. The Newton convergence
+ * tests raise the contraction rate to the iterations left; `**` calls the general power routine,
+ * about 30 ns against 5 for the products, and it runs once per iteration.
+ */
+export function powInt(x: number, k: number): number {
+  let p = 1;
+  for (let q = 0; q < k; q++) p *= x;
+  return p;
+}
+
+/**
  * How an attempt reports back: accepted or not as its return value, the step size proposed for
  * the next attempt (after acceptance, or for the retry) in `proposal[0]`. A buffer, not a
  * returned object, so the step loop allocates nothing.

@@ -8,7 +8,7 @@
 import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { EPS, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
+import { EPS, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
 import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
 
@@ -187,7 +187,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
         thqold = thq;
         if (st.theta < 0.99) {
           st.faccon = st.theta / (1 - st.theta);
-          const dyth = (st.faccon * dyno * st.theta ** (NIT - 1 - newt)) / fnewt;
+          const dyth = (st.faccon * dyno * powInt(st.theta, NIT - 1 - newt)) / fnewt;
           if (dyth >= 1) {
             // Convergence predicted too slow: shrink h by the factor that would make it fit.
             const qnewt = Math.max(1e-4, Math.min(20, dyth));

@@ -32,7 +32,7 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { EPS, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
+import { EPS, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
 
 const GAMMA = 2 - Math.SQRT2;
@@ -117,7 +117,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       if (!Number.isFinite(dy)) return false;
       if (it > 0) {
         const rate = dy / dyOld;
-        if (rate >= 1 || (rate ** (NEWTON_MAXITER - it) / (1 - rate)) * dy > newtonTol) return false;
+        if (rate >= 1 || (powInt(rate, NEWTON_MAXITER - it) / (1 - rate)) * dy > newtonTol) return false;
         st.eta = rate / (1 - rate);
       }
       for (let i = 0; i < n; i++) z[i] = z[i]! + delta[i]!;
