@@ -7,9 +7,10 @@
 // The workers are single-threaded child processes (lanes.ts says why). Measured on the catalogue
 // sweep (bench/README.md), --jobs 2 over --jobs 1: worker threads gave 1.0-1.3x, single-threaded
 // child processes 1.4x, 1.56-1.60x with the dealer's whole-method claims, 1.62-1.69x with each
-// method's runs in plan order, 1.73-1.82x with short runs batched and every problem in one object
-// layout (src/problems/uniform.ts), which saved a quarter of the compile time the workers spend
-// on the cores the runs need.
+// method's runs in plan order, 1.73-1.82x (five pairs in one quiet spell) with short runs batched
+// and every problem in one object layout (src/problems/uniform.ts), which saved a quarter of the
+// compile time the workers spend on the cores the runs need; over 24 pairs on a busier VM the
+// median was 1.67-1.68, the command included or not (bench/README.md, "Reading the targets").
 import type Tinypool from 'tinypool';
 import type { Problem } from '../core/types.js';
 import type { RunResult } from '../core/results.js';
