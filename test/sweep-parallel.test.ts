@@ -15,12 +15,15 @@ function read(dir: string): ResultsFile {
   return JSON.parse(readFileSync(join(dir, 'results.json'), 'utf8')) as ResultsFile;
 }
 
-/** The results without what legitimately differs between two runs of one sweep. */
+/**
+ * The results without what legitimately differs between two runs of one sweep: the time, and the
+ * state of the working folder's git checkout, which an edit between the two runs changes.
+ */
 function comparable(r: ResultsFile): unknown {
   return {
     ...r,
     createdAt: undefined,
-    environment: { ...r.environment, calibrationSeconds: undefined },
+    environment: { ...r.environment, calibrationSeconds: undefined, commit: undefined, commitDirty: undefined },
     runs: r.runs.map((x) => ({ ...x, time: undefined })),
   };
 }
