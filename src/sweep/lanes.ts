@@ -44,6 +44,15 @@ export function createLane(): Tinypool {
 }
 
 /**
+ * How many worker lanes a sweep with these settings runs on; 0: it runs in the calling process.
+ * A run timeout needs workers even for one job (only a worker can be ended mid-run).
+ */
+export function workerLaneCount(settings: { jobs?: number; runTimeoutSeconds?: number }): number {
+  const jobs = Math.max(1, settings.jobs ?? 1);
+  return jobs > 1 || settings.runTimeoutSeconds ? jobs : 0;
+}
+
+/**
  * Lanes started ahead of a sweep. The sweep takes what it needs and owns those from then on
  * (it ends them); `release` ends the ones never taken, e.g. when the input turned out bad.
  */

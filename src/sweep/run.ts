@@ -12,7 +12,7 @@ import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from '
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
 import { certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
 import { executionOrder } from './dealer.js';
-import type { PrestartedLanes } from './lanes.js';
+import { workerLaneCount, type PrestartedLanes } from './lanes.js';
 import { selectShard } from './shard.js';
 import type { TimingOptions } from '../measure/timing.js';
 import { DEFAULT_MAX_STEPS } from '../core/defaults.js';
@@ -131,8 +131,6 @@ export interface SweepRequest {
   lanes?: PrestartedLanes;
 }
 
-export { DEFAULT_MAX_STEPS };
-
 /** Plans, executes and assembles one sweep; the library form of `stepgauge run`. */
 export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
   // With a run timeout, user models are not trusted to return: their references are certified on
@@ -159,13 +157,13 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
     ...(req.onRun ? { onRun: req.onRun } : {}),
     ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
   };
-  const jobs = Math.max(1, req.jobs ?? 1);
+  const lanes = workerLaneCount(req);
   const problemMap = new Map(problems.items.map((p) => [p.id, p]));
   const fresh =
-    jobs > 1 || req.runTimeoutSeconds
+    lanes > 0
       ? await executeOnPool({
           runs: todo,
-          jobs,
+          jobs: lanes,
           problems: problemMap,
           problemEntries: absoluteEntries(problems.entries),
           methodEntries: absoluteEntries(methods.entries),

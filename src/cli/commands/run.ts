@@ -19,7 +19,7 @@ import type { ResultsFile } from '../../core/results.js';
 import { InputError } from '../../core/errors.js';
 import { Journal, readJournal } from '../../sweep/journal.js';
 import { readResultsFile } from '../../report/read-results.js';
-import { prestartLanes, type PrestartedLanes } from '../../sweep/lanes.js';
+import { prestartLanes, workerLaneCount, type PrestartedLanes } from '../../sweep/lanes.js';
 
 /** The request and finished runs of an interrupted sweep in `dir` (journal first, then results.json). */
 function resumeState(dir: string): { request: SweepRequest; finished: ResultsFile['runs'] } {
@@ -117,7 +117,8 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
       }
       checkWritableTarget(outDir);
       // Workers go first (see the header); only a sweep that will use them starts them.
-      const lanes: PrestartedLanes | undefined = (req.jobs ?? 1) > 1 || req.runTimeoutSeconds ? prestartLanes(req.jobs ?? 1) : undefined;
+      const laneCount = workerLaneCount(req);
+      const lanes = laneCount > 0 ? prestartLanes(laneCount) : undefined;
       try {
         await sweepAndWrite(req, flags, outDir, setExit, lanes);
       } finally {
