@@ -5,6 +5,10 @@ import { describe, expect, it } from 'vitest';
 import { resultsJson } from '../src/report/json.js';
 import { runSweep } from '../src/sweep/run.js';
 import type { ResultsFile } from '../src/core/results.js';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { runCli } from './helpers/cli.js';
 
 describe('results.json text', () => {
   it('parses to what JSON.stringify gives, with one line per run', async () => {
@@ -35,5 +39,20 @@ describe('results.json text', () => {
   it('writes an empty run list as []', () => {
     const text = resultsJson({ format: 'stepgauge-results', version: 1, runs: [] } as unknown as ResultsFile);
     expect(text).toBe('{\n  "format": "stepgauge-results",\n  "version": 1,\n  "runs": []\n}\n');
+  });
+
+  // `run` writes results.json from the lines its journal serialised as each run finished, and
+  // prints --json by serialising the finished results afresh: the two texts are equal only if no
+  // run changed after it finished. Failed runs (a fixed-step explicit method on a stiff problem,
+  // an error of Infinity/NaN) and a parallel sweep are included.
+  it.each([1, 2])('run --jobs %i writes the same results.json as it prints with --json', async (jobs) => {
+    const out = join(mkdtempSync(join(tmpdir(), 'stepgauge-json-lines-')), 'r');
+    const r = await runCli(['run', '-p', 'kepler-circular,robertson', '-m', 'dormand-prince-54,rk4,hairer-wanner-rodas4', '-t', '1e-4,1e-6', '-s', '10,100', '--no-timing', '--no-report', '--json', '--jobs', String(jobs), '-o', out]);
+    expect(r.code, r.stderr).toBe(3);
+    const written = readFileSync(join(out, 'results.json'), 'utf8');
+    expect(written).toBe(r.stdout);
+    const runs = (JSON.parse(written) as ResultsFile).runs;
+    expect(runs.some((x) => x.status !== 'ok')).toBe(true);
+    expect(runs.length).toBeGreaterThan(8);
   });
 });

@@ -35,9 +35,12 @@ export class Journal {
     writeFileSync(this.path, [head, ...keep].map((x) => JSON.stringify(x)).join('\n') + '\n');
     this.fd = openSync(this.path, 'a');
   }
-  append(run: RunResult): void {
+  /** Appends the run's line and answers it (the UTF-8 of JSON.stringify of the run) for reuse in results.json. */
+  append(run: RunResult): Uint8Array {
     if (this.fd === null) throw new Error(`journal ${this.path} was already closed`);
-    writeSync(this.fd, `${JSON.stringify(run)}\n`);
+    const bytes = Buffer.from(`${JSON.stringify(run)}\n`);
+    writeSync(this.fd, bytes);
+    return bytes.subarray(0, bytes.length - 1);
   }
   /** Closes the file and keeps it (an interrupted sweep is resumed from it). */
   close(): void {

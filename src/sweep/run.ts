@@ -1,6 +1,6 @@
 // Running a planned sweep in this process and assembling the results file.
 import type { Method, Problem } from '../core/types.js';
-import type { ProblemRecord, ResultsFile, RunResult } from '../core/results.js';
+import type { Environment, ProblemRecord, ResultsFile, RunResult } from '../core/results.js';
 import { RESULTS_FORMAT, RESULTS_VERSION } from '../core/results.js';
 import { sha256 } from '../core/hash.js';
 import { environmentFingerprint } from '../measure/environment.js';
@@ -81,10 +81,12 @@ export interface AssembleInput {
   interrupted?: boolean;
   /** Stiffness ratios computed elsewhere (under a time limit), by problem id. */
   stiffness?: ReadonlyMap<string, number | null>;
+  /** The fingerprint, if it was started earlier (see measure/environment.ts); else taken now. */
+  environment?: Promise<Environment>;
 }
 
 export async function assembleResults(input: AssembleInput): Promise<ResultsFile> {
-  const environment = environmentFingerprint();
+  const environment = await (input.environment ?? environmentFingerprint());
   if (input.timed) environment.calibrationSeconds = await calibrationSeconds();
   const usedProblems = new Set(input.plan.runs.map((r) => r.problem));
   const results: ResultsFile = {
@@ -158,10 +160,11 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
     ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
   };
   const lanes = workerLaneCount(req);
+  const environment = environmentFingerprint();
   const problemMap = new Map(problems.items.map((p) => [p.id, p]));
-  const fresh =
+  const execution =
     lanes > 0
-      ? await executeOnPool({
+      ? executeOnPool({
           runs: todo,
           jobs: lanes,
           problems: problemMap,
@@ -171,11 +174,16 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
           ...(uncertified ? { uncertified } : {}),
           ...(req.lanes ? { lanes: req.lanes } : {}),
         })
-      : await executePlan(executionOrder(todo), problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
+      : executePlan(executionOrder(todo), problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
+  // The problems' stiffness ratios are computed while the runs go: on a parallel sweep this
+  // process is idle then, and after the last run it would hold the sweep's end for tens of
+  // milliseconds. User models under a run timeout get theirs on a worker, after the runs.
+  const early = req.runTimeoutSeconds ? undefined : stiffnessRatios(problems.items, plan.runs);
+  const fresh = await execution;
   const wanted = new Set(selected.map((s) => s.planIndex));
   const runs = [...done.values(), ...fresh].filter((r) => wanted.has(r.planIndex ?? -1));
   // User models are code: with a run timeout, their stiffness ratio is computed under it too.
-  const stiffness = req.runTimeoutSeconds ? await stiffnessOnPool(absoluteEntries(problems.entries), req.runTimeoutSeconds, uncertified) : undefined;
+  const stiffness = req.runTimeoutSeconds ? await stiffnessOnPool(absoluteEntries(problems.entries), req.runTimeoutSeconds, uncertified) : early;
   const results = await assembleResults({
     plan,
     problems: problems.items,
@@ -183,11 +191,30 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
     runs,
     timed: Boolean(req.timing),
     interrupted: runs.length < selected.length,
+    environment,
     ...(stiffness ? { stiffness } : {}),
   });
   if (req.shard) results.shard = { index: req.shard.index, count: req.shard.count, planSha256: plan.sha256 };
   results.request = sweepRequestRecord(req);
   return results;
+}
+
+/**
+ * Stiffness ratios of the problems the planned runs use. One that throws (a user model's exact
+ * solution, say) is left out, so assembling the results computes it again and reports the error.
+ */
+function stiffnessRatios(problems: readonly Problem[], runs: readonly PlannedRun[]): Map<string, number | null> {
+  const used = new Set(runs.map((r) => r.problem));
+  const out = new Map<string, number | null>();
+  for (const p of problems) {
+    if (!used.has(p.id)) continue;
+    try {
+      out.set(p.id, problemStiffnessRatio(p));
+    } catch {
+      // left to assembleResults (see above)
+    }
+  }
+  return out;
 }
 
 function absoluteEntries(entries: ReadonlyMap<string, string>): Map<string, string> {

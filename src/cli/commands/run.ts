@@ -15,7 +15,8 @@ import { DEFAULT_STEPS } from '../../sweep/plan.js';
 import type { SweepRequest } from '../../sweep/run.js';
 import { parseShardSpec } from '../../sweep/shard.js';
 import { DEFAULT_MAX_STEPS, DEFAULT_TIMING } from '../../core/defaults.js';
-import type { ResultsFile } from '../../core/results.js';
+import type { ResultsFile, RunResult } from '../../core/results.js';
+import type { KnownRunLine } from '../../report/json.js';
 import { InputError } from '../../core/errors.js';
 import { Journal, readJournal } from '../../sweep/journal.js';
 import { readResultsFile } from '../../report/read-results.js';
@@ -72,14 +73,15 @@ export function requestFromFlags(flags: RunFlags): SweepRequest {
   return req;
 }
 
-export async function writeSweepFolder(outDir: string, results: ResultsFile, withReport: boolean): Promise<void> {
+/** `known`: run lines already serialised (see resultsJson). */
+export async function writeSweepFolder(outDir: string, results: ResultsFile, withReport: boolean, known?: KnownRunLine): Promise<void> {
   const { writeFolderAtomically } = await import('../../report/atomic.js');
   const { resultsCsv } = await import('../../report/csv.js');
-  const { resultsJson } = await import('../../report/json.js');
+  const { resultsJsonBytes } = await import('../../report/json.js');
   // The renderer (chart.js, the canvas binding, fonts) is loaded only for a report.
   const writeReport = withReport ? (await import('../../report/index.js')).writeReport : null;
   await writeFolderAtomically(outDir, async (tmp) => {
-    await writeFile(join(tmp, 'results.json'), resultsJson(results));
+    await writeFile(join(tmp, 'results.json'), resultsJsonBytes(results, known));
     await writeFile(join(tmp, 'results.csv'), resultsCsv(results));
     if (writeReport) {
       await writeReport(results, tmp);
@@ -152,8 +154,11 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
     journal = new Journal(outDir, { planSha256: plan.sha256, request: sweepRequestRecord(req) }, req.finished ?? []);
   };
   req.onWarning = (message) => process.stderr.write(`stepgauge: warning: ${message}\n`);
+  // The journal serialises each run as it finishes, while the workers run; results.json reuses
+  // those lines instead of serialising every run again after the last one (bench/README.md).
+  const journalLines = new Map<RunResult, Uint8Array>();
   req.onRun = (p) => {
-    journal?.append(p.last);
+    if (journal) journalLines.set(p.last, journal.append(p.last));
     progress.update(p);
   };
   // First Ctrl-C (or SIGTERM): start no new run, write what finished; a second one leaves at once.
@@ -175,7 +180,7 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
   }
-  await writeSweepFolder(outDir, results, flags.report);
+  await writeSweepFolder(outDir, results, flags.report, (run) => journalLines.get(run));
   journal?.remove();
   if (!flags.out && flags.resume === undefined) pointLatest(outDir);
   if (results.interrupted) {
