@@ -33,7 +33,11 @@ export function createLane(): Tinypool {
     // A 4 MB young generation (V8's default grows to 16 MB per half): a worker's live data is a few
     // runs' buffers, and the smaller nursery keeps each worker near 60 MB resident instead of 90
     // with no measurable change in sweep time (bench/sweep.ts samples the whole process tree).
-    execArgv: ['--single-threaded', '--max-semi-space-size=4'],
+    // Feedback vectors from a function's first call: a worker compiles on the thread that runs
+    // (a fifth of its time on the catalogue goes to V8's optimising compiler), and its many short
+    // runs reach optimised code sooner; the catalogue's --jobs 2 sweep took 2-3% less time
+    // (19 alternating pairs, bench/README.md). It changes when code is optimised, never a result.
+    execArgv: ['--single-threaded', '--max-semi-space-size=4', '--no-lazy-feedback-allocation'],
     // Structured clone, as between threads: JSON would turn a NaN or infinite error into null.
     serialization: 'advanced',
     minThreads: 1,
