@@ -23,8 +23,16 @@ import { availableParallelism } from 'node:os';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const child = join(here, 'sweep-child.js');
-const PAIRS = 4;
+/** Alternating pairs per level; STEPGAUGE_BENCH_PAIRS sets more for a closer median. */
+const PAIRS = pairsFromEnv(process.env.STEPGAUGE_BENCH_PAIRS, 4);
 const SAMPLE_MS = 50;
+
+function pairsFromEnv(text: string | undefined, fallback: number): number {
+  if (text === undefined || text === '') return fallback;
+  const n = Number(text);
+  if (!Number.isInteger(n) || n < 1) throw new Error(`STEPGAUGE_BENCH_PAIRS must be a whole number of at least 1, not '${text}'`);
+  return n;
+}
 
 export interface SweepBenchRow {
   name: string;
@@ -71,7 +79,7 @@ function treeRssKB(root: number): number {
   return total;
 }
 
-function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; cli?: boolean }): Promise<SweepBenchRow> {
+export function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; cli?: boolean }): Promise<SweepBenchRow> {
   return new Promise((resolve, reject) => {
     const proc = spawn(process.execPath, [child, JSON.stringify(args)], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';

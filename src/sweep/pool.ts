@@ -20,7 +20,6 @@ import type { PlannedRun } from './plan.js';
 import type { SweepOptions } from './run.js';
 import type { BatchAnswer, BatchTask, CertifyTask, StiffnessTask, WorkerTask } from './worker.js';
 import { RunDealer } from './dealer.js';
-import { unpackRun } from './wire.js';
 import { createLane, LANE_DEPTH, type PrestartedLanes } from './lanes.js';
 
 /** Extra seconds a worker gets past the solver's own deadline before it is terminated. */
@@ -78,6 +77,21 @@ export interface PoolInput {
   lanes?: PrestartedLanes;
 }
 
+/**
+ * Number arrays arrive from a worker (structured clone) holding one boxed number per element,
+ * three times the memory of the flat double arrays a copy makes; a 10,000-run sweep keeps
+ * megabytes of drift traces, so they are copied flat on arrival.
+ */
+function flattenNumberArrays(run: RunResult): RunResult {
+  const flat = (a: number[]): number[] => a.map((v) => v);
+  if (run.trace) {
+    run.trace.t = flat(run.trace.t);
+    for (const k of Object.keys(run.trace.drift)) run.trace.drift[k] = flat(run.trace.drift[k]!);
+  }
+  if (Array.isArray(run.yFinal)) run.yFinal = flat(run.yFinal);
+  return run;
+}
+
 export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
   const { options } = input;
   const laneCount = Math.max(1, input.jobs);
@@ -117,7 +131,7 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
     const outcome = await runLimited(pool, task, hard);
     if (outcome.ok) {
       const { results } = outcome.value as BatchAnswer;
-      const runs = results.map((result, k) => ('thrown' in result ? failedAs(batch[k]!, result.thrown) : unpackRun(result)));
+      const runs = results.map((result, k) => ('thrown' in result ? failedAs(batch[k]!, result.thrown) : flattenNumberArrays(result)));
       return { runs, notStarted: batch.slice(results.length), lost: false };
     }
     const runs = batch.map((planned) => {

@@ -9,7 +9,6 @@ import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
 import { resolveMethods, resolveProblems } from './resolve.js';
 import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
-import { packRun } from './wire.js';
 
 export interface WorkerTask {
   planned: PlannedRun;
@@ -89,7 +88,7 @@ async function runBatch(task: BatchTask): Promise<BatchAnswer> {
   for (const run of task.runs) {
     if (answer.results.length > 0 && performance.now() - started >= task.budgetMs) break;
     try {
-      answer.results.push(packRun(await runOne(run)));
+      answer.results.push(await runOne(run));
     } catch (e) {
       answer.results.push({ thrown: messageOf(e) });
     }
