@@ -1,8 +1,8 @@
 // The environment fingerprint stored with every results file, so an auditor can tell where and
 // with what a sweep ran.
 //
-// Asynchronous: the two git commands run as child processes while the sweep runs (runSweep starts
-// the fingerprint before its first run). Run one after the other at the end, they held the main
+// Asynchronous: git runs as a child process while the sweep runs (runSweep starts the fingerprint
+// before its first run). Two git commands run one after the other at the end held the main
 // process for about 50 ms after the last run, with a parallel sweep's cores idle.
 import { execFile } from 'node:child_process';
 import os from 'node:os';
@@ -16,10 +16,18 @@ function git(cwd: string, args: readonly string[]): Promise<string | null> {
   });
 }
 
+/**
+ * The commit checked out and whether tracked files differ from it, from one `git status` (its
+ * porcelain v2 header names the commit; every other line is a change): one process instead of two.
+ */
 async function gitCommit(cwd: string): Promise<{ commit?: string; dirty?: boolean }> {
-  const [head, status] = await Promise.all([git(cwd, ['rev-parse', 'HEAD']), git(cwd, ['status', '--porcelain', '--untracked-files=no'])]);
-  if (head === null || status === null) return {};
-  return { commit: head.trim(), dirty: status.trim().length > 0 };
+  const status = await git(cwd, ['status', '--porcelain=v2', '--branch', '--untracked-files=no']);
+  if (status === null) return {};
+  const lines = status.split('\n').filter((l) => l.length > 0);
+  const commit = /^# branch\.oid ([0-9a-f]{40,64})$/m.exec(status)?.[1];
+  // A repository without commits says "(initial)": there is no commit to name.
+  if (!commit) return {};
+  return { commit, dirty: lines.some((l) => !l.startsWith('#')) };
 }
 
 export async function environmentFingerprint(cwd = process.cwd()): Promise<Environment> {
