@@ -20,6 +20,8 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
 import { availableParallelism } from 'node:os';
+// The median of the pairs: for an even count, the mean of the two middle values.
+import { median } from './floor.js';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const child = join(here, 'sweep-child.js');
@@ -99,10 +101,6 @@ export function measureSweep(name: string, args: { jobs: number; synthetic?: boo
   });
 }
 
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)]!;
-}
 
 export async function runSweepBench(): Promise<SweepBenchRow[]> {
   const rows: SweepBenchRow[] = [];

@@ -52,4 +52,23 @@ describe('prestarted lanes', () => {
     // Common practice, no source: well under the 60 s kill timeout means no worker held the process open.
     expect(Date.now() - started).toBeLessThan(30_000);
   });
+
+  it('are started and ended by runSweep itself when its caller gave none, bad input included', async () => {
+    const script = `
+      const { runSweep } = await import(${JSON.stringify(join(import.meta.dirname, '..', 'dist', 'src', 'sweep', 'run.js'))});
+      const r = await runSweep({ problem: 'harmonic-oscillator', method: 'rk4', steps: [50, 100], timing: null, jobs: 2 });
+      let bad = '';
+      try { await runSweep({ problem: 'no-such-problem', timing: null, jobs: 2 }); } catch (e) { bad = String(e); }
+      console.log(JSON.stringify({ runs: r.runs.length, bad }));
+    `;
+    const started = Date.now();
+    const r = spawnSync(process.execPath, ['--input-type=module', '-e', script], { encoding: 'utf8', timeout: 60_000 });
+    expect(r.status, r.stderr).toBe(0);
+    const out = JSON.parse(r.stdout.trim().split('\n').at(-1)!) as { runs: number; bad: string };
+    expect(out.runs).toBe(2);
+    expect(out.bad).toMatch(/no-such-problem/);
+    // Common practice, no source: the process exits on its own, well before the kill timeout, so
+    // no worker of either sweep was left running.
+    expect(Date.now() - started).toBeLessThan(30_000);
+  });
 });

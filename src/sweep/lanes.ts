@@ -6,8 +6,9 @@
 // second core from the other worker (measurements in bench/README.md).
 //
 // A worker spends its first fifth of a second starting Node and loading the integrators. The CLI
-// starts its lanes before it loads the sweep machinery itself (prestartLanes), so the two loads
-// overlap instead of following each other.
+// starts its lanes before it loads the sweep machinery itself (prestartLanes), and runSweep, when
+// its caller started none, before it resolves and plans, so the loads overlap instead of
+// following each other.
 import { existsSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';

@@ -12,7 +12,7 @@ import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from '
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
 import { certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
 import { executionOrder } from './dealer.js';
-import { workerLaneCount, type PrestartedLanes } from './lanes.js';
+import { prestartLanes, workerLaneCount, type PrestartedLanes } from './lanes.js';
 import { selectShard } from './shard.js';
 import type { TimingOptions } from '../measure/timing.js';
 import { DEFAULT_MAX_STEPS } from '../core/defaults.js';
@@ -135,6 +135,19 @@ export interface SweepRequest {
 
 /** Plans, executes and assembles one sweep; the library form of `stepgauge run`. */
 export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
+  // A parallel sweep's workers start now, unless the caller started them earlier (the CLI does),
+  // so they load their modules while this process resolves and plans; those not taken (bad input,
+  // nothing to run) are ended here.
+  const laneCount = workerLaneCount(req);
+  const own = !req.lanes && laneCount > 0 ? prestartLanes(laneCount) : undefined;
+  try {
+    return await sweepOn(own ? { ...req, lanes: own } : req);
+  } finally {
+    await own?.release();
+  }
+}
+
+async function sweepOn(req: SweepRequest): Promise<ResultsFile> {
   // With a run timeout, user models are not trusted to return: their references are certified on
   // a worker under a limit first, so a model that never returns cannot hang the sweep here.
   const uncertified = req.runTimeoutSeconds ? await certifyOnPool(fileEntries(req.problem).map((e) => resolvePath(e)), req.runTimeoutSeconds) : undefined;
