@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
-import { prestartLanes } from '../src/sweep/lanes.js';
+import { createLane, laneStarted, LaneStartError, prestartLanes } from '../src/sweep/lanes.js';
 import { runSweep, type SweepRequest } from '../src/sweep/run.js';
 import type { ResultsFile } from '../src/core/results.js';
 
@@ -70,5 +70,31 @@ describe('prestarted lanes', () => {
     // Common practice, no source: the process exits on its own, well before the kill timeout, so
     // no worker of either sweep was left running.
     expect(Date.now() - started).toBeLessThan(30_000);
+  });
+
+  // Before this, a worker that failed to start left its tasks waiting forever: the CLI ended with
+  // Node's exit code 13 and no message, or crashed on tinypool's unhandled 'error' event.
+  it.each(['throws-on-load.mjs', 'exits-on-load.mjs'])('report a worker that cannot start (%s) instead of waiting on it', async (fixture) => {
+    const lane = createLane(join(import.meta.dirname, 'fixtures', 'workers', fixture));
+    try {
+      const error = await laneStarted(lane).then(
+        () => null,
+        (e: unknown) => e,
+      );
+      expect(error).toBeInstanceOf(LaneStartError);
+      expect(String((error as Error).message)).toMatch(/worker process stopped before it could run anything .*--jobs 1/);
+      if (fixture === 'throws-on-load.mjs') expect((error as Error).message).toMatch(/failed to load \(fixture\)/);
+    } finally {
+      await lane.destroy();
+    }
+  });
+
+  it('answer the start check of a healthy worker', async () => {
+    const lane = createLane();
+    try {
+      await expect(laneStarted(lane)).resolves.toBeUndefined();
+    } finally {
+      await lane.destroy();
+    }
   });
 });

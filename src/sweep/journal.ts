@@ -35,6 +35,8 @@ export class Journal {
    * on this process.
    */
   private pending: Uint8Array[] = [];
+  /** Runs appended by this sweep (not counting those kept from an earlier one). */
+  appended = 0;
   private flushQueued = false;
   constructor(outDir: string, header: Omit<JournalHeader, 'kind' | 'version'>, keep: readonly RunResult[] = []) {
     this.path = journalPath(outDir);
@@ -48,6 +50,7 @@ export class Journal {
     if (this.fd === null) throw new Error(`journal ${this.path} was already closed`);
     const bytes = Buffer.from(`${JSON.stringify(run)}\n`);
     this.pending.push(bytes);
+    this.appended++;
     if (!this.flushQueued) {
       this.flushQueued = true;
       setImmediate(() => this.flush());

@@ -26,10 +26,58 @@ function workerFile(): string {
   return built;
 }
 
-/** One lane: a pool of exactly one single-threaded V8 child process (see the header). */
-export function createLane(): Tinypool {
+/**
+ * A lane whose worker process stopped before it could run anything (a broken install, a worker
+ * module that fails to load): tinypool starts no replacement then, and every task queued on the
+ * lane would wait forever, so the sweep stops with this error instead.
+ */
+export class LaneStartError extends Error {}
+
+/** A task that only proves its worker started; the worker answers it at once. */
+export interface PingTask {
+  kind: 'ping';
+}
+
+const starts = new WeakMap<Tinypool, Promise<void>>();
+
+function startError(cause: unknown): LaneStartError {
+  // A child process's error reaches the pool as a plain object with its message.
+  const message = (cause as { message?: unknown } | null)?.message;
+  const why = typeof message === 'string' ? message : String(cause);
+  return new LaneStartError(`a worker process stopped before it could run anything (${why}); its own error output, if any, is above; --jobs 1 runs the sweep without workers`);
+}
+
+/** Resolves once the lane's worker has answered its first task; rejects with LaneStartError if it never will. */
+export function laneStarted(pool: Tinypool): Promise<void> {
+  return starts.get(pool) ?? Promise.resolve();
+}
+
+/**
+ * One lane: a pool of exactly one single-threaded V8 child process (see the header), running the
+ * sweep's worker module (tests pass another to see a worker that fails to start).
+ */
+export function createLane(filename = workerFile()): Tinypool {
+  const pool = newPool(filename);
+  // A worker that dies while no task is in flight makes tinypool emit 'error' on the pool; after
+  // the first answer it has already started a replacement, so only a death before it matters (the
+  // listener also keeps the event from ending the process). One that dies with the ping in flight
+  // rejects the ping.
+  const started = new Promise<void>((resolve, reject) => {
+    pool.on('error', (e: unknown) => reject(startError(e)));
+    pool.run({ kind: 'ping' } satisfies PingTask).then(
+      () => resolve(),
+      (e: unknown) => reject(startError(e)),
+    );
+  });
+  // Observed by laneStarted's callers; a lane ended before anyone asked must not be unhandled.
+  started.catch(() => {});
+  starts.set(pool, started);
+  return pool;
+}
+
+function newPool(filename: string): Tinypool {
   return new Tinypool({
-    filename: workerFile(),
+    filename,
     runtime: 'child_process',
     // A 4 MB young generation (V8's default grows to 16 MB per half): a worker's live data is a few
     // runs' buffers, and the smaller nursery keeps each worker near 60 MB resident instead of 90

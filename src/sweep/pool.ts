@@ -22,7 +22,7 @@ import type { PlannedRun } from './plan.js';
 import type { SweepOptions } from './run.js';
 import type { BatchAnswer, BatchTask, CertifyTask, StiffnessTask, WorkerTask } from './worker.js';
 import { RunDealer } from './dealer.js';
-import { createLane, LANE_DEPTH, type PrestartedLanes } from './lanes.js';
+import { createLane, LANE_DEPTH, laneStarted, type PrestartedLanes } from './lanes.js';
 
 /** Extra seconds a worker gets past the solver's own deadline before it is terminated. */
 const TERMINATE_GRACE_SECONDS = 2;
@@ -41,8 +41,12 @@ const BATCH_BUDGET_MS = 20;
 /** A task's answer, or how it failed (timedOut: its limit passed and its worker was ended). */
 type Outcome = { ok: true; value: unknown } | { ok: false; error: unknown; timedOut: boolean };
 
-/** One task on a pool, within limitMs (no limit when 0). */
+/**
+ * One task on a pool, within limitMs (no limit when 0), counted from when the lane's worker has
+ * started. A lane whose worker never starts throws LaneStartError, which ends the sweep.
+ */
 async function runLimited(pool: Tinypool, task: unknown, limitMs: number): Promise<Outcome> {
+  await laneStarted(pool);
   const controller = new AbortController();
   const timer = limitMs > 0 ? setTimeout(() => controller.abort(), limitMs) : undefined;
   try {

@@ -9,6 +9,7 @@ import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
 import { resolveMethods, resolveProblems } from './resolve.js';
 import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
+import type { PingTask } from './lanes.js';
 
 export interface WorkerTask {
   planned: PlannedRun;
@@ -107,7 +108,8 @@ async function runOne(task: WorkerTask): Promise<RunResult> {
   return executeRun(problem, method, task.planned, task.options);
 }
 
-export default async function runTask(task: BatchTask | StiffnessTask | CertifyTask): Promise<BatchAnswer | number | string | null> {
+export default async function runTask(task: BatchTask | StiffnessTask | CertifyTask | PingTask): Promise<BatchAnswer | number | string | null> {
+  if (task.kind === 'ping') return null;
   if (task.kind === 'batch') return runBatch(task);
   if (task.kind === 'certify') return (await problemFor(task.problemEntry)).reference.unavailable ?? null;
   return problemStiffnessRatio(await problemFor(task.problemEntry, task.uncertified));

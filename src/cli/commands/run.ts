@@ -174,6 +174,11 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
   let results: ResultsFile;
   try {
     results = await runSweep(req);
+  } catch (e) {
+    // A sweep that failed before any run finished (a worker that could not start, say) leaves
+    // nothing to resume.
+    if (journal && journal.appended === 0 && (req.finished?.length ?? 0) === 0) journal.remove();
+    throw e;
   } finally {
     journal?.close();
     progress.stop();
