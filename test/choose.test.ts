@@ -38,3 +38,22 @@ describe('choose on kepler-eccentric, target 1e-8', () => {
     expect((await runCli(['choose', '-p', 'kepler-eccentric', '--target', 'x'])).stderr).toMatch(/--target/);
   });
 });
+
+describe('choose for a target that needs a tolerance near round-off', () => {
+  // kepler-eccentric's reference is the analytic two-body orbit (checked against an independent
+  // Kepler-equation solver in catalogue-kepler.test.ts). A final error of 1e-10 over 10 periods
+  // needs rtol below 1e-13 with dormand-prince-853 (round-off grows with the step count), so the
+  // search has to go past 1e-13; its grid ends at 1e-15, about 4.5 times the unit round-off.
+  it('finds dormand-prince-853 below rtol 1e-13 and confirms it against the exact orbit', async () => {
+    const r = await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-10', '-m', 'dormand-prince-853', '--cost', 'nfev', '--max-steps', '1000000', '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    const choice = JSON.parse(r.stdout) as Choice;
+    const dp853 = choice.candidates[0]!;
+    expect(dp853.met).toBe(true);
+    const rtol = (dp853.run!.setting as { rtol: number }).rtol;
+    expect(rtol).toBeLessThan(1e-13);
+    expect(rtol).toBeGreaterThanOrEqual(1e-15);
+    const again = measureRun(keplerEccentric, findMethod('dormand-prince-853')!, dp853.run!.setting as { rtol: number; atol: number }, { maxSteps: 1_000_000 });
+    expect(again.error.final).toBeLessThanOrEqual(1e-10);
+  });
+});
