@@ -11,7 +11,7 @@
 // and every problem in one object layout (src/problems/uniform.ts), which saved a quarter of the
 // compile time the workers spend on the cores the runs need; over 24 pairs on a busier VM the
 // median was 1.67-1.68, the command included or not; 1.71 for the command and 1.735 for the
-// library over 36 pairs once the sweep's end stopped waiting on work it can do during the runs
+// library over 40 pairs once the sweep's end stopped waiting on work it can do during the runs
 // (bench/README.md, "Reading the targets").
 import type Tinypool from 'tinypool';
 import type { Problem } from '../core/types.js';
