@@ -30,9 +30,9 @@ const QUOT2 = 1.2;
  * Measured with that value on 2026-12-04: stiff van der Pol at rtol 1e-10 ends 9.2e-11 off
  * instead of 4.2e-9 (here the error stops falling below rtol 1e-8), Robertson at rtol 1e-8
  * 2.6e-10 instead of 1.9e-7 (final error as `run` reports it), but Robertson at rtol 1e-8 then
- * takes 4470 evaluations instead of 3396, past the
- * 4,000 the stiff-methods work set as its limit; which to keep is an open decision, so the
- * constant stays.
+ * takes 4470 evaluations instead of 3396, past the limit of 4,000 set for it when the stiff
+ * methods were built (test/implicit.test.ts); which to keep is an open decision, so the constant
+ * stays.
  */
 const KAPPA = 0.03;
 /** Factor of the tolerance transformation rtol' = TOL_FACTOR * rtol^(2/3). */
