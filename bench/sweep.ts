@@ -81,7 +81,7 @@ function treeRssKB(root: number): number {
   return total;
 }
 
-export function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; cli?: boolean }): Promise<SweepBenchRow> {
+function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; cli?: boolean }): Promise<SweepBenchRow> {
   return new Promise((resolve, reject) => {
     const proc = spawn(process.execPath, [child, JSON.stringify(args)], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';
@@ -100,7 +100,6 @@ export function measureSweep(name: string, args: { jobs: number; synthetic?: boo
     });
   });
 }
-
 
 export async function runSweepBench(): Promise<SweepBenchRow[]> {
   const rows: SweepBenchRow[] = [];

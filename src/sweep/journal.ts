@@ -25,7 +25,7 @@ export class Journal {
   readonly path: string;
   /**
    * Kept open for the sweep: opening and closing the file for each of a sweep's hundreds of runs
-   * cost the main process more time than writing them. Each line is still written as its run ends.
+   * cost the main process more time than writing them.
    */
   private fd: number | null;
   /**
@@ -35,8 +35,6 @@ export class Journal {
    * on this process.
    */
   private pending: Uint8Array[] = [];
-  /** Runs appended by this sweep (not counting those kept from an earlier one). */
-  appended = 0;
   private flushQueued = false;
   constructor(outDir: string, header: Omit<JournalHeader, 'kind' | 'version'>, keep: readonly RunResult[] = []) {
     this.path = journalPath(outDir);
@@ -50,7 +48,6 @@ export class Journal {
     if (this.fd === null) throw new Error(`journal ${this.path} was already closed`);
     const bytes = Buffer.from(`${JSON.stringify(run)}\n`);
     this.pending.push(bytes);
-    this.appended++;
     if (!this.flushQueued) {
       this.flushQueued = true;
       setImmediate(() => this.flush());

@@ -141,13 +141,13 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
   const laneCount = workerLaneCount(req);
   const own = !req.lanes && laneCount > 0 ? prestartLanes(laneCount) : undefined;
   try {
-    return await sweepOn(own ? { ...req, lanes: own } : req);
+    return await sweepOn(own ? { ...req, lanes: own } : req, laneCount);
   } finally {
     await own?.release();
   }
 }
 
-async function sweepOn(req: SweepRequest): Promise<ResultsFile> {
+async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   // With a run timeout, user models are not trusted to return: their references are certified on
   // a worker under a limit first, so a model that never returns cannot hang the sweep here.
   const uncertified = req.runTimeoutSeconds ? await certifyOnPool(fileEntries(req.problem).map((e) => resolvePath(e)), req.runTimeoutSeconds) : undefined;
@@ -172,7 +172,6 @@ async function sweepOn(req: SweepRequest): Promise<ResultsFile> {
     ...(req.onRun ? { onRun: req.onRun } : {}),
     ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
   };
-  const lanes = workerLaneCount(req);
   const environment = environmentFingerprint();
   const problemMap = new Map(problems.items.map((p) => [p.id, p]));
   const execution =

@@ -138,6 +138,7 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
   if (lanes) req.lanes = lanes;
   const log = (s: string) => (flags.json ? process.stderr : process.stdout).write(`${s}\n`);
   let progress: ProgressLine = { update() {}, stop() {} };
+  let journal: Journal | undefined;
   req.onPlan = (plan, selected) => {
     // Pairs the user asked for by name deserve a reason; default pairings left out are expected.
     if (req.method !== undefined) for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
@@ -146,11 +147,6 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
     }
     if (selected.length === 0) throw new InputError('the selection pairs no method with any problem', req.method ? '--method' : '--problem');
     progress = progressLine(selected.length, Boolean(flags.quiet || flags.json));
-  };
-  let journal: Journal | undefined;
-  const onPlan = req.onPlan;
-  req.onPlan = (plan, selected) => {
-    onPlan(plan, selected);
     journal = new Journal(outDir, { planSha256: plan.sha256, request: sweepRequestRecord(req) }, req.finished ?? []);
   };
   req.onWarning = (message) => process.stderr.write(`stepgauge: warning: ${message}\n`);
@@ -177,7 +173,7 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
   } catch (e) {
     // A sweep that failed before any run finished (a worker that could not start, say) leaves
     // nothing to resume.
-    if (journal && journal.appended === 0 && (req.finished?.length ?? 0) === 0) journal.remove();
+    if (journal && journalLines.size === 0 && (req.finished?.length ?? 0) === 0) journal.remove();
     throw e;
   } finally {
     journal?.close();

@@ -287,6 +287,13 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     return propose(proposal, true, hnew);
   }
 
+  /** A rejected attempt: the Jacobian is refreshed unless it is current, and hNext is proposed. */
+  function retryWith(hNext: number): boolean {
+    reject = true;
+    if (!jacCurrent) needJac = true;
+    return propose(proposal, false, hNext);
+  }
+
   function attempt(t: number, h: number): boolean {
     if (needJac) {
       jacSrc.evaluate(t, y, f0);
@@ -296,26 +303,16 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     }
     if (h !== st.hLU && !factor(h)) {
       // Singular iteration matrix: a smaller h moves it away from singularity of J - (gamma/h) I.
-      reject = true;
-      if (!jacCurrent) needJac = true;
-      return propose(proposal, false, h * NEWTON_FAIL_FACTOR);
+      return retryWith(h * NEWTON_FAIL_FACTOR);
     }
     startValues(h);
     for (let i = 0; i < n; i++) scal[i] = atol[i]! + rtol * Math.abs(y[i]!);
-    if (!newtonSolve(t, h)) {
-      reject = true;
-      if (!jacCurrent) needJac = true;
-      return propose(proposal, false, st.hFail);
-    }
+    if (!newtonSolve(t, h)) return retryWith(st.hFail);
     estimateError(t, h);
     const err = st.err;
     const fac = Math.min(SAFE, cfac / (st.newt + 2 * NIT));
     const quot = Math.max(FACR, Math.min(FACL, err ** 0.25 / fac));
-    if (!(err < 1)) {
-      reject = true;
-      if (!jacCurrent) needJac = true;
-      return propose(proposal, false, first ? h * 0.1 : h / quot);
-    }
+    if (!(err < 1)) return retryWith(first ? h * 0.1 : h / quot);
     st.quot = quot;
     return accept(t, h);
   }
