@@ -95,7 +95,7 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
     reference = {
       kind: 'exact',
       source: `expm(M (t - t0)) z0 for the ${aug.size}-state system augmented with the inputs' generators (Pade scaling and squaring, Higham 2005)`,
-      exact: exactSolution(aug, n, t0),
+      exact: exactSolution(aug, n, t0, tEnd),
     };
   } else if (spec.reference) {
     reference = {

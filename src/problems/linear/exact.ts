@@ -1,7 +1,7 @@
 // Exact solution of x' = A x + B u(t) when every input has a generator: z = (x, w) obeys
-// z' = M z with M = [[A, B H], [0, G]], so z(t) = expm(M (t - t0)) z(t0). One exponential per
-// evaluation time, no integration.
-import { expmApply } from '../expm.js';
+// z' = M z with M = [[A, B H], [0, G]], so z(t) = expm(M (t - t0)) z(t0), no integration
+// (evaluated through ../expm-trajectory.ts: exact states on a grid, a short Taylor series between).
+import { expmTrajectory } from '../expm-trajectory.js';
 import type { Generator } from './signals.js';
 
 export interface Augmented {
@@ -34,10 +34,11 @@ export function augmentedSystem(A: Float64Array, B: Float64Array, n: number, gen
   return { size, M, z0 };
 }
 
-export function exactSolution(aug: Augmented, n: number, t0: number): (t: number, out: Float64Array) => void {
+export function exactSolution(aug: Augmented, n: number, t0: number, tEnd: number): (t: number, out: Float64Array) => void {
   const scratch = new Float64Array(aug.size);
+  const at = expmTrajectory(aug.M, aug.size, t0, tEnd, aug.z0);
   return (t, out) => {
-    expmApply(aug.M, aug.size, t - t0, aug.z0, scratch);
+    at(t, scratch);
     for (let i = 0; i < n; i++) out[i] = scratch[i]!;
   };
 }
