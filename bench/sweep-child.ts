@@ -1,7 +1,9 @@
 // One sweep in a fresh process; prints { jobs, runs, seconds, peakRssMB, cpuSeconds } as the last line.
 // With `cli: true` the sweep is the command `stepgauge run --no-timing --no-report -q --jobs N`
 // called as the launcher calls it, and its seconds count from this process's start, so they include
-// starting Node and loading the CLI; otherwise the library's runSweep is timed alone. Modules are
+// starting Node and loading the CLI; with `defaults: true` it is `stepgauge run -q --jobs N`, the
+// command with its defaults (every run timed, the report written); otherwise the library's
+// runSweep is timed alone. Modules are
 // loaded only once the mode is known, so the CLI mode loads what the command itself loads.
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -29,7 +31,7 @@ function processTreeCpuSeconds(): number | null {
   }
 }
 
-const args = JSON.parse(process.argv[2] ?? '{}') as { jobs?: number; synthetic?: boolean; cli?: boolean };
+const args = JSON.parse(process.argv[2] ?? '{}') as { jobs?: number; synthetic?: boolean; cli?: boolean; defaults?: boolean };
 const jobs = args.jobs ?? 1;
 // The CLI mode's CPU time counts from the process's start, like its seconds.
 const cpuBefore = args.cli ? 0 : processTreeCpuSeconds();
@@ -38,7 +40,8 @@ let runs = 0;
 if (args.cli) {
   const out = mkdtempSync(join(tmpdir(), 'stepgauge-bench-cli-'));
   const { main } = await import('../src/cli/main.js');
-  const code = await main(['run', '--no-timing', '--no-report', '-q', '--jobs', String(jobs), '-o', join(out, 'sweep')]);
+  const lean = args.defaults ? [] : ['--no-timing', '--no-report'];
+  const code = await main(['run', ...lean, '-q', '--jobs', String(jobs), '-o', join(out, 'sweep')]);
   // 3: the sweep finished with failed runs, which the catalogue has (bench/README.md); others are real failures.
   if (code !== 0 && code !== 3) throw new Error(`stepgauge run exited with ${code}`);
   runs = (JSON.parse(readFileSync(join(out, 'sweep', 'results.json'), 'utf8')) as { runs: unknown[] }).runs.length;

@@ -7,9 +7,14 @@
 // not include; so resident memory is sampled from /proc for the sweep process and all its
 // descendants together, and the peak of that sum is reported (`peakTreeRssMB`).
 //
-// The pair is measured at two levels: the library's runSweep alone (`library`), and the command
+// The pair is measured at three levels: the library's runSweep alone (`library`), the command
 // `stepgauge run --no-timing --no-report -q --jobs N` from the start of its process (`cli`), which
-// adds starting Node, loading the CLI and writing results.json and results.csv to both sides.
+// adds starting Node, loading the CLI and writing results.json and results.csv to both sides, and
+// the command with its defaults, `stepgauge run -q --jobs N` (`defaults`: every run timed within
+// its 0.1 s budget, the report written), what a user who types `stepgauge run` waits for. Without
+// timing most runs take a few milliseconds, so starting workers and V8 compiling the integrators
+// in each of them weigh on --jobs 2; with timing the runs dominate. A defaults pair takes about
+// three minutes, so there is one unless STEPGAUGE_BENCH_DEFAULT_PAIRS asks for more (0: none).
 //
 // CPU time is reported beside wall time (`cpuSeconds`: the sweep process and its workers, from
 // /proc, so Linux only) with `coreUse` = CPU seconds / (wall seconds x cores): a parallel sweep at
@@ -26,20 +31,23 @@ import { median } from './floor.js';
 const here = dirname(fileURLToPath(import.meta.url));
 const child = join(here, 'sweep-child.js');
 /** Alternating pairs per level; STEPGAUGE_BENCH_PAIRS sets more for a closer median. */
-const PAIRS = pairsFromEnv(process.env.STEPGAUGE_BENCH_PAIRS, 4);
+const PAIRS = pairsFromEnv('STEPGAUGE_BENCH_PAIRS', 4, 1);
+/** Pairs of the command with its defaults (about three minutes each). */
+const DEFAULT_PAIRS = pairsFromEnv('STEPGAUGE_BENCH_DEFAULT_PAIRS', 1, 0);
 const SAMPLE_MS = 50;
 
-function pairsFromEnv(text: string | undefined, fallback: number): number {
+function pairsFromEnv(name: string, fallback: number, least: number): number {
+  const text = process.env[name];
   if (text === undefined || text === '') return fallback;
   const n = Number(text);
-  if (!Number.isInteger(n) || n < 1) throw new Error(`STEPGAUGE_BENCH_PAIRS must be a whole number of at least 1, not '${text}'`);
+  if (!Number.isInteger(n) || n < least) throw new Error(`${name} must be a whole number of at least ${least}, not '${text}'`);
   return n;
 }
 
 export interface SweepBenchRow {
   name: string;
-  /** What was timed: the library's runSweep, or the whole `stepgauge run` process. */
-  level: 'library' | 'cli';
+  /** What was timed: the library's runSweep, or the whole `stepgauge run` process, lean or with its defaults. */
+  level: 'library' | 'cli' | 'defaults';
   jobs: number;
   runs: number;
   seconds: number;
@@ -81,7 +89,7 @@ function treeRssKB(root: number): number {
   return total;
 }
 
-function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; cli?: boolean }): Promise<SweepBenchRow> {
+function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; cli?: boolean; defaults?: boolean }): Promise<SweepBenchRow> {
   return new Promise((resolve, reject) => {
     const proc = spawn(process.execPath, [child, JSON.stringify(args)], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';
@@ -96,7 +104,8 @@ function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; c
       if (code !== 0) return reject(new Error(`sweep child exited with ${code}`));
       const row = JSON.parse(out.trim().split('\n').at(-1)!) as Omit<SweepBenchRow, 'name' | 'level' | 'peakTreeRssMB' | 'coreUse'>;
       const coreUse = row.cpuSeconds === null ? null : Math.round((row.cpuSeconds / (row.seconds * availableParallelism())) * 100) / 100;
-      resolve({ name, level: args.cli ? 'cli' : 'library', ...row, peakTreeRssMB: Math.max(peakKB / 1024, row.peakRssMB), coreUse });
+      const level = args.defaults ? 'defaults' : args.cli ? 'cli' : 'library';
+      resolve({ name, level, ...row, peakTreeRssMB: Math.max(peakKB / 1024, row.peakRssMB), coreUse });
     });
   });
 }
@@ -108,6 +117,10 @@ export async function runSweepBench(): Promise<SweepBenchRow[]> {
     rows.push(await measureSweep(`catalogue, default settings, no timing (pair ${k + 1})`, { jobs: 2 }));
     rows.push(await measureSweep(`catalogue via stepgauge run (pair ${k + 1})`, { jobs: 1, cli: true }));
     rows.push(await measureSweep(`catalogue via stepgauge run (pair ${k + 1})`, { jobs: 2, cli: true }));
+  }
+  for (let k = 0; k < DEFAULT_PAIRS; k++) {
+    rows.push(await measureSweep(`catalogue via stepgauge run with its defaults (pair ${k + 1})`, { jobs: 1, cli: true, defaults: true }));
+    rows.push(await measureSweep(`catalogue via stepgauge run with its defaults (pair ${k + 1})`, { jobs: 2, cli: true, defaults: true }));
   }
   rows.push(await measureSweep('synthetic 10,000 runs (oscillator, 10 methods x 1,000 tolerances)', { jobs: 2, synthetic: true }));
   return rows;
@@ -128,7 +141,7 @@ export function sweepSpeedups(rows: readonly SweepBenchRow[], level: SweepBenchR
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
   const rows = await runSweepBench();
   console.table(rows);
-  for (const level of ['library', 'cli'] as const) {
+  for (const level of ['library', 'cli', 'defaults'] as const) {
     const s = sweepSpeedups(rows, level);
     console.log(`speed-up jobs 2 / jobs 1 (${level}): ${s.pairs.map((x) => x.toFixed(2)).join(', ')} (median ${s.median.toFixed(2)}x)`);
   }
