@@ -11,8 +11,10 @@
 // and every problem in one object layout (src/problems/uniform.ts), which saved a quarter of the
 // compile time the workers spend on the cores the runs need; over 24 pairs on a busier VM the
 // median was 1.67-1.68, the command included or not; 1.71 for the command and 1.735 for the
-// library over 40 pairs once the sweep's end stopped waiting on work it can do during the runs
-// (bench/README.md, "Reading the targets").
+// library over 40 pairs once the sweep's end stopped waiting on work it can do during the runs,
+// and about 1.6 once faster integrators had taken a second of run time off both sides (the
+// workers' start and compile stay). With the runs timed, as `stepgauge run` does by default,
+// 1.89-1.97x (bench/README.md, "Reading the targets").
 import type Tinypool from 'tinypool';
 import type { Problem } from '../core/types.js';
 import type { RunResult } from '../core/results.js';
