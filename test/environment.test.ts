@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { environmentFingerprint } from '../src/measure/environment.js';
 
 const git = (cwd: string, ...args: string[]): string =>
@@ -29,9 +29,19 @@ describe('environment fingerprint', () => {
   });
 
   it('leaves the commit out outside a repository', async () => {
-    const env = await environmentFingerprint(mkdtempSync(join(tmpdir(), 'stepgauge-env-none-')));
-    expect(env.commit).toBeUndefined();
-    expect(env.commitDirty).toBeUndefined();
-    expect(env.node).toBe(process.version);
+    // The temp folder may itself sit inside a repository (a checkout used as TMPDIR); git's
+    // ceiling keeps its search from climbing out of the test's own folder.
+    const dir = mkdtempSync(join(tmpdir(), 'stepgauge-env-none-'));
+    const before = process.env.GIT_CEILING_DIRECTORIES;
+    process.env.GIT_CEILING_DIRECTORIES = dirname(dir);
+    try {
+      const env = await environmentFingerprint(dir);
+      expect(env.commit).toBeUndefined();
+      expect(env.commitDirty).toBeUndefined();
+      expect(env.node).toBe(process.version);
+    } finally {
+      if (before === undefined) delete process.env.GIT_CEILING_DIRECTORIES;
+      else process.env.GIT_CEILING_DIRECTORIES = before;
+    }
   });
 });
