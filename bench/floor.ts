@@ -7,6 +7,7 @@
 import { Bench } from 'tinybench';
 import type { Method, Problem, Setting } from '../src/core/types.js';
 import { solveOptions } from '../src/measure/run-one.js';
+import { medianMarginPercent } from '../src/measure/timing.js';
 import { explicitMethods } from '../src/methods/explicit/index.js';
 import { keplerEccentric } from '../problems/kepler-eccentric.js';
 
@@ -85,6 +86,12 @@ export interface FloorRow {
   /** solve / floorSolverArgsMs. */
   ratioSolverArgs: number;
   samples: number;
+  /** Median absolute deviation of the solve's samples (all rounds), ms. */
+  solveMadMs: number;
+  /** 95% relative margin of error of the solve's median, percent (all rounds' samples). */
+  solveRmePercent: number;
+  /** Timing budget the row used, ms (doubled while the margin was 5% or more). */
+  budgetMs: number;
 }
 
 function settingFor(problem: Problem, m: Method, rtol: number, steps: number): Setting {
@@ -127,14 +134,33 @@ function solverArgsLoop(problem: Problem, count: number): () => void {
   };
 }
 
-/** Median wall time of fn, ms (tinybench, after warm-up). */
-export function medianMs(fn: () => void, timeMs: number): { ms: number; samples: number } {
-  const bench = new Bench({ time: timeMs, iterations: 5, warmup: true, warmupIterations: 3, warmupTime: 20 });
+/** What one tinybench task gave: median, its samples (kept), count. */
+export interface Timed {
+  ms: number;
+  samples: number;
+  /** The latency samples themselves, ms (for statistics pooled over rounds). */
+  values: readonly number[];
+}
+
+/** Median wall time of fn, ms (tinybench, after warm-up), with the samples kept. */
+export function medianMs(fn: () => void, timeMs: number): Timed {
+  const bench = new Bench({ time: timeMs, iterations: 5, warmup: true, warmupIterations: 3, warmupTime: 20, retainSamples: true });
   bench.add('x', fn);
   bench.runSync();
   const r = bench.tasks[0]!.result;
   if (r.state !== 'completed') throw new Error(`benchmark task did not complete (${r.state})`);
-  return { ms: r.latency.p50, samples: r.latency.samplesCount };
+  return { ms: r.latency.p50, samples: r.latency.samplesCount, values: [...(r.latency.samples ?? [])] };
+}
+
+/**
+ * Spread and margin of the median of a set of timings, ms: the median absolute deviation, and
+ * the 95% relative margin of error of the median in percent (the formula the sweep's own timing
+ * uses, src/measure/timing.ts).
+ */
+export function sampleStats(values: readonly number[]): { medianMs: number; madMs: number; rmePercent: number } {
+  const m = median([...values]);
+  const mad = median(values.map((v) => Math.abs(v - m)));
+  return { medianMs: m, madMs: mad, rmePercent: medianMarginPercent(m, mad, values.length) };
 }
 
 export function median(xs: number[]): number {
@@ -146,19 +172,41 @@ export function median(xs: number[]): number {
 /** Rounds of solve then floor, so a change in machine load hits both alike; medians over rounds. */
 const ROUNDS = 5;
 
-function interleaved(solve: () => void, floor: () => void, floorSolverArgs: () => void, timeMs: number) {
+/** Relative margin of error of the solve's median that a row's timing aims under (runs under a second). */
+const TARGET_RME_PERCENT = 5;
+/** Times the row's budget may double to reach it. */
+const MAX_DOUBLINGS = 2;
+
+function interleavedOnce(solve: () => void, floor: () => void, floorSolverArgs: () => void, timeMs: number) {
   const s: number[] = [];
   const f: number[] = [];
   const g: number[] = [];
-  let samples = 0;
+  const pooled: number[] = [];
   for (let r = 0; r < ROUNDS; r++) {
     const a = medianMs(solve, timeMs / ROUNDS);
     s.push(a.ms);
+    pooled.push(...a.values);
     f.push(medianMs(floor, timeMs / ROUNDS).ms);
     g.push(medianMs(floorSolverArgs, timeMs / ROUNDS).ms);
-    samples += a.samples;
   }
-  return { solveMs: median(s), floorMs: median(f), floorSolverArgsMs: median(g), samples };
+  // The reported times are medians over rounds; the spread and margin come from every solve
+  // sample of every round, so they include the drift between rounds.
+  const stats = sampleStats(pooled);
+  return { solveMs: median(s), floorMs: median(f), floorSolverArgsMs: median(g), samples: pooled.length, solveMadMs: stats.madMs, solveRmePercent: stats.rmePercent };
+}
+
+/**
+ * The rounds, with the budget doubled (at most MAX_DOUBLINGS times) while the solve's median is
+ * less certain than TARGET_RME_PERCENT and a solve takes under a second.
+ */
+function interleaved(solve: () => void, floor: () => void, floorSolverArgs: () => void, timeMs: number) {
+  let budget = timeMs;
+  let t = interleavedOnce(solve, floor, floorSolverArgs, budget);
+  for (let k = 0; k < MAX_DOUBLINGS && t.solveRmePercent >= TARGET_RME_PERCENT && t.solveMs < 1000; k++) {
+    budget *= 2;
+    t = interleavedOnce(solve, floor, floorSolverArgs, budget);
+  }
+  return { ...t, budgetMs: budget };
 }
 
 export function floorRow(problem: Problem, m: Method, setting: Setting, timeMs: number): FloorRow {
@@ -183,6 +231,9 @@ export function floorRow(problem: Problem, m: Method, setting: Setting, timeMs: 
     floorSolverArgsMs: t.floorSolverArgsMs,
     ratioSolverArgs: t.solveMs / t.floorSolverArgsMs,
     samples: t.samples,
+    solveMadMs: t.solveMadMs,
+    solveRmePercent: t.solveRmePercent,
+    budgetMs: t.budgetMs,
   };
 }
 

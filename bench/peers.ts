@@ -32,6 +32,8 @@ export interface PeerRow {
   /** odex time / this method's time at the same target (null for odex itself or when unmet). */
   speedupVsOdex: number | null;
   samples: number;
+  /** 95% relative margin of error of the median, percent (null when not timed). */
+  rmePercent: number | null;
   note?: string;
 }
 
@@ -65,7 +67,7 @@ export async function runPeersBench(
       if (!run || !s || !('rtol' in s)) {
         batch.push({
           target, method: c.method, met: false, rtol: null, achieved: c.achieved, nfev: null, medianMs: null,
-          nsPerEval: null, speedupVsOdex: null, samples: 0, note: c.note ?? 'not met',
+          nsPerEval: null, speedupVsOdex: null, samples: 0, rmePercent: null, note: c.note ?? 'not met',
         });
         continue;
       }
@@ -74,7 +76,7 @@ export async function runPeersBench(
       const nfev = run.counts.nfev;
       batch.push({
         target, method: c.method, met: true, rtol: s.rtol, achieved: finalError(run), nfev, medianMs: t.solveMs,
-        nsPerEval: (t.solveMs * 1e6) / nfev, speedupVsOdex: null, samples: t.samples,
+        nsPerEval: (t.solveMs * 1e6) / nfev, speedupVsOdex: null, samples: t.samples, rmePercent: t.solveRmePercent,
       });
     }
     const odex = batch.find((r) => r.method === 'odex' && r.medianMs !== null);

@@ -5,7 +5,8 @@
 import { Bench } from 'tinybench';
 import { pathToFileURL } from 'node:url';
 import { robertson } from '../problems/robertson.js';
-import type { Counts } from '../src/core/types.js';
+import type { Counts, Method } from '../src/core/types.js';
+import { medianMarginPercent } from '../src/measure/timing.js';
 import { implicitMethods } from '../src/methods/implicit/index.js';
 
 /** Test Set for IVP Solvers (Mazzia & Magherini), ROBER at t = 1e11. */
@@ -18,8 +19,27 @@ export interface StiffBenchRow {
   status: string;
   medianMs: number;
   samples: number;
+  /** Median absolute deviation of the samples, ms. */
+  madMs: number;
+  /** 95% relative margin of error of the median, percent. */
+  rmePercent: number;
   counts: Counts;
   maxRelError: number;
+}
+
+const TARGET_RME_PERCENT = 5;
+const MAX_DOUBLINGS = 3;
+
+function timeStiff(m: Method, setting: { rtol: number; atol: number }, timeMs: number): { medianMs: number; samples: number; madMs: number; rmePercent: number } {
+  const bench = new Bench({ time: timeMs, warmup: true });
+  bench.add(`${m.id} rtol=${setting.rtol}`, () => {
+    m.solve(robertson, setting, { maxSteps: 1_000_000 });
+  });
+  bench.runSync();
+  const r = bench.tasks[0]!.result;
+  if (r.state !== 'completed') throw new Error(`${m.id}: benchmark task did not complete (${r.state})`);
+  const lat = r.latency;
+  return { medianMs: lat.p50, samples: lat.samplesCount, madMs: lat.mad, rmePercent: medianMarginPercent(lat.p50, lat.mad, lat.samplesCount) };
 }
 
 export function runStiffBench(rtols: readonly number[] = [1e-8, 1e-6], timeMs = 300): StiffBenchRow[] {
@@ -33,20 +53,22 @@ export function runStiffBench(rtols: readonly number[] = [1e-8, 1e-6], timeMs = 
       for (let i = 0; i < 3; i++) {
         maxRelError = Math.max(maxRelError, Math.abs(res.yFinal[i]! - ROBER_1E11[i]!) / Math.abs(ROBER_1E11[i]!));
       }
-      const bench = new Bench({ time: timeMs, warmup: true });
-      bench.add(`${m.id} rtol=${rtol}`, () => {
-        m.solve(robertson, setting, { maxSteps: 1_000_000 });
-      });
-      bench.runSync();
-      const r = bench.tasks[0]!.result as { latency?: { p50: number; samples?: unknown }; state: string };
-      const lat = r.latency;
+      // The budget doubles (at most MAX_DOUBLINGS times) while the median's margin is 5% or more.
+      let budget = timeMs;
+      let t = timeStiff(m, setting, budget);
+      for (let k = 0; k < MAX_DOUBLINGS && t.rmePercent >= TARGET_RME_PERCENT && t.medianMs < 1000; k++) {
+        budget *= 2;
+        t = timeStiff(m, setting, budget);
+      }
       rows.push({
         method: m.id,
         rtol,
         atol,
         status: res.status,
-        medianMs: lat ? lat.p50 : NaN,
-        samples: lat && Array.isArray(lat.samples) ? lat.samples.length : 0,
+        medianMs: t.medianMs,
+        samples: t.samples,
+        madMs: t.madMs,
+        rmePercent: t.rmePercent,
         counts: res.counts,
         maxRelError,
       });
@@ -57,12 +79,12 @@ export function runStiffBench(rtols: readonly number[] = [1e-8, 1e-6], timeMs = 
 
 function main(): void {
   const rows = runStiffBench();
-  const head = ['method', 'rtol', 'status', 'median ms', 'nfev', 'njev', 'nlu', 'acc', 'rej', 'max rel err'];
+  const head = ['method', 'rtol', 'status', 'median ms', 'samples', 'rme %', 'nfev', 'njev', 'nlu', 'acc', 'rej', 'max rel err'];
   console.log(head.join('\t'));
   for (const r of rows) {
     const c = r.counts;
     console.log(
-      [r.method, r.rtol, r.status, r.medianMs.toPrecision(3), c.nfev, c.njev, c.nlu, c.accepted, c.rejected, r.maxRelError.toPrecision(3)].join('\t'),
+      [r.method, r.rtol, r.status, r.medianMs.toPrecision(3), r.samples, r.rmePercent.toFixed(2), c.nfev, c.njev, c.nlu, c.accepted, c.rejected, r.maxRelError.toPrecision(3)].join('\t'),
     );
   }
 }
