@@ -34,6 +34,8 @@ export interface PeerRow {
   samples: number;
   /** 95% relative margin of error of the median, percent (null when not timed). */
   rmePercent: number | null;
+  /** Timing budget the row used, ms (null when not timed). */
+  budgetMs: number | null;
   note?: string;
 }
 
@@ -67,7 +69,7 @@ export async function runPeersBench(
       if (!run || !s || !('rtol' in s)) {
         batch.push({
           target, method: c.method, met: false, rtol: null, achieved: c.achieved, nfev: null, medianMs: null,
-          nsPerEval: null, speedupVsOdex: null, samples: 0, rmePercent: null, note: c.note ?? 'not met',
+          nsPerEval: null, speedupVsOdex: null, samples: 0, rmePercent: null, budgetMs: null, note: c.note ?? 'not met',
         });
         continue;
       }
@@ -76,7 +78,7 @@ export async function runPeersBench(
       const nfev = run.counts.nfev;
       batch.push({
         target, method: c.method, met: true, rtol: s.rtol, achieved: finalError(run), nfev, medianMs: t.solveMs,
-        nsPerEval: (t.solveMs * 1e6) / nfev, speedupVsOdex: null, samples: t.samples, rmePercent: t.solveRmePercent,
+        nsPerEval: (t.solveMs * 1e6) / nfev, speedupVsOdex: null, samples: t.samples, rmePercent: t.solveRmePercent, budgetMs: t.budgetMs,
       });
     }
     const odex = batch.find((r) => r.method === 'odex' && r.medianMs !== null);
