@@ -120,7 +120,7 @@ async function main(): Promise<void> {
   show(
     table('floor: solve vs the bare right-hand-side loop (same number of calls)', floor as unknown as Row[], [
       'problem', 'method', 'setting', 'nfev', 'solveMs', 'floorMs', 'nsPerEval', 'floorNsPerEval', 'overheadNsPerEval', 'ratio',
-      'floorSolverArgsMs', 'ratioSolverArgs',
+      'floorSolverArgsMs', 'ratioSolverArgs', 'samples', 'solveRmePercent',
     ]),
   );
 
@@ -128,7 +128,7 @@ async function main(): Promise<void> {
   out.peers = peers;
   show(
     table('peers: kepler-eccentric at matched achieved final error', peers as unknown as Row[], [
-      'target', 'method', 'rtol', 'achieved', 'nfev', 'medianMs', 'nsPerEval', 'speedupVsOdex', 'note',
+      'target', 'method', 'rtol', 'achieved', 'nfev', 'medianMs', 'nsPerEval', 'speedupVsOdex', 'samples', 'rmePercent', 'note',
     ]),
   );
 

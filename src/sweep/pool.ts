@@ -14,7 +14,7 @@
 // library over 40 pairs once the sweep's end stopped waiting on work it can do during the runs,
 // and about 1.6 once faster integrators had taken a second of run time off both sides (the
 // workers' start and compile stay). With the runs timed, as `stepgauge run` does by default,
-// 1.89-1.97x (bench/README.md, "Reading the targets").
+// 1.86-1.97x (bench/README.md, "Reading the targets").
 import type Tinypool from 'tinypool';
 import type { Problem } from '../core/types.js';
 import type { RunResult } from '../core/results.js';
