@@ -7,7 +7,7 @@
 import { Bench } from 'tinybench';
 import type { Method, Problem, Setting } from '../src/core/types.js';
 import { solveOptions } from '../src/measure/run-one.js';
-import { medianMarginPercent } from '../src/measure/timing.js';
+import { medianMarginPercent, needsMoreTime } from '../src/measure/timing.js';
 import { explicitMethods } from '../src/methods/explicit/index.js';
 import { keplerEccentric } from '../problems/kepler-eccentric.js';
 
@@ -134,10 +134,9 @@ function solverArgsLoop(problem: Problem, count: number): () => void {
   };
 }
 
-/** What one tinybench task gave: median, its samples (kept), count. */
+/** What one tinybench task gave: its median and its samples. */
 export interface Timed {
   ms: number;
-  samples: number;
   /** The latency samples themselves, ms (for statistics pooled over rounds). */
   values: readonly number[];
 }
@@ -149,7 +148,7 @@ export function medianMs(fn: () => void, timeMs: number): Timed {
   bench.runSync();
   const r = bench.tasks[0]!.result;
   if (r.state !== 'completed') throw new Error(`benchmark task did not complete (${r.state})`);
-  return { ms: r.latency.p50, samples: r.latency.samplesCount, values: [...(r.latency.samples ?? [])] };
+  return { ms: r.latency.p50, values: [...(r.latency.samples ?? [])] };
 }
 
 /**
@@ -172,10 +171,24 @@ export function median(xs: number[]): number {
 /** Rounds of solve then floor, so a change in machine load hits both alike; medians over rounds. */
 const ROUNDS = 5;
 
-/** Relative margin of error of the solve's median that a row's timing aims under (runs under a second). */
-const TARGET_RME_PERCENT = 5;
-/** Times the row's budget may double to reach it. */
+/** Times a floor or peers row's budget may double while its median is uncertain. */
 const MAX_DOUBLINGS = 2;
+
+/**
+ * measure(budget), again with the budget doubled (at most `doublings` times) while its median
+ * needs more time by the sweep's own rule (needsMoreTime: a margin over 5%, a run under a second).
+ */
+export function untilSure<T>(measure: (budgetMs: number) => T, stats: (t: T) => { rmePercent: number; medianMs: number }, budgetMs: number, doublings: number): { result: T; budgetMs: number } {
+  let budget = budgetMs;
+  let result = measure(budget);
+  for (let k = 0; k < doublings; k++) {
+    const s = stats(result);
+    if (!needsMoreTime(s.rmePercent, s.medianMs)) break;
+    budget *= 2;
+    result = measure(budget);
+  }
+  return { result, budgetMs: budget };
+}
 
 function interleavedOnce(solve: () => void, floor: () => void, floorSolverArgs: () => void, timeMs: number) {
   const s: number[] = [];
@@ -195,18 +208,15 @@ function interleavedOnce(solve: () => void, floor: () => void, floorSolverArgs: 
   return { solveMs: median(s), floorMs: median(f), floorSolverArgsMs: median(g), samples: pooled.length, solveMadMs: stats.madMs, solveRmePercent: stats.rmePercent };
 }
 
-/**
- * The rounds, with the budget doubled (at most MAX_DOUBLINGS times) while the solve's median is
- * less certain than TARGET_RME_PERCENT and a solve takes under a second.
- */
+/** The rounds, timed longer while the solve's median is uncertain (untilSure). */
 function interleaved(solve: () => void, floor: () => void, floorSolverArgs: () => void, timeMs: number) {
-  let budget = timeMs;
-  let t = interleavedOnce(solve, floor, floorSolverArgs, budget);
-  for (let k = 0; k < MAX_DOUBLINGS && t.solveRmePercent >= TARGET_RME_PERCENT && t.solveMs < 1000; k++) {
-    budget *= 2;
-    t = interleavedOnce(solve, floor, floorSolverArgs, budget);
-  }
-  return { ...t, budgetMs: budget };
+  const { result, budgetMs } = untilSure(
+    (budget) => interleavedOnce(solve, floor, floorSolverArgs, budget),
+    (t) => ({ rmePercent: t.solveRmePercent, medianMs: t.solveMs }),
+    timeMs,
+    MAX_DOUBLINGS,
+  );
+  return { ...result, budgetMs };
 }
 
 export function floorRow(problem: Problem, m: Method, setting: Setting, timeMs: number): FloorRow {

@@ -7,6 +7,7 @@ import { pathToFileURL } from 'node:url';
 import { robertson } from '../problems/robertson.js';
 import type { Counts, Method } from '../src/core/types.js';
 import { medianMarginPercent } from '../src/measure/timing.js';
+import { untilSure } from './floor.js';
 import { implicitMethods } from '../src/methods/implicit/index.js';
 
 /** Test Set for IVP Solvers (Mazzia & Magherini), ROBER at t = 1e11. */
@@ -27,7 +28,7 @@ export interface StiffBenchRow {
   maxRelError: number;
 }
 
-const TARGET_RME_PERCENT = 5;
+/** Times a stiff row's budget may double while its median is uncertain (untilSure). */
 const MAX_DOUBLINGS = 3;
 
 function timeStiff(m: Method, setting: { rtol: number; atol: number }, timeMs: number): { medianMs: number; samples: number; madMs: number; rmePercent: number } {
@@ -53,13 +54,7 @@ export function runStiffBench(rtols: readonly number[] = [1e-8, 1e-6], timeMs = 
       for (let i = 0; i < 3; i++) {
         maxRelError = Math.max(maxRelError, Math.abs(res.yFinal[i]! - ROBER_1E11[i]!) / Math.abs(ROBER_1E11[i]!));
       }
-      // The budget doubles (at most MAX_DOUBLINGS times) while the median's margin is 5% or more.
-      let budget = timeMs;
-      let t = timeStiff(m, setting, budget);
-      for (let k = 0; k < MAX_DOUBLINGS && t.rmePercent >= TARGET_RME_PERCENT && t.medianMs < 1000; k++) {
-        budget *= 2;
-        t = timeStiff(m, setting, budget);
-      }
+      const { result: t } = untilSure((budget) => timeStiff(m, setting, budget), (x) => x, timeMs, MAX_DOUBLINGS);
       rows.push({
         method: m.id,
         rtol,

@@ -8,11 +8,11 @@
 // r' = -1.3 s, s(0) = 0, r(0) = 1 (so u = s), making the 6-state system z' = M z autonomous and
 // linear; z(t) = expm(M t) z0 by scaling and squaring with Pade approximants (Higham 2005,
 // src/problems/expm.ts), no integration: exact states on a grid, a short Taylor series of
-// expm(M tau) between them (src/problems/expm-trajectory.ts).
+// expm(M tau) between them (src/problems/linear/exact.ts, as for linear models from files).
 // Error scale: absolute on x (all states stay O(1)). Invariants: none (damped and forced).
 // Not separable: v' depends on v through the dashpots.
 import type { Problem } from '../src/core/types.js';
-import { expmTrajectory } from '../src/problems/expm-trajectory.js';
+import { exactSolution } from '../src/problems/linear/exact.js';
 
 const M1 = 1;
 const M2 = 1;
@@ -73,13 +73,7 @@ export const augmentedMatrix: Float64Array = (() => {
 export const augmentedInitial: readonly number[] = [...linearModel.x0, 0, 1];
 
 const T_END = 30;
-const trajectory = expmTrajectory(augmentedMatrix, AUGMENTED_DIMENSION, 0, T_END, augmentedInitial);
-const scratch = new Float64Array(AUGMENTED_DIMENSION);
-
-function exactState(t: number, out: Float64Array): void {
-  trajectory(t, scratch);
-  for (let i = 0; i < N; i++) out[i] = scratch[i]!;
-}
+const exactState = exactSolution({ size: AUGMENTED_DIMENSION, M: augmentedMatrix, z0: augmentedInitial }, N, 0, T_END);
 
 const CHECK_TIMES = Array.from({ length: T_END }, (_, k) => k + 1);
 

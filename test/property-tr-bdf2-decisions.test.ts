@@ -1,5 +1,6 @@
 // Property: trapezoidal-bdf2 decides its Newton test and its step factor without the general
-// power routine (src/methods/implicit/tr-bdf2.ts, dampedTimesWithin and acceptedFactor), and
+// power routine (dampedTimesWithin in src/methods/implicit/common.ts, shared with bdf-variable,
+// and acceptedFactor in tr-bdf2.ts), and
 // must decide exactly as the direct formulas do, bit for bit, so that no count moves. The
 // reference here is the direct floating-point expression each helper replaces, written out as
 // the method stated it before (Newton: RADAU5's max(eta, eps)^0.8 * dy <= tol, Hairer & Wanner,
@@ -7,7 +8,8 @@
 // both at random and right at the thresholds, where a shortcut would go wrong first.
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { acceptedFactor, dampedTimesWithin } from '../src/methods/implicit/tr-bdf2.js';
+import { dampedTimesWithin } from '../src/methods/implicit/common.js';
+import { acceptedFactor } from '../src/methods/implicit/tr-bdf2.js';
 
 const EPS = 2.220446049250313e-16;
 const SAFE = 0.9;

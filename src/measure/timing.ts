@@ -13,7 +13,12 @@ export interface TimingOptions {
 }
 
 /** Timing is extended until the relative margin of error is below this (runs under a second). */
-const TARGET_RME_PERCENT = 5;
+export const TARGET_RME_PERCENT = 5;
+
+/** Whether a median this uncertain, of a run this short, is worth timing longer. */
+export function needsMoreTime(rmePercent: number, medianMs: number): boolean {
+  return rmePercent > TARGET_RME_PERCENT && medianMs < 1000;
+}
 const MAX_BUDGET_DOUBLINGS = 3;
 /** Solves run before timing starts (fewer when the budget runs out first). */
 const WARMUP_SOLVES = 20;
@@ -67,7 +72,7 @@ export async function timeRun(
       samples: r.latency.samplesCount,
       rmePercent: rme,
     };
-    if (!(rme > TARGET_RME_PERCENT) || r.latency.p50 >= 1000) break;
+    if (!needsMoreTime(rme, r.latency.p50)) break;
     budget *= 2;
   }
   return best;

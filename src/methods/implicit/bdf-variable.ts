@@ -8,7 +8,7 @@ import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { rescaleDifferences } from './bdf-rescale.js';
-import { EPS, powInt, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
+import { EPS, dampedTimesWithin, powInt, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
 
 const MAX_ORDER = 5;
@@ -81,7 +81,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     const c = h / GAMMA[k]!;
     let dyOld = 0;
     let rate = 0;
-    st.eta = Math.max(st.eta, EPS) ** 0.8;
+    // Damped carried estimate, its power taken only when kept (see dampedTimesWithin).
+    const etaBase = Math.max(st.eta, EPS);
     for (let it = 0; it < NEWTON_MAXITER; it++) {
       f(t + h, ycur, fcur);
       counts.nfev++;
@@ -99,7 +100,10 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
         ycur[i] = ycur[i]! + delta[i]!;
         dcor[i] = dcor[i]! + delta[i]!;
       }
-      if (dy === 0 || st.eta * dy <= newtonTol) return true;
+      if (it === 0 ? dy === 0 || dampedTimesWithin(etaBase, dy, newtonTol) : st.eta * dy <= newtonTol) {
+        if (it === 0) st.eta = etaBase ** 0.8;
+        return true;
+      }
       dyOld = dy;
     }
     return false;

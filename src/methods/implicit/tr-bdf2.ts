@@ -32,7 +32,7 @@
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { EPS, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
+import { DECIDE_BAND, EPS, dampedTimesWithin, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
 
 const GAMMA = 2 - Math.SQRT2;
@@ -57,11 +57,6 @@ const SAFE = 0.9;
 const MIN_FACTOR = 0.2;
 const MAX_FACTOR = 5;
 const HOLD_RATIO = 1.2;
-/** Relative width of the band in which the power-free tests defer to the power (see acceptedFactor). */
-const DECIDE_BAND = 1e-12;
-/** Range in which the power-free test's products are normal numbers. */
-const POW_RANGE_LO = 1e-280;
-const POW_RANGE_HI = 1e280;
 /** The error at which SAFE e^(-1/3) equals 1, HOLD_RATIO and MAX_FACTOR. */
 const ERR_FACTOR_1 = SAFE ** 3;
 const ERR_FACTOR_HOLD = (SAFE / HOLD_RATIO) ** 3;
@@ -76,25 +71,6 @@ export function trBdf2Tolerances(tol: Tolerances): Tolerances {
   const rtol = Math.max(Math.min(tol.rtol, TOL_ANCHOR * (tol.rtol / TOL_ANCHOR) ** 1.5), Math.min(tol.rtol, TOL_FLOOR));
   const ratio = rtol / tol.rtol;
   return { rtol, atol: tol.atol.map((a) => a * ratio) };
-}
-
-/**
- * Whether damped * dy <= tol with damped = base^0.8, decided as the floating-point expression
- * `base ** 0.8 * dy <= tol` decides it. In exact arithmetic the test is base^4 <= (tol/dy)^5,
- * which takes products only; the general power routine it avoids was a quarter of this method's
- * time. The products carry a relative error of about 1e-15, so outside a band of 1e-12 around
- * equality both forms agree; inside it, and where the powers would leave the normal range, the
- * original expression decides. Same decisions, bit for bit, so counts do not move.
- */
-export function dampedTimesWithin(base: number, dy: number, tol: number): boolean {
-  const r = tol / dy;
-  const lhs = base * base * base * base;
-  const rhs = r * r * r * r * r;
-  if (rhs > POW_RANGE_LO && rhs < POW_RANGE_HI && lhs < POW_RANGE_HI) {
-    if (lhs <= rhs * (1 - DECIDE_BAND)) return true;
-    if (lhs >= rhs * (1 + DECIDE_BAND)) return false;
-  }
-  return base ** 0.8 * dy <= tol;
 }
 
 /**
@@ -151,9 +127,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
 
   /** Solve z = rhs + d h f(tz, z) from the start value in z; fOut gets f(tz, z) via the stage relation. */
   function newton(tz: number, h: number, fOut: Float64Array): boolean {
-    // The carried contraction estimate enters damped, max(eta, eps)^0.8 (RADAU5's rule). Its
-    // power is taken only when the first iteration converges, the one case that keeps it: later
-    // iterations replace it, failures reset it (see dampedTimesWithin).
+    // The carried contraction estimate enters damped, max(eta, eps)^0.8 (RADAU5's rule), its
+    // power taken only when kept (see dampedTimesWithin).
     const etaBase = Math.max(st.eta, EPS);
     let dyOld = 0;
     const dh = DIAG * h;
@@ -170,8 +145,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
         st.eta = rate / (1 - rate);
       }
       for (let i = 0; i < n; i++) z[i] = z[i]! + delta[i]!;
-      const converged = it === 0 ? dy === 0 || dampedTimesWithin(etaBase, dy, newtonTol) : st.eta * dy <= newtonTol;
-      if (converged) {
+      if (it === 0 ? dy === 0 || dampedTimesWithin(etaBase, dy, newtonTol) : st.eta * dy <= newtonTol) {
         if (it === 0) st.eta = etaBase ** 0.8;
         // f at the converged stage from the stage equation, consistent with what was solved.
         const inv = 1 / dh;
