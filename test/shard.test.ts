@@ -69,6 +69,24 @@ describe('parseShardSpec', () => {
     expect(parseShardSpec(' 1 / 1 ')).toEqual({ index: 1, count: 1 });
   });
   it.each(['0/3', '4/3', '1/0', '2', 'a/b', '1/2/3', '-1/3', ''])('rejects %j naming --shard', (spec) => {
-    expect(() => parseShardSpec(spec)).toThrow(/^--shard: /);
+    expect(() => parseShardSpec(spec, '--shard', {})).toThrow(/^--shard: /);
+  });
+  // Index bases as each engine documents them: Kubernetes JOB_COMPLETION_INDEX and AWS Batch
+  // AWS_BATCH_JOB_ARRAY_INDEX count from 0; GitLab CI_NODE_INDEX counts from 1 beside CI_NODE_TOTAL.
+  it('takes K from the batch engine when only N is given', () => {
+    expect(parseShardSpec('4', '--shard', { JOB_COMPLETION_INDEX: '0' })).toEqual({ index: 1, count: 4 });
+    expect(parseShardSpec('4', '--shard', { JOB_COMPLETION_INDEX: '3' })).toEqual({ index: 4, count: 4 });
+    expect(parseShardSpec('8', '--shard', { AWS_BATCH_JOB_ARRAY_INDEX: '5' })).toEqual({ index: 6, count: 8 });
+    expect(parseShardSpec('3', '--shard', { CI_NODE_INDEX: '3', CI_NODE_TOTAL: '3' })).toEqual({ index: 3, count: 3 });
+    expect(parseShardSpec('3', '--shard', { CI_NODE_INDEX: '2', JOB_COMPLETION_INDEX: '1' })).toEqual({ index: 2, count: 3 });
+  });
+  it.each([
+    [{}, /none is set/],
+    [{ JOB_COMPLETION_INDEX: '4' }, /JOB_COMPLETION_INDEX=4 .* outside 4 shards/],
+    [{ JOB_COMPLETION_INDEX: 'x' }, /expected a whole number/],
+    [{ CI_NODE_INDEX: '1', CI_NODE_TOTAL: '5' }, /CI_NODE_TOTAL=5 but --shard gives 4/],
+    [{ CI_NODE_INDEX: '1', JOB_COMPLETION_INDEX: '2' }, /name different shards/],
+  ] as const)('refuses N alone with %j', (env, says) => {
+    expect(() => parseShardSpec('4', '--shard', env)).toThrow(says);
   });
 });

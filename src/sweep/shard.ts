@@ -10,15 +10,60 @@ export interface ShardSpec {
   count: number;
 }
 
-/** Parses "K/N" with 1 <= K <= N. */
-export function parseShardSpec(spec: string, where = '--shard'): ShardSpec {
+/**
+ * Batch engines that run array jobs, and the variable each one sets for a job's own index. The
+ * first three count from 0, GitLab from 1 (and it also gives the total). Names from each engine's
+ * documentation of indexed/array jobs.
+ */
+export const SHARD_INDEX_VARIABLES: readonly { name: string; base: 0 | 1; engine: string; total?: string }[] = [
+  { name: 'JOB_COMPLETION_INDEX', base: 0, engine: 'Kubernetes Indexed Job' },
+  { name: 'AWS_BATCH_JOB_ARRAY_INDEX', base: 0, engine: 'AWS Batch array job' },
+  { name: 'CI_NODE_INDEX', base: 1, engine: 'GitLab parallel job', total: 'CI_NODE_TOTAL' },
+];
+
+/**
+ * Parses "K/N" with 1 <= K <= N, or "N" alone, whose K comes from the batch engine's own index
+ * variable in `env` (refused when none is set, or when two disagree).
+ */
+export function parseShardSpec(spec: string, where = '--shard', env: NodeJS.ProcessEnv = process.env): ShardSpec {
+  const total = /^\s*(\d+)\s*$/.exec(spec);
+  if (total) return shardFromEnvironment(Number(total[1]), where, env);
   const m = /^\s*(\d+)\s*\/\s*(\d+)\s*$/.exec(spec);
-  if (!m) throw new InputError(`expected K/N (e.g. 2/4), got ${JSON.stringify(spec)}`, where);
+  if (!m) throw new InputError(`expected K/N (e.g. 2/4) or a total N whose K comes from the batch engine, got ${JSON.stringify(spec)}`, where);
   const index = Number(m[1]);
   const count = Number(m[2]);
   if (count < 1) throw new InputError(`shard count must be at least 1, got ${JSON.stringify(spec)}`, where);
   if (index < 1 || index > count) throw new InputError(`shard number must be between 1 and ${count}, got ${JSON.stringify(spec)}`, where);
   return { index, count };
+}
+
+function shardFromEnvironment(count: number, where: string, env: NodeJS.ProcessEnv): ShardSpec {
+  if (count < 1) throw new InputError(`shard count must be at least 1, got ${count}`, where);
+  const found: { name: string; index: number }[] = [];
+  for (const v of SHARD_INDEX_VARIABLES) {
+    const raw = env[v.name];
+    if (raw === undefined || raw.trim() === '') continue;
+    if (!/^\s*\d+\s*$/.test(raw)) throw new InputError(`${v.name} is ${JSON.stringify(raw)}; expected a whole number (${v.engine} index)`, where);
+    const index = Number(raw) - v.base + 1;
+    if (index < 1 || index > count) {
+      throw new InputError(`${v.name}=${raw.trim()} (${v.engine}, counted from ${v.base}) is outside ${count} shards; the job's parallelism and --shard ${count} must agree`, where);
+    }
+    const declared = v.total === undefined ? undefined : env[v.total];
+    if (declared !== undefined && declared.trim() !== '' && Number(declared) !== count) {
+      throw new InputError(`${v.total}=${declared.trim()} but --shard gives ${count} shards; they must agree`, where);
+    }
+    found.push({ name: v.name, index });
+  }
+  if (found.length === 0) {
+    throw new InputError(
+      `a total without an index needs the batch engine's index variable (${SHARD_INDEX_VARIABLES.map((v) => v.name).join(', ')}); none is set. Give K/N to choose a shard by hand`,
+      where,
+    );
+  }
+  const first = found[0]!;
+  const other = found.find((f) => f.index !== first.index);
+  if (other) throw new InputError(`${first.name} and ${other.name} name different shards (${first.index} and ${other.index}); unset one`, where);
+  return { index: first.index, count };
 }
 
 type Keyed = { expectedCost?: number; planIndex?: number; problem?: string; method?: string; setting?: unknown };

@@ -104,7 +104,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('--controller <kind>', 'step-size controller for explicit pairs: standard or pi', 'standard')
     .option('-j, --jobs <n>', 'parallel workers (default: available cores)')
     .option('--run-timeout <seconds>', 'end a run that takes longer (its worker is terminated); status timeout')
-    .option('--shard <K/N>', 'run only the K-th of N balanced slices of the plan (merge them with `stepgauge merge`)')
+    .option('--shard <K/N or N>', 'run only the K-th of N balanced slices of the plan (merge them with `stepgauge merge`); with N alone, K comes from the batch engine (JOB_COMPLETION_INDEX, AWS_BATCH_JOB_ARRAY_INDEX or CI_NODE_INDEX)')
     .option('--no-report', 'write only results.json and results.csv, no plots or report')
     .option('--json', 'print results.json to standard output instead of the summary')
     .option('-q, --quiet', 'no progress line')
