@@ -4,7 +4,7 @@
 // `stepgauge choose` uses (rtol 1e-2 down to 1e-15; cost = nfev, so the search itself never
 // times anything); the chosen setting is then timed with tinybench like any timed run (check
 // times on, no observer).
-import type { RunResult } from '../src/core/results.js';
+import type { RunResult } from '../src/results/contract.js';
 import type { Method, Setting } from '../src/core/types.js';
 import { DEFAULT_TIMING } from '../src/measure/timing.js';
 import { explicitMethods } from '../src/methods/explicit/index.js';

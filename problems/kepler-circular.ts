@@ -7,7 +7,7 @@
 // Invariants: energy |v|^2/2 - 1/|x| = -1/2 and angular momentum |x cross v| = 1.
 // Checked four times per orbit, so phase drift shows up as it grows.
 import type { Problem } from '../src/core/types.js';
-import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from '../src/problems/two-body.js';
+import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from './physics/two-body.js';
 
 const MU = 1;
 const C30 = Math.cos(Math.PI / 6);

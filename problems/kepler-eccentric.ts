@@ -6,8 +6,8 @@
 // Error scale: absolute. Invariants: energy -1/2 and angular momentum sqrt(1 - e^2) = 0.8.
 // Checked four times per orbit; near periapsis the speed is 2, the hardest part for step control.
 import type { Problem } from '../src/core/types.js';
-import { ellipticState } from '../src/problems/kepler.js';
-import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from '../src/problems/two-body.js';
+import { ellipticState } from './physics/kepler.js';
+import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from './physics/two-body.js';
 
 const MU = 1;
 const E = 0.6;

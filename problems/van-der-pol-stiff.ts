@@ -13,7 +13,7 @@
 // atolScale [1, 1e-3]: atol_i = rtol times the slow-branch magnitude of each component.
 // Invariants: none.
 import type { Problem } from '../src/core/types.js';
-import { vanDerPolJacobian, vanDerPolRhs } from '../src/problems/van-der-pol.js';
+import { vanDerPolJacobian, vanDerPolRhs } from './physics/van-der-pol.js';
 
 const MU = 1000;
 const Y_END = [1.706167732170469, -0.8928097010248125e-3];

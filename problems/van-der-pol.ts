@@ -10,7 +10,7 @@
 // Error scale: absolute (components stay O(1), |y1| <= 2.01, |y2| <= 2.7).
 // Invariants: none (dissipative on one part of the cycle, pumped on the other).
 import type { Problem } from '../src/core/types.js';
-import { vanDerPolJacobian, vanDerPolRhs } from '../src/problems/van-der-pol.js';
+import { vanDerPolJacobian, vanDerPolRhs } from './physics/van-der-pol.js';
 
 const MU = 1;
 

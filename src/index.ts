@@ -4,16 +4,16 @@
 // Shared types and small helpers
 export type * from './core/types.js';
 export { zeroCounts, isAdaptiveSetting } from './core/types.js';
-export type { ResultsFile, RunResult, RunSetting, ProblemRecord, Environment, DriftTrace } from './core/results.js';
-export { RESULTS_FORMAT, RESULTS_VERSION, runKey } from './core/results.js';
+export type { ResultsFile, RunResult, RunSetting, ProblemRecord, Environment, DriftTrace } from './results/contract.js';
+export { RESULTS_FORMAT, RESULTS_VERSION, runKey } from './results/contract.js';
 export { InputError, isInputError } from './core/errors.js';
 export { luFactor, luSolve } from './core/lu.js';
 
 // Authoring problems and methods
-export { defineProblem, stableText, type ProblemSpec } from './problems/define.js';
-export { defineMethod, type MethodSpec } from './methods/define.js';
+export { defineProblem, stableText, type ProblemSpec } from './authoring/define-problem.js';
+export { defineMethod, type MethodSpec } from './authoring/define-method.js';
 export { loadProblemFile } from './problems/load-file.js';
-export { loadModule, loadProblemModule, loadMethodModule } from './problems/module-loader.js';
+export { loadModule, loadProblemModule, loadMethodModule } from './authoring/module-loader.js';
 
 // Built-ins
 export { builtinMethods, findMethod } from './methods/registry.js';
@@ -30,14 +30,14 @@ export { prestartLanes, type PrestartedLanes } from './sweep/lanes.js';
 export { planSweep, DEFAULT_TOLERANCES, DEFAULT_STEPS, type PlannedRun, type SweepPlan } from './sweep/plan.js';
 export { chooseMethod, type Choice, type Candidate, type ChooseOptions } from './sweep/choose.js';
 export { selectShard, parseShardSpec } from './sweep/shard.js';
-export { mergeResults } from './sweep/merge.js';
+export { mergeResults } from './results/merge.js';
 
 // Results files, reports and the gate
-export { readResultsFile, validateResults } from './report/read-results.js';
-export { resultsCsv } from './report/csv.js';
-export { resultsJson } from './report/json.js';
+export { readResultsFile, validateResults } from './results/read.js';
+export { resultsCsv } from './results/csv.js';
+export { resultsJson } from './results/json.js';
 export { writeReport } from './report/index.js';
-export { writeFileAtomic, writeFolderAtomically } from './report/atomic.js';
+export { writeFileAtomic, writeFolderAtomically } from './results/atomic.js';
 export { compareResults, type Comparison, type CompareOptions } from './gate/compare.js';
 export { makeBaseline, serializeBaseline, readBaselineFile, type Baseline } from './gate/baseline.js';
 export { junitXml } from './gate/junit.js';

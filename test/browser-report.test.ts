@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium, type Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { ResultsFile } from '../src/core/results.js';
+import type { ResultsFile } from '../src/results/contract.js';
 import { writeReport } from '../src/report/index.js';
 import { runSweep } from '../src/sweep/run.js';
 import { pngSize } from './report-helpers.js';

@@ -1,6 +1,6 @@
 // Kepler's equation solver and the elliptic state built on it.
 import { describe, expect, it } from 'vitest';
-import { ellipticState, solveKepler } from '../src/problems/kepler.js';
+import { ellipticState, solveKepler } from '../problems/physics/kepler.js';
 
 /** Bisection on the monotone g(E) = E - e sin E - M, an algorithm independent of Newton. */
 function bisectKepler(M: number, e: number): number {

@@ -8,7 +8,7 @@ import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from './helpers/cli.js';
-import type { ResultsFile, RunResult } from '../src/core/results.js';
+import type { ResultsFile, RunResult } from '../src/results/contract.js';
 
 const crane = join(import.meta.dirname, '..', 'examples', 'crane-payload-swing.yaml');
 

@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { stringify } from 'csv-stringify/sync';
 import { parse } from 'csv-parse/sync';
-import { csvText, resultsCsv, CSV_COLUMNS } from '../src/report/csv.js';
+import { csvText, resultsCsv, CSV_COLUMNS } from '../src/results/csv.js';
 import { runSweep } from '../src/sweep/run.js';
 
 // Characters that matter to CSV (separator, quote, both line breaks, space) mixed with plain ones.

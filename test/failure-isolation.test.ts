@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runCli } from './helpers/cli.js';
-import type { ResultsFile, RunResult } from '../src/core/results.js';
+import type { ResultsFile, RunResult } from '../src/results/contract.js';
 
 const MODULES = 'test/fixtures/modules';
 const scratch: string[] = [];

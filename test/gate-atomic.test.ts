@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { writeFileAtomic, writeFolderAtomically } from '../src/report/atomic.js';
+import { writeFileAtomic, writeFolderAtomically } from '../src/results/atomic.js';
 
 describe('atomic writes', () => {
   it('replaces a file and leaves no temporary', async () => {

@@ -5,7 +5,7 @@ import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from './helpers/cli.js';
-import type { ResultsFile } from '../src/core/results.js';
+import type { ResultsFile } from '../src/results/contract.js';
 
 const here = join(import.meta.dirname, 'fixtures', 'gate-e2e');
 function tmp(): string {

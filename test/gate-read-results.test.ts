@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { parseResultsText, readResultsFile, READABLE_RESULTS } from '../src/report/read-results.js';
+import { parseResultsText, readResultsFile, READABLE_RESULTS } from '../src/results/read.js';
 import { syntheticResults, syntheticRun } from './fixtures/gate/synthetic.js';
 import { InputError } from '../src/core/errors.js';
 

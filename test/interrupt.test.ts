@@ -6,7 +6,7 @@ import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { ResultsFile } from '../src/core/results.js';
+import type { ResultsFile } from '../src/results/contract.js';
 
 const bin = join(import.meta.dirname, '..', 'bin', 'stepgauge.js');
 

@@ -5,7 +5,7 @@ import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Journal, journalPath, readJournal } from '../src/sweep/journal.js';
-import type { RunResult } from '../src/core/results.js';
+import type { RunResult } from '../src/results/contract.js';
 
 const run = (planIndex: number, message?: string): RunResult =>
   ({ problem: 'p', method: 'm', status: 'ok', planIndex, yFinal: [planIndex, 0.1], ...(message ? { message } : {}) }) as unknown as RunResult;

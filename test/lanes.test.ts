@@ -6,7 +6,7 @@ import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import { createLane, laneStarted, LaneStartError, prestartLanes } from '../src/sweep/lanes.js';
 import { runSweep, type SweepRequest } from '../src/sweep/run.js';
-import type { ResultsFile } from '../src/core/results.js';
+import type { ResultsFile } from '../src/results/contract.js';
 
 const REQUEST: SweepRequest = {
   problem: 'harmonic-oscillator,van-der-pol',

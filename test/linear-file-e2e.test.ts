@@ -5,7 +5,7 @@ import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from './helpers/cli.js';
-import type { ResultsFile } from '../src/core/results.js';
+import type { ResultsFile } from '../src/results/contract.js';
 import { sig3 } from '../src/report/format.js';
 
 const file = join(import.meta.dirname, '..', 'examples', 'linear-chain.yaml');

@@ -1,9 +1,9 @@
 // Merging shards: refuses overlaps and mismatches naming the files; the merge of all shards
 // equals the unsharded sweep in everything but time. SYNTHETIC runs (test/fixtures/gate).
 import { describe, expect, it } from 'vitest';
-import { mergeResults, type MergeInput } from '../src/sweep/merge.js';
+import { mergeResults, type MergeInput } from '../src/results/merge.js';
 import { selectShard } from '../src/sweep/shard.js';
-import type { ResultsFile, RunResult } from '../src/core/results.js';
+import type { ResultsFile, RunResult } from '../src/results/contract.js';
 import { syntheticResults, syntheticRun, syntheticSweep } from './fixtures/gate/synthetic.js';
 
 const PLAN = 'plan-sha-synthetic';

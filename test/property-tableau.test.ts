@@ -16,7 +16,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { fixedStepMethod, type TableauData } from '../src/methods/explicit/index.js';
-import { defineProblem } from '../src/problems/define.js';
+import { defineProblem } from '../src/authoring/define-problem.js';
 import type { Method, Rhs } from '../src/core/types.js';
 
 function rk2(alpha: number): TableauData {

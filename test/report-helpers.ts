@@ -1,7 +1,7 @@
 // Shared helpers for the report tests: the synthetic structural fixture and PNG header reading.
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import type { ResultsFile } from '../src/core/results.js';
+import type { ResultsFile } from '../src/results/contract.js';
 
 /** SYNTHETIC fixture (made-up power laws), for structure only; see its `synthetic` field. */
 export function syntheticResults(): ResultsFile {

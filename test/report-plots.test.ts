@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { ResultsFile, RunResult } from '../src/core/results.js';
+import type { ResultsFile, RunResult } from '../src/results/contract.js';
 import { decade, decadeLabel, decadeRange, decadeTicks, superscript } from '../src/report/plots/axes.js';
 import { fitLogLog } from '../src/report/plots/fit.js';
 import { plotContext } from '../src/report/plots/context.js';

@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../src/cli/main.js';
-import type { ResultsFile } from '../src/core/results.js';
+import type { ResultsFile } from '../src/results/contract.js';
 import { escapeHtml, escapeMarkdown } from '../src/report/escape.js';
 import { sig3 } from '../src/report/format.js';
 import { CAUTION_TEXT, summarize, writeReport } from '../src/report/index.js';

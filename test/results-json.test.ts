@@ -2,9 +2,9 @@
 // JSON.stringify of the results (the JSON specification, RFC 8259, is the reference: any
 // conforming parser must read both texts to equal values).
 import { describe, expect, it } from 'vitest';
-import { resultsJson } from '../src/report/json.js';
+import { resultsJson } from '../src/results/json.js';
 import { runSweep } from '../src/sweep/run.js';
-import type { ResultsFile } from '../src/core/results.js';
+import type { ResultsFile } from '../src/results/contract.js';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';

@@ -1,9 +1,9 @@
 // Problem and method modules: bundling with relative imports, the 'stepgauge' self-import,
 // refusal of modules that export neither, and the example Heun method's measured order.
 import { describe, expect, test } from 'vitest';
-import { loadMethodModule, loadModule, loadProblemModule } from '../src/problems/module-loader.js';
-import { defineProblem } from '../src/problems/define.js';
-import { defineMethod } from '../src/methods/define.js';
+import { loadMethodModule, loadModule, loadProblemModule } from '../src/authoring/module-loader.js';
+import { defineProblem } from '../src/authoring/define-problem.js';
+import { defineMethod } from '../src/authoring/define-method.js';
 
 describe('problem modules', () => {
   test('a .ts module with a relative import and `import from stepgauge` loads', async () => {

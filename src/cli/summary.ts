@@ -1,5 +1,5 @@
 // The readable summary printed after a sweep: one line per (problem, method).
-import type { ResultsFile, RunResult } from '../core/results.js';
+import type { ResultsFile, RunResult } from '../results/contract.js';
 import { sig3 } from '../report/format.js';
 
 function pad(s: string, w: number): string {

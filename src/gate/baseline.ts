@@ -5,9 +5,9 @@
 import { parseJsonText } from '../core/json-text.js';
 import { readFileSync } from 'node:fs';
 import { InputError } from '../core/errors.js';
-import { runKey, type ResultsFile, type RunResult, type RunSetting } from '../core/results.js';
+import { runKey, type ResultsFile, type RunResult, type RunSetting } from '../results/contract.js';
 import type { Counts, Status } from '../core/types.js';
-import { Validator } from './validate.js';
+import { Validator } from '../results/validate.js';
 
 export const BASELINE_FORMAT = 'stepgauge-baseline';
 export const BASELINE_VERSION = 1;

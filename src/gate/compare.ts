@@ -16,7 +16,7 @@
 //   the same process, so a uniformly slower machine compares equal.
 // - A baseline run absent now is a regression unless allowMissing; new runs are listed only.
 import { InputError } from '../core/errors.js';
-import { runKey, type ResultsFile, type RunSetting } from '../core/results.js';
+import { runKey, type ResultsFile, type RunSetting } from '../results/contract.js';
 import type { Counts } from '../core/types.js';
 import type { Baseline, BaselineRun } from './baseline.js';
 import { num3 } from './format.js';

@@ -1,6 +1,6 @@
 // Text forms shared by the check report, JUnit output and test assertions, so a regression
 // reads the same wherever it shows up.
-import type { RunSetting } from '../core/results.js';
+import type { RunSetting } from '../results/contract.js';
 
 /** Compact number for settings: 1e-6 rather than 0.000001, integers as they are. */
 export function settingNumber(x: number): string {

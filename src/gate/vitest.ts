@@ -2,7 +2,7 @@
 // framework import: failures are node:assert AssertionErrors, which vitest, node:test and others
 // report as ordinary assertion failures with the message shown.
 import { AssertionError } from 'node:assert';
-import { RESULTS_FORMAT, runKey, type ResultsFile, type RunResult } from '../core/results.js';
+import { RESULTS_FORMAT, runKey, type ResultsFile, type RunResult } from '../results/contract.js';
 import { readBaselineFile, type Baseline } from './baseline.js';
 import { compareResults, type CompareOptions, type Comparison } from './compare.js';
 import { regressionsText, thresholdsText } from './report-text.js';

@@ -6,7 +6,7 @@
 // process for about 50 ms after the last run, with a parallel sweep's cores idle.
 import { execFile } from 'node:child_process';
 import os from 'node:os';
-import type { Environment } from '../core/results.js';
+import type { Environment } from '../results/contract.js';
 import { packageVersion } from '../core/version.js';
 
 /** A git command's standard output, or null when git or the repository is not there. */

@@ -1,7 +1,7 @@
 // What one measured solve watches along the way: the worst error at every landing where a reference
 // exists, the worst drift of every invariant, and a thinned drift trace for plots.
 import type { Problem } from '../core/types.js';
-import type { DriftTrace } from '../core/results.js';
+import type { DriftTrace } from '../results/contract.js';
 import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';
 

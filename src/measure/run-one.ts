@@ -2,7 +2,7 @@
 // separately, timed repeat solves without observers so measurement never pollutes the clock.
 import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../core/types.js';
 import { isAdaptiveSetting, zeroCounts } from '../core/types.js';
-import type { RunResult, RunSetting } from '../core/results.js';
+import type { RunResult, RunSetting } from '../results/contract.js';
 import { messageOf } from '../core/errors.js';
 import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';

@@ -1,6 +1,6 @@
 // Number and setting text shared by plots, HTML and Markdown: 3 significant digits for measured
 // values (the JSON keeps full precision), exact integers for counts.
-import type { RunSetting } from '../core/results.js';
+import type { RunSetting } from '../results/contract.js';
 
 /** 3 significant digits; "—" for null/undefined, and NaN/Infinity spelled out. */
 export function sig3(v: number | null | undefined): string {

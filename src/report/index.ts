@@ -2,7 +2,7 @@
 // report.md into a folder the caller owns (and later renames into place).
 import { mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import type { ResultsFile } from '../core/results.js';
+import type { ResultsFile } from '../results/contract.js';
 import { renderHtml } from './html.js';
 import { renderMarkdown } from './markdown.js';
 import { buildModel } from './model.js';

@@ -5,7 +5,7 @@
 import { randomBytes } from 'node:crypto';
 import { lstat, mkdir, rename, rm } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
-import type { ResultsFile } from '../core/results.js';
+import type { ResultsFile } from '../results/contract.js';
 import { writeReport } from './index.js';
 
 async function exists(p: string): Promise<boolean> {

@@ -1,6 +1,6 @@
 // What the report knows about each method: the optional `methods` list a sweep may add to the
 // results file, with the bare id as the fallback name when it is absent.
-import type { ResultsFile } from '../core/results.js';
+import type { ResultsFile } from '../results/contract.js';
 
 export interface MethodInfo {
   id: string;

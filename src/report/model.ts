@@ -1,5 +1,5 @@
 // Everything the HTML and Markdown renderers show, gathered once so the two say the same thing.
-import type { ProblemRecord, ResultsFile, RunResult } from '../core/results.js';
+import type { ProblemRecord, ResultsFile, RunResult } from '../results/contract.js';
 import { tightness } from './format.js';
 import type { MethodInfo } from './methods.js';
 import type { PlotContext, ProblemPlots } from './plots/index.js';

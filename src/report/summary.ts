@@ -1,6 +1,6 @@
 // Summary figures computed from the runs: counts, failures by status, and the cheapest method
 // per problem that reached each of a few error levels.
-import type { ResultsFile, RunResult } from '../core/results.js';
+import type { ResultsFile, RunResult } from '../results/contract.js';
 import type { Status } from '../core/types.js';
 import { problemOrder } from './plots/context.js';
 import { methodOrder } from './plots/palette.js';

@@ -1,6 +1,6 @@
 // The per-problem results table as data: one row per run, each cell with its display text (3
 // significant digits, exact counts) and a sort key carrying the full value.
-import type { RunResult } from '../core/results.js';
+import type { RunResult } from '../results/contract.js';
 import { integer, settingLabel, sig3, tightness } from './format.js';
 import type { MethodInfo } from './methods.js';
 

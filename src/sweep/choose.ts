@@ -2,7 +2,7 @@
 // (adaptive) or the fewest equal steps (fixed-step) whose measured error meets the target, found on
 // a decade grid and refined by bisection, then confirmed by a final measured (and timed) run.
 import type { Method, Problem, Setting } from '../core/types.js';
-import type { RunResult } from '../core/results.js';
+import type { RunResult } from '../results/contract.js';
 import { measureRun, type RunOptions } from '../measure/run-one.js';
 import { timeRun, type TimingOptions } from '../measure/timing.js';
 import { pairingGap } from './plan.js';

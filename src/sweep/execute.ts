@@ -1,6 +1,6 @@
 // Executing one planned run: a measured solve, then timed repeats when the run succeeded.
 import type { Method, Problem } from '../core/types.js';
-import type { RunResult } from '../core/results.js';
+import type { RunResult } from '../results/contract.js';
 import { appendMessage, measureRun, type RunOptions } from '../measure/run-one.js';
 import { timeRun, type TimingOptions } from '../measure/timing.js';
 import type { PlannedRun } from './plan.js';

@@ -2,7 +2,7 @@
 // Ctrl-C or a killed CI job loses at most the runs in flight. `run --resume` reads it back.
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeFileSync, writeSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
-import type { RunResult } from '../core/results.js';
+import type { RunResult } from '../results/contract.js';
 import { InputError } from '../core/errors.js';
 
 const JOURNAL_KIND = 'stepgauge-journal';

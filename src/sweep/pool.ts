@@ -17,7 +17,7 @@
 // 1.86-1.97x (bench/README.md, "Reading the targets").
 import type Tinypool from 'tinypool';
 import type { Problem } from '../core/types.js';
-import type { RunResult } from '../core/results.js';
+import type { RunResult } from '../results/contract.js';
 import { messageOf } from '../core/errors.js';
 import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';

@@ -1,7 +1,7 @@
 // Running a planned sweep in this process and assembling the results file.
 import type { Method, Problem } from '../core/types.js';
-import type { Environment, ProblemRecord, ResultsFile, RunResult } from '../core/results.js';
-import { RESULTS_FORMAT, RESULTS_VERSION } from '../core/results.js';
+import type { Environment, ProblemRecord, ResultsFile, RunResult } from '../results/contract.js';
+import { RESULTS_FORMAT, RESULTS_VERSION } from '../results/contract.js';
 import { sha256 } from '../core/hash.js';
 import { environmentFingerprint } from '../measure/environment.js';
 import { calibrationSeconds } from '../measure/timing.js';

@@ -2,7 +2,7 @@
 // share, so the split must be a pure function of the plan: no clock, no randomness, no
 // dependence on which job computes it.
 import { InputError } from '../core/errors.js';
-import { runKey, type RunSetting } from '../core/results.js';
+import { runKey, type RunSetting } from '../results/contract.js';
 
 export interface ShardSpec {
   /** 1-based shard number K of "K/N". */

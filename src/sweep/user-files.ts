@@ -4,7 +4,7 @@ import { extname } from 'node:path';
 import type { Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { loadProblemFile } from '../problems/load-file.js';
-import { loadMethodModule, loadProblemModule } from '../problems/module-loader.js';
+import { loadMethodModule, loadProblemModule } from '../authoring/module-loader.js';
 
 const MODULE = /\.(?:[cm]?[jt]s)$/i;
 

@@ -2,7 +2,7 @@
 // the same entries the user gave (built-in ids or file paths), caches them for the worker's life,
 // executes runs (several to a message when they are short, see executeOnPool).
 import type { Method, Problem } from '../core/types.js';
-import type { RunResult } from '../core/results.js';
+import type { RunResult } from '../results/contract.js';
 import { messageOf } from '../core/errors.js';
 import { executeRun, type ExecuteOptions } from './execute.js';
 import { failedRun } from '../measure/run-one.js';

@@ -1,8 +1,8 @@
 // `stepgauge baseline`: reduce a results file to a committed baseline with reproducible bytes.
 import { InputError } from '../../core/errors.js';
 import { makeBaseline, serializeBaseline } from '../../gate/baseline.js';
-import { writeFileAtomic } from '../../report/atomic.js';
-import { readResultsFile } from '../../report/read-results.js';
+import { writeFileAtomic } from '../../results/atomic.js';
+import { readResultsFile } from '../../results/read.js';
 import type { RegisterCommand } from './index.js';
 
 export const registerBaseline: RegisterCommand = (program) => {

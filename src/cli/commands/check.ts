@@ -1,13 +1,13 @@
 // `stepgauge check`: gate a results file against a committed baseline (exit 1 on regressions).
 import { readFileSync } from 'node:fs';
 import { InputError } from '../../core/errors.js';
-import type { ResultsFile } from '../../core/results.js';
+import type { ResultsFile } from '../../results/contract.js';
 import { BASELINE_FORMAT, READABLE_BASELINE, validateBaseline, type Baseline } from '../../gate/baseline.js';
 import { compareResults } from '../../gate/compare.js';
 import { junitXml } from '../../gate/junit.js';
 import { formatComparison } from '../../gate/report-text.js';
-import { writeFileAtomic } from '../../report/atomic.js';
-import { READABLE_RESULTS, readResultsFile, validateResults } from '../../report/read-results.js';
+import { writeFileAtomic } from '../../results/atomic.js';
+import { READABLE_RESULTS, readResultsFile, validateResults } from '../../results/read.js';
 import type { RegisterCommand } from './index.js';
 
 interface CheckFlags {

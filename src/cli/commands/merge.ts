@@ -1,8 +1,8 @@
 // `stepgauge merge`: join the shards of one sweep (or separate sweeps) into one results file.
-import { writeFileAtomic } from '../../report/atomic.js';
-import { readResultsFile } from '../../report/read-results.js';
-import { mergeResults } from '../../sweep/merge.js';
-import { resultsJson } from '../../report/json.js';
+import { writeFileAtomic } from '../../results/atomic.js';
+import { readResultsFile } from '../../results/read.js';
+import { mergeResults } from '../../results/merge.js';
+import { resultsJson } from '../../results/json.js';
 import type { RegisterCommand } from './index.js';
 
 export const registerMerge: RegisterCommand = (program) => {

@@ -1,7 +1,7 @@
 // `stepgauge report`: redraw plots, report.html and report.md from a results file, without
 // integrating again.
 import { dirname } from 'node:path';
-import { readResultsFile } from '../../report/read-results.js';
+import { readResultsFile } from '../../results/read.js';
 import type { RegisterCommand } from './index.js';
 
 export const registerReport: RegisterCommand = (program) => {

@@ -15,11 +15,11 @@ import { DEFAULT_STEPS } from '../../sweep/plan.js';
 import type { SweepRequest } from '../../sweep/run.js';
 import { parseShardSpec } from '../../sweep/shard.js';
 import { DEFAULT_MAX_STEPS, DEFAULT_TIMING } from '../../core/defaults.js';
-import type { ResultsFile, RunResult } from '../../core/results.js';
-import type { KnownRunLine } from '../../report/json.js';
+import type { ResultsFile, RunResult } from '../../results/contract.js';
+import type { KnownRunLine } from '../../results/json.js';
 import { InputError } from '../../core/errors.js';
 import { Journal, readJournal } from '../../sweep/journal.js';
-import { readResultsFile } from '../../report/read-results.js';
+import { readResultsFile } from '../../results/read.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from '../../sweep/lanes.js';
 
 /** The request and finished runs of an interrupted sweep in `dir` (journal first, then results.json). */
@@ -75,9 +75,9 @@ export function requestFromFlags(flags: RunFlags): SweepRequest {
 
 /** `known`: run lines already serialised (see resultsJson). */
 export async function writeSweepFolder(outDir: string, results: ResultsFile, withReport: boolean, known?: KnownRunLine): Promise<void> {
-  const { writeFolderAtomically } = await import('../../report/atomic.js');
-  const { resultsCsv } = await import('../../report/csv.js');
-  const { resultsJsonBytes } = await import('../../report/json.js');
+  const { writeFolderAtomically } = await import('../../results/atomic.js');
+  const { resultsCsv } = await import('../../results/csv.js');
+  const { resultsJsonBytes } = await import('../../results/json.js');
   // The renderer (chart.js, the canvas binding, fonts) is loaded only for a report.
   const writeReport = withReport ? (await import('../../report/index.js')).writeReport : null;
   await writeFolderAtomically(outDir, async (tmp) => {
@@ -134,7 +134,7 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
   const { runSweep, sweepRequestRecord } = await import('../../sweep/run.js');
   const { progressLine } = await import('../progress.js');
   const { summaryText } = await import('../summary.js');
-  const { resultsJson } = await import('../../report/json.js');
+  const { resultsJson } = await import('../../results/json.js');
   if (lanes) req.lanes = lanes;
   const log = (s: string) => (flags.json ? process.stderr : process.stdout).write(`${s}\n`);
   let progress: ProgressLine = { update() {}, stop() {} };

@@ -1,5 +1,5 @@
 // What every plot builder needs from the results file, computed once per report.
-import type { ResultsFile, RunResult } from '../../core/results.js';
+import type { ResultsFile, RunResult } from '../../results/contract.js';
 import { methodInfo, type MethodInfo } from '../methods.js';
 import { assignStyles, methodOrder, type MethodStyle } from './palette.js';
 

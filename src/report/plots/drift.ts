@@ -1,6 +1,6 @@
 // Invariant drift along the span, one plot per (problem, invariant): each method at its tightest
 // ok setting (solid) and at a middle one (dashed), from the sampled trace in the results.
-import type { RunResult } from '../../core/results.js';
+import type { RunResult } from '../../results/contract.js';
 import { settingLabel, tightness } from '../format.js';
 import { methodName, problemTitle, runsOf, type PlotContext } from './context.js';
 import { orderedReasons } from './select.js';

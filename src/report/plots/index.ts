@@ -1,5 +1,5 @@
 // All plots of a report, per problem in a fixed order, and their PNG rendering.
-import type { ResultsFile } from '../../core/results.js';
+import type { ResultsFile } from '../../results/contract.js';
 import { plotContext, type PlotContext } from './context.js';
 import { convergencePlots } from './convergence.js';
 import { driftPlots } from './drift.js';

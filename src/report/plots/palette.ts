@@ -1,7 +1,7 @@
 // One colour and one marker per method, the same in every plot of a report. Colours were picked
 // to stay apart in lightness as well as hue, so pairs that collapse under red-green or blue-yellow
 // colour blindness still differ in value; the marker is a second, colour-free cue.
-import type { ResultsFile } from '../../core/results.js';
+import type { ResultsFile } from '../../results/contract.js';
 
 export const PALETTE: readonly string[] = [
   '#1b4f8a', // ink blue (dark)

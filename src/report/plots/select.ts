@@ -1,6 +1,6 @@
 // Which runs become points, and an honest count of the rest: failed runs (by status) and ok runs
 // whose value cannot sit on a log axis (missing, zero, negative, NaN or infinite).
-import type { RunResult } from '../../core/results.js';
+import type { RunResult } from '../../results/contract.js';
 import type { Status } from '../../core/types.js';
 import type { Point } from './spec.js';
 

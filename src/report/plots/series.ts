@@ -1,6 +1,6 @@
 // Grouping selected points into one series per method, in palette order, each ordered from
 // loosest to tightest setting so the joining line follows the sweep.
-import type { RunResult } from '../../core/results.js';
+import type { RunResult } from '../../results/contract.js';
 import { tightness } from '../format.js';
 import { methodName, type PlotContext } from './context.js';
 import type { Point, SeriesSpec } from './spec.js';

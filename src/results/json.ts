@@ -5,7 +5,7 @@
 // hundreds of numbers, which indentation would put one to a line: the catalogue sweep's file was
 // 8.2 MB that way and took a quarter of a second to build and write, at the end of every sweep,
 // when nothing else can run. One line per run keeps diffs readable run by run.
-import type { ResultsFile, RunResult } from '../core/results.js';
+import type { ResultsFile, RunResult } from './contract.js';
 
 /**
  * A run's line as already serialised and encoded, e.g. by the sweep journal, or undefined to

@@ -1,6 +1,6 @@
 // The results contract (format version 1): the only thing report, gate and merge read.
 // Field meanings are fixed by the design document; new fields may be added, never repurposed.
-import type { Counts, ReferenceKind, Status } from './types.js';
+import type { Counts, ReferenceKind, Status } from '../core/types.js';
 
 export const RESULTS_FORMAT = 'stepgauge-results';
 export const RESULTS_VERSION = 1;

@@ -13,7 +13,7 @@
 // shards of one plan keep the order given, file by file. Problems keep the shards' common order,
 // or else follow their first use.
 import { InputError } from '../core/errors.js';
-import { RESULTS_FORMAT, RESULTS_VERSION, runKey, type ProblemRecord, type ResultsFile, type RunResult } from '../core/results.js';
+import { RESULTS_FORMAT, RESULTS_VERSION, runKey, type ProblemRecord, type ResultsFile, type RunResult } from './contract.js';
 
 export interface MergeInput {
   path: string;

@@ -1,6 +1,6 @@
 // Van der Pol oscillator y1' = y2, y2' = mu (1 - y1^2) y2 - y1, shared by the mildly nonlinear
 // (mu = 1) and the stiff (mu = 1000) catalogue entries.
-import type { JacobianFn, Rhs } from '../core/types.js';
+import type { JacobianFn, Rhs } from '../../src/core/types.js';
 
 export function vanDerPolRhs(mu: number): Rhs {
   return (_t, y, dy) => {

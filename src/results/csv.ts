@@ -6,7 +6,7 @@
 // library took 17-42 ms for the catalogue sweep's 864 rows, after the last run, where this takes
 // about one. test/csv.test.ts checks the text against csv-stringify and reads it back with
 // csv-parse.
-import type { ResultsFile, RunResult } from '../core/results.js';
+import type { ResultsFile, RunResult } from './contract.js';
 
 export const CSV_COLUMNS = [
   'problem', 'method', 'rtol', 'atol', 'steps', 'h', 'status',

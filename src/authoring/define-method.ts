@@ -2,7 +2,7 @@
 // about itself; whether `solve` is right is for the sweep to measure.
 import type { Family, Method } from '../core/types.js';
 import { InputError } from '../core/errors.js';
-import { brand, METHOD_BRAND } from '../problems/brand.js';
+import { brand, METHOD_BRAND } from './brand.js';
 
 const FAMILIES: readonly Family[] = ['fixed-step', 'embedded-explicit', 'symplectic', 'implicit', 'extrapolation', 'external'];
 const KEBAB = /^[a-z0-9]+(-[a-z0-9]+)*$/;

@@ -1,6 +1,6 @@
 // Right-hand side, Jacobian and invariants of the two-body problem x'' = -mu x / |x|^3 in d
 // dimensions, state (positions, velocities). Shared by the circular and eccentric Kepler problems.
-import type { Invariant, JacobianFn, Rhs } from '../core/types.js';
+import type { Invariant, JacobianFn, Rhs } from '../../src/core/types.js';
 
 export function twoBodyRhs(d: number, mu: number): Rhs {
   return (_t, y, dy) => {

@@ -12,9 +12,9 @@ import {
   type ResultsFile,
   type RunResult,
   type RunSetting,
-} from '../core/results.js';
+} from './contract.js';
 import type { Status } from '../core/types.js';
-import { Validator } from '../gate/validate.js';
+import { Validator } from './validate.js';
 
 /** What this reader understands; quoted in every "cannot read" message. */
 export const READABLE_RESULTS = `${RESULTS_FORMAT} version ${RESULTS_VERSION}`;
