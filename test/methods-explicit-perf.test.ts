@@ -18,6 +18,8 @@ import {
   tsitouras54,
   unrolledSource,
   verner65,
+  verner76,
+  verner87,
 } from '../src/methods/explicit/index.js';
 import type { StageKernel, TableauData } from '../src/methods/explicit/tableau.js';
 import { BOGACKI_SHAMPINE_32 } from '../src/methods/explicit/tableaus/bogacki-shampine-32.js';
@@ -28,7 +30,10 @@ import { DORMAND_PRINCE_853 } from '../src/methods/explicit/tableaus/dormand-pri
 import { EULER, EXPLICIT_MIDPOINT, RK4, RK4_38 } from '../src/methods/explicit/tableaus/fixed.js';
 import { TSITOURAS_54 } from '../src/methods/explicit/tableaus/tsitouras-54.js';
 import { VERNER_65 } from '../src/methods/explicit/tableaus/verner-65.js';
-import { kepler, makeProblem, maxAbsDiff, oscillator } from './methods-explicit-helpers.js';
+import { VERNER_76 } from '../src/methods/explicit/tableaus/verner-76.js';
+import { VERNER_87 } from '../src/methods/explicit/tableaus/verner-87.js';
+import { keplerEccentric } from '../problems/kepler-eccentric.js';
+import { exactAt, kepler, makeProblem, maxAbsDiff, oscillator } from './methods-explicit-helpers.js';
 
 const OPTS = { maxSteps: 1_000_000 };
 
@@ -40,6 +45,8 @@ const withKernel: [Method, TableauData][] = [
   [tsitouras54, TSITOURAS_54],
   [verner65, VERNER_65],
   [dormandPrince853, DORMAND_PRINCE_853],
+  [verner76, VERNER_76],
+  [verner87, VERNER_87],
 ];
 
 /** Three uncoupled Kepler orbits (12 states): above UNROLL_MAX_N, so the looped kernel runs. */
@@ -133,4 +140,29 @@ describe('generated fixed-step kernels agree with the generic fixed-step engine'
       expect(Array.from(a.yFinal)).toEqual(Array.from(b.yFinal));
     });
   }
+});
+
+describe('increment form (stages stored as k_i - k_1)', () => {
+  // Verner's 8(7) pair in doubles: rounding its large cancelling weights to the nearest doubles
+  // breaks the low-order conditions by ~1e-13, which left a global error floor on the eccentric
+  // orbit; stepping with increments multiplies those rounding errors by O(h) differences.
+  // Reference: the exact orbit from Kepler's equation (problems/kepler-eccentric.ts, e = 0.6, 10 periods).
+  const p = keplerEccentric;
+  const published = embeddedMethod({ id: 'verner-87-published', name: 'test', source: 'test' }, { ...VERNER_87, increments: false });
+  it('verner-87 at rtol = atol = 1e-14 ends within 3e-11 of the exact orbit; stepped as published it does not', () => {
+    const tol = { rtol: 1e-14, atol: 1e-14 };
+    const incr = verner87.solve(p, tol, OPTS);
+    const plain = published.solve(p, tol, OPTS);
+    expect(maxAbsDiff(incr.yFinal, exactAt(p, p.tEnd))).toBeLessThan(3e-11); // measured 7e-12
+    expect(maxAbsDiff(plain.yFinal, exactAt(p, p.tEnd))).toBeGreaterThan(1e-10); // measured 4e-10
+  });
+  it('both forms take the same steps at a moderate tolerance and agree to rounding', () => {
+    const tol = { rtol: 1e-9, atol: 1e-9 };
+    const incr = verner87.solve(p, tol, OPTS);
+    const plain = published.solve(p, tol, OPTS);
+    expect(incr.counts).toEqual(plain.counts);
+    // Kepler orbits amplify per-step rounding into phase (measured 1e-9 apart), against a
+    // truncation error near 1e-7 at this setting.
+    expect(maxAbsDiff(incr.yFinal, plain.yFinal)).toBeLessThan(1e-8);
+  });
 });

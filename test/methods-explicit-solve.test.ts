@@ -34,7 +34,7 @@ function finalError(m: Method, p: Problem, setting: Parameters<Method['solve']>[
 }
 
 describe('method metadata', () => {
-  it('lists the thirteen explicit methods with their published orders', () => {
+  it('lists the fifteen explicit methods with their published orders', () => {
     // Orders from the papers cited in each tableau file.
     const orders = Object.fromEntries(explicitMethods.map((m) => [m.id, [m.order, m.embeddedOrder ?? null]]));
     expect(orders).toEqual({
@@ -48,7 +48,9 @@ describe('method metadata', () => {
       'dormand-prince-54': [5, 4],
       'tsitouras-54': [5, 4],
       'verner-65': [6, 5],
+      'verner-76': [7, 6],
       'dormand-prince-853': [8, 5],
+      'verner-87': [8, 7],
       'stormer-verlet': [2, null],
       'yoshida-4': [4, null],
     });

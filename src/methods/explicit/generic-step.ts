@@ -14,7 +14,7 @@ function offsets(cols: Int32Array, n: number): Int32Array {
 
 /** The generic step for systems of n states (its scratch is allocated here, once per solve). */
 export function genericStep(tab: Tableau, n: number): StageKernel {
-  const { c, aStart, aVal, bVal, eVal, e2Val, fsal } = tab;
+  const { c, aStart, aVal, bVal, eVal, e2Val, fsal, increments } = tab;
   const last = tab.stages - 1;
   const lastFromA = fsal ? last - 1 : last;
   const nb = bVal.length;
@@ -41,6 +41,10 @@ export function genericStep(tab: Tableau, n: number): StageKernel {
         for (let j = 0; j < n; j++) yStage[j]! += cf * K[off + j]!;
       }
       f(t + c[i]! * hs, yStage, kRow[i]!);
+      if (increments) {
+        const ki = kRow[i]!;
+        for (let j = 0; j < n; j++) ki[j]! -= K[j]!;
+      }
     }
     for (let j = 0; j < n; j++) yNew[j] = y[j]!;
     for (let p = 0; p < nb; p++) {

@@ -15,6 +15,8 @@ import { FEHLBERG_45 } from './tableaus/fehlberg-45.js';
 import { EULER, EXPLICIT_MIDPOINT, RK4, RK4_38 } from './tableaus/fixed.js';
 import { TSITOURAS_54 } from './tableaus/tsitouras-54.js';
 import { VERNER_65 } from './tableaus/verner-65.js';
+import { VERNER_76 } from './tableaus/verner-76.js';
+import { VERNER_87 } from './tableaus/verner-87.js';
 
 export { dormandPrince54Dense, type DenseCapability, type DenseEvaluate, type DenseSolveResult } from './dense-dp54.js';
 export { compileTableau, isFsal, type KernelFactory, type StageKernel, type Tableau, type TableauData } from './tableau.js';
@@ -172,6 +174,16 @@ export const verner65 = embeddedMethod(
   VERNER_65,
   unrolledKernel(VERNER_65, 'verner-65'),
 );
+export const verner76 = embeddedMethod(
+  {
+    id: 'verner-76',
+    name: 'Verner 7(6), 10 stages, "most efficient" (2010)',
+    source:
+      'J. H. Verner, Numerically optimal Runge-Kutta pairs with interpolants, Numer. Algorithms 53 (2010) 383-396 (pair RKV76.IIa, efficient)',
+  },
+  VERNER_76,
+  unrolledKernel(VERNER_76, 'verner-76'),
+);
 export const dormandPrince853 = embeddedMethod(
   {
     id: 'dormand-prince-853',
@@ -181,6 +193,17 @@ export const dormandPrince853 = embeddedMethod(
   },
   DORMAND_PRINCE_853,
   unrolledKernel(DORMAND_PRINCE_853, 'dormand-prince-853'),
+);
+
+export const verner87 = embeddedMethod(
+  {
+    id: 'verner-87',
+    name: 'Verner 8(7), 13 stages, "most efficient" (2010)',
+    source:
+      'J. H. Verner, Numerically optimal Runge-Kutta pairs with interpolants, Numer. Algorithms 53 (2010) 383-396 (pair RKV87.IIa, efficient)',
+  },
+  VERNER_87,
+  unrolledKernel(VERNER_87, 'verner-87'),
 );
 
 export const stormerVerlet = symplecticMethod(
@@ -215,7 +238,9 @@ export const explicitMethods: Method[] = [
   dormandPrince54,
   tsitouras54,
   verner65,
+  verner76,
   dormandPrince853,
+  verner87,
   stormerVerlet,
   yoshida4,
 ];

@@ -60,6 +60,36 @@ export interface TableauData {
    * behave like a higher power of h set it explicitly.
    */
   readonly controlOrder?: number;
+  /**
+   * Step with the stages as increments over the first: after f fills stage i (i >= 1) it holds
+   * k_i - k_1, and the sums use c_i for k_1 (sum_j a_ij = c_i, sum b = 1, sum (b - bHat) = 0 in
+   * exact arithmetic), so the doubles' rounding of large cancelling coefficients multiplies
+   * O(h) differences instead of O(1) derivatives. Verner's 8(7) pair loses its 1e-10 floor on
+   * kepler-eccentric this way (bench/README). Not with FSAL pairs (their last stage is reused).
+   */
+  readonly increments?: boolean;
+}
+
+/** The coefficients the engines multiply with: as published, or in increment form. */
+export function workingWeights(d: TableauData): {
+  a: readonly (readonly number[])[];
+  b: readonly number[];
+  bHat?: readonly number[];
+  bHat2?: readonly number[];
+} {
+  if (!d.increments) return d;
+  if (isFsal(d)) throw new InputError('the increment form is not defined for FSAL pairs');
+  const first = (w: readonly number[] | undefined, sum: number) => (w ? w.map((v, i) => (i === 0 ? sum : v)) : undefined);
+  const out: { a: number[][]; b: number[]; bHat?: number[]; bHat2?: number[] } = {
+    a: d.a.map((row, i) => row.map((v, j) => (j === 0 ? d.c[i]! : v))),
+    b: first(d.b, 1)!,
+  };
+  // With b_1 -> 1 and bHat_1 -> 1 the error weights b - bHat get a 0 for k_1, as they should.
+  const bHat = first(d.bHat, 1);
+  const bHat2 = first(d.bHat2, 1);
+  if (bHat) out.bHat = bHat;
+  if (bHat2) out.bHat2 = bHat2;
+  return out;
 }
 
 /** The compiled form the engines step with. */
@@ -87,6 +117,8 @@ export interface Tableau {
    * first stage and costs nothing extra there.
    */
   readonly fsal: boolean;
+  /** Stages 2..s hold k_i - k_1 after evaluation (TableauData.increments). */
+  readonly increments: boolean;
   /** Unrolled step, when one is attached (embedded pairs only). */
   readonly kernel: KernelFactory | null;
   readonly data: TableauData;
@@ -129,11 +161,12 @@ export function compileTableau(d: TableauData, kernel?: KernelFactory): Tableau 
   if (d.a.length !== s || d.b.length !== s) {
     throw new InputError(`tableau has ${s} nodes but ${d.a.length} rows of A and ${d.b.length} weights`);
   }
+  const w = workingWeights(d);
   const starts: number[] = [0];
   const cols: number[] = [];
   const vals: number[] = [];
   for (let i = 0; i < s; i++) {
-    const row = d.a[i]!;
+    const row = w.a[i]!;
     if (row.length > i) throw new InputError(`tableau row ${i} of A must have at most ${i} entries (explicit)`);
     for (let j = 0; j < row.length; j++) {
       const v = row[j]!;
@@ -145,9 +178,9 @@ export function compileTableau(d: TableauData, kernel?: KernelFactory): Tableau 
     starts.push(cols.length);
   }
   const fsal = isFsal(d);
-  const bs = sparse(d.b);
-  const es = sparse(d.bHat ? difference(d.b, d.bHat) : []);
-  const e2s = sparse(d.bHat2 ? difference(d.b, d.bHat2) : []);
+  const bs = sparse(w.b);
+  const es = sparse(w.bHat ? difference(w.b, w.bHat) : []);
+  const e2s = sparse(w.bHat2 ? difference(w.b, w.bHat2) : []);
   const embeddedOrder = d.embeddedOrder ?? 0;
   if (kernel && !d.bHat) throw new InputError('a stage kernel needs an embedded pair (bHat)');
   return {
@@ -166,6 +199,7 @@ export function compileTableau(d: TableauData, kernel?: KernelFactory): Tableau 
     e2Col: e2s.col,
     e2Val: e2s.val,
     fsal,
+    increments: d.increments === true,
     kernel: kernel ?? null,
     data: d,
   };

@@ -11,7 +11,7 @@
 import { InputError } from '../../../core/errors.js';
 import type { Rhs } from '../../../core/types.js';
 import { COMBINED_ERR3_WEIGHT } from '../control.js';
-import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, isFsal, type KernelFactory, type StageKernel, type TableauData } from '../tableau.js';
+import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, isFsal, workingWeights, type KernelFactory, type StageKernel, type TableauData } from '../tableau.js';
 
 /** Largest state size whose component loop is written out; larger systems loop. */
 export const UNROLL_MAX_N = 8;
@@ -72,7 +72,7 @@ function scale(j: string): string {
  * declared once for the whole function (let, initialised to 0 before the stage calls) were kept
  * boxed by V8 and allocated heap numbers every step (measured: a scavenge every ~60,000 steps).
  */
-function errorTerm(d: TableauData, ix: Indexing, fsalStage: number | null): string {
+function errorTerm(d: ReturnType<typeof workingWeights>, ix: Indexing, fsalStage: number | null): string {
   const e = combination(errorDifference(d.b, d.bHat!), ix);
   if (e === null) throw new InputError('an unrolled kernel needs nonzero error weights');
   // v - v is 0 for finite v and NaN otherwise: the finiteness check rides along with the norm.
@@ -84,7 +84,7 @@ function errorTerm(d: TableauData, ix: Indexing, fsalStage: number | null): stri
 }
 
 /** Final error norm from the sums, stored in io. */
-function errorNorm(d: TableauData): string[] {
+function errorNorm(d: ReturnType<typeof workingWeights>): string[] {
   if (!d.bHat2) return [`io[${IO_ERR}] = Math.sqrt(sum / n);`];
   // The combined estimate of the generic engine, in the same order of operations.
   return [
@@ -117,16 +117,18 @@ export function unrolledSource(d: TableauData, name: string, n?: number): string
     `const t = io[${IO_T}]; const tNew = io[${IO_T_NEW}]; const h = io[${IO_H}]; const rtol = io[${IO_RTOL}];`,
   ];
   if (n === undefined) for (let i = 1; i < s; i++) lines.push(`const o${i} = ${i} * n;`);
+  const w = workingWeights(d);
   for (let i = 1; i <= lastFromA; i++) {
-    lines.push(...each((ix) => stateUpdate('ys', d.a[i]!, ix)));
+    lines.push(...each((ix) => stateUpdate('ys', w.a[i]!, ix)));
     lines.push(`f(${stageTime(d.c[i]!)}, ys, kRow[${i}]);`);
+    if (d.increments) lines.push(...each((ix) => `${ix.stage(i)} -= ${ix.stage(0)};`));
   }
-  lines.push(...each((ix) => stateUpdate('yNew', d.b, ix)));
+  lines.push(...each((ix) => stateUpdate('yNew', w.b, ix)));
   if (fsal) lines.push(`f(tNew, yNew, kRow[${last}]);`);
-  lines.push(d.bHat2 ? 'let s5 = 0; let s3 = 0; let bad = 0;' : 'let sum = 0; let bad = 0;');
-  lines.push(...each((ix) => errorTerm(d, ix, fsal ? last : null)));
+  lines.push(w.bHat2 ? 'let s5 = 0; let s3 = 0; let bad = 0;' : 'let sum = 0; let bad = 0;');
+  lines.push(...each((ix) => errorTerm(w, ix, fsal ? last : null)));
   lines.push(`io[${IO_NONFINITE}] = bad;`);
-  lines.push(...errorNorm(d));
+  lines.push(...errorNorm(w));
   const fn = `${name.replace(/[^A-Za-z0-9_]/g, '_')}${n === undefined ? '' : `_n${n}`}`;
   return [
     '"use strict";',
