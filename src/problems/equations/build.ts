@@ -15,7 +15,8 @@ import { compileJacobian, compileScalarFunction, compileTimeFunction, compileVec
 import { readCheckTimes, readErrorScale, readReferencePoints, readSpan } from './common-fields.js';
 import { constantValue, emitField, evaluateParameters } from './constants.js';
 import { definitionOrderProblem } from './definition-order.js';
-import { inlineDefinitions, symbolicJacobian } from './jacobian.js';
+import { dependencyGraph } from './dependency-graph.js';
+import { symbolicJacobian } from './jacobian.js';
 import { checkName, makeScope } from './names.js';
 import { checkSeparableSplit, findSeparableSplit, type Dependencies } from './separable.js';
 
@@ -55,12 +56,10 @@ export function buildEquationProblem(site: StructuredFile, spec: EquationFile): 
 
   const definitions: DefinitionCode[] = [];
   const visibleDefs = new Map<string, number>();
-  const inlined = new Map<string, AstNode>();
   defNames.forEach((d, index) => {
     const scope = makeScope({ time: true, states, parameters, definitions: visibleDefs });
     const { js, node } = emitField(site, ['definitions', d], defSpecs[d]!, scope);
     definitions.push({ index, name: d, js, uses: symbolsOf(node) });
-    inlined.set(d, inlineDefinitions(node, inlined));
     visibleDefs.set(d, index);
   });
   const fullScope = makeScope({ time: true, states, parameters, definitions: visibleDefs });
@@ -93,20 +92,19 @@ export function buildEquationProblem(site: StructuredFile, spec: EquationFile): 
   if (errorOn === 'outputs' && !outputs) fail(site, ['error', 'measure'], 'measure: outputs needs an `outputs` section');
   const errorScale = readErrorScale(site, spec.error, errorOn === 'outputs' ? outputNames : states);
 
-  // Dependencies and the Jacobian both read the equations with definitions inlined.
-  const inlinedEquations = equations.map((e) => inlineDefinitions(e.node, inlined));
+  // Dependencies and the Jacobian both follow the definitions as a graph (never inlined).
+  const graph = dependencyGraph(states, defNames.map((name) => ({ name, node: defNodes.get(name)! })));
+  const reach = equations.map((e) => graph.reachOf(e.node));
   const dependencies: Dependencies = {
     names: states,
-    deps: inlinedEquations.map((node) => {
-      const used = symbolsOf(node);
-      return new Set(states.flatMap((s, j) => (used.has(s) ? [j] : [])));
-    }),
-    usesTime: inlinedEquations.map((node) => symbolsOf(node).has('t')),
+    deps: reach.map((r) => r.states),
+    usesTime: reach.map((r) => r.usesTime),
   };
   const { separable, separableReason } = separability(site, spec, dependencies);
 
-  const jac = symbolicJacobian(inlinedEquations, states, makeScope({ time: true, states, parameters, functions: DERIVATIVE_FUNCTIONS }));
-  const jacobian = 'entries' in jac ? compileJacobian(n, jac.entries) : undefined;
+  const derivativeScope = makeScope({ time: true, states, parameters, definitions: visibleDefs, functions: DERIVATIVE_FUNCTIONS });
+  const jac = symbolicJacobian(graph, equations.map((e) => e.node), derivativeScope);
+  const jacobian = 'entries' in jac ? compileJacobian(n, jac.entries, neededDefinitions(eqSymbols, definitions), jac.temporaries) : undefined;
 
   return {
     id: spec.id,

@@ -11,18 +11,20 @@ export interface DefinitionCode {
   readonly uses: ReadonlySet<string>;
 }
 
-/** Definitions reachable from the given symbols, in file order. */
+/**
+ * Definitions reachable from the given symbols, in file order. Each definition uses only earlier
+ * ones, so one backward pass finds them all without recursion.
+ */
 export function neededDefinitions(symbols: Iterable<string>, definitions: readonly DefinitionCode[]): DefinitionCode[] {
-  const byName = new Map(definitions.map((d) => [d.name, d] as const));
-  const needed = new Set<string>();
-  const visit = (name: string): void => {
-    const d = byName.get(name);
-    if (!d || needed.has(name)) return;
-    needed.add(name);
-    for (const u of d.uses) visit(u);
+  const position = new Map(definitions.map((d, k) => [d.name, k] as const));
+  const needed = new Array<boolean>(definitions.length).fill(false);
+  const mark = (name: string): void => {
+    const k = position.get(name);
+    if (k !== undefined) needed[k] = true;
   };
-  for (const s of symbols) visit(s);
-  return definitions.filter((d) => needed.has(d.name));
+  for (const s of symbols) mark(s);
+  for (let k = definitions.length - 1; k >= 0; k--) if (needed[k]) for (const u of definitions[k]!.uses) mark(u);
+  return definitions.filter((_, k) => needed[k]);
 }
 
 function prologue(n: number, defs: readonly DefinitionCode[]): string {
@@ -47,13 +49,19 @@ export function compileScalarFunction(n: number, expr: string, defs: readonly De
   return compileFunction(['t', 'y'], `${prologue(n, defs)}\nreturn ${expr};`);
 }
 
-/** function (t, jac) writing a dense row-major n x n matrix from its nonzero entries. */
+/**
+ * function (t, y, jac) writing a dense row-major n x n matrix from its nonzero entries, after the
+ * definition values and the temporaries (chain-rule partials) the entries use.
+ */
 export function compileJacobian(
   n: number,
   entries: readonly { row: number; col: number; js: string }[],
+  defs: readonly DefinitionCode[] = [],
+  temporaries: readonly string[] = [],
 ): (t: number, y: Float64Array, jac: Float64Array) => void {
   const writes = entries.map((e) => `jac[${e.row * n + e.col}] = ${e.js};`).join('\n');
-  return compileFunction(['t', 'y', 'jac'], `${prologue(n, [])}\njac.fill(0);\n${writes}`);
+  const temps = temporaries.length ? `${temporaries.join('\n')}\n` : '';
+  return compileFunction(['t', 'y', 'jac'], `${prologue(n, defs)}\n${temps}jac.fill(0);\n${writes}`);
 }
 
 /** function (t, out) { out[k] = expr_k(t) } for exact solutions. */

@@ -17,20 +17,22 @@ function quoted(source: string): string {
   return source.length > 60 ? `${source.slice(0, 57)}...` : source;
 }
 
-interface Walkable {
+export interface Walkable {
   forEach(callback: (child: Walkable) => void): void;
 }
 
-/** Depth of the tree, found without recursion so that it cannot itself exhaust the stack. */
-function depthOf(root: Walkable): number {
+/** Nodes and depth of a tree, found without recursion so that it cannot itself exhaust the stack. */
+export function treeSize(root: Walkable): { nodes: number; depth: number } {
   let deepest = 0;
+  let nodes = 0;
   const stack: [Walkable, number][] = [[root, 1]];
   while (stack.length > 0) {
     const [node, depth] = stack.pop()!;
+    nodes++;
     if (depth > deepest) deepest = depth;
     node.forEach((child) => stack.push([child, depth + 1]));
   }
-  return deepest;
+  return { nodes, depth: deepest };
 }
 
 export function parseExpression(text: string | number): AstNode {
@@ -48,7 +50,7 @@ export function parseExpression(text: string | number): AstNode {
     }
     throw new ExpressionRejected(`cannot parse \`${quoted(source)}\`: ${e instanceof Error ? e.message : String(e)}`);
   }
-  const depth = depthOf(node);
+  const { depth } = treeSize(node);
   if (depth > MAX_EXPRESSION_DEPTH) {
     throw new ExpressionRejected(`\`${quoted(source)}\` is nested ${depth} levels deep (at most ${MAX_EXPRESSION_DEPTH}; a sum of n terms is n levels); split it into definitions`);
   }
