@@ -1,7 +1,7 @@
 // Planar two-body problem x'' = -mu x / |x|^3, mu = 1, eccentricity e = 0.6, semi-major axis 1,
 // started at periapsis: (x, y) = (1 - e, 0), (vx, vy) = (0, sqrt((1 + e)/(1 - e))). Span 10
 // periods, [0, 20 pi]. Exact solution at any t from Kepler's equation E - e sin E = t, solved by
-// Newton to machine precision (src/problems/kepler.ts; Danby, Fundamentals of Celestial
+// Newton to machine precision (problems/physics/kepler.ts; Danby, Fundamentals of Celestial
 // Mechanics, 2nd ed., sec. 6.3 and 6.6).
 // Error scale: absolute. Invariants: energy -1/2 and angular momentum sqrt(1 - e^2) = 0.8.
 // Checked four times per orbit; near periapsis the speed is 2, the hardest part for step control.

@@ -1,6 +1,12 @@
 // Defaults shared by the library and the CLI, in a module of their own so the CLI can show them
 // in its help without loading the integrators, the sweep machinery or the report renderer.
-import type { TimingOptions } from '../measure/timing.js';
+
+export interface TimingOptions {
+  /** Time budget per run in seconds; long solves get fewer samples. */
+  budgetSeconds: number;
+  /** Fewest timed samples (after one warm-up solve). */
+  minSamples: number;
+}
 
 /** Wall-time measurement per run: a 0.1 s budget, at least 3 samples. */
 export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 0.1, minSamples: 3 };

@@ -3,7 +3,7 @@
 // it is skipped for stiff problems, whose backward flow is violently unstable.
 import type { Method, Problem, Setting } from '../core/types.js';
 import { scaleFloors, scaledMaxError } from './error-norm.js';
-import type { RunOptions } from './run-one.js';
+import type { RunOptions } from './run-options.js';
 import { uniformProblem } from '../problems/uniform.js';
 
 /** The same dynamics run backwards in time: s = tEnd - t, so y' = -f(tEnd - s, y). */

@@ -8,30 +8,16 @@ import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';
 import { watchRun } from './observer.js';
 import { roundTripError } from './round-trip.js';
+import { solveOptions, type RunOptions } from './run-options.js';
 
-export interface RunOptions {
-  maxSteps: number;
-  /** Wall-clock limit for one solve, seconds (status `timeout` past it). */
-  runTimeoutSeconds?: number;
-  controller?: 'standard' | 'pi';
-}
+export type { RunOptions } from './run-options.js';
+export { solveOptions } from './run-options.js';
 
 export function runSetting(problem: Problem, setting: Setting, result?: SolveResult): RunSetting {
   if (isAdaptiveSetting(setting)) {
     return { rtol: setting.rtol, atol: typeof setting.atol === 'number' ? setting.atol : [...setting.atol] };
   }
   return { steps: setting.steps, h: result?.h ?? (problem.tEnd - problem.t0) / setting.steps };
-}
-
-export function solveOptions(problem: Problem, options: RunOptions, observer?: SolveOptions['observer']): SolveOptions {
-  const deadline = options.runTimeoutSeconds ? performance.now() + options.runTimeoutSeconds * 1000 : undefined;
-  return {
-    maxSteps: options.maxSteps,
-    checkTimes: problem.checkTimes,
-    ...(observer ? { observer } : {}),
-    ...(options.controller ? { controller: options.controller } : {}),
-    ...(deadline !== undefined ? { deadline } : {}),
-  };
 }
 
 /** Smallest error the reference can resolve at tEnd, from its trusted digits (0 when exact). */

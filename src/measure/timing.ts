@@ -2,15 +2,10 @@
 // Timed solves run without observers, so the clock sees only the integrator and the model.
 import { Bench } from 'tinybench';
 import type { Method, Problem, Setting } from '../core/types.js';
-import type { RunOptions } from './run-one.js';
-import { solveOptions } from './run-one.js';
+import { solveOptions, type RunOptions } from './run-options.js';
 
-export interface TimingOptions {
-  /** Time budget per run in seconds; long solves get fewer samples. */
-  budgetSeconds: number;
-  /** Fewest timed samples (after one warm-up solve). */
-  minSamples: number;
-}
+import type { TimingOptions } from '../core/defaults.js';
+export type { TimingOptions } from '../core/defaults.js';
 
 /** Timing is extended until the relative margin of error is below this (runs under a second). */
 export const TARGET_RME_PERCENT = 5;

@@ -10,6 +10,19 @@ export interface ExecuteOptions extends RunOptions {
   timing: TimingOptions | null;
 }
 
+export interface SweepProgress {
+  done: number;
+  total: number;
+  failed: number;
+  last: RunResult;
+}
+
+export interface SweepOptions extends ExecuteOptions {
+  onRun?: (p: SweepProgress) => void;
+  /** Checked between runs: when it returns true, no further run starts. */
+  shouldStop?: () => boolean;
+}
+
 export async function executeRun(
   problem: Problem,
   method: Method,

@@ -21,7 +21,7 @@ import type { RunResult } from '../results/contract.js';
 import { messageOf } from '../core/errors.js';
 import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
-import type { SweepOptions } from './run.js';
+import type { SweepOptions } from './execute.js';
 import type { BatchAnswer, BatchTask, CertifyTask, StiffnessTask, WorkerTask } from './worker.js';
 import { RunDealer } from './dealer.js';
 import { createLane, LANE_DEPTH, laneStarted, type PrestartedLanes } from './lanes.js';

@@ -7,7 +7,7 @@ import { environmentFingerprint } from '../measure/environment.js';
 import { calibrationSeconds } from '../measure/timing.js';
 import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 import { resolve as resolvePath } from 'node:path';
-import { executeRun, type ExecuteOptions } from './execute.js';
+import { executeRun, type SweepOptions } from './execute.js';
 import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
 import { certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
@@ -17,18 +17,8 @@ import { selectShard } from './shard.js';
 import type { TimingOptions } from '../measure/timing.js';
 import { DEFAULT_MAX_STEPS } from '../core/defaults.js';
 
-export interface SweepProgress {
-  done: number;
-  total: number;
-  failed: number;
-  last: RunResult;
-}
-
-export interface SweepOptions extends ExecuteOptions {
-  onRun?: (p: SweepProgress) => void;
-  /** Checked between runs: when it returns true, no further run starts. */
-  shouldStop?: () => boolean;
-}
+export type { SweepOptions, SweepProgress } from './execute.js';
+import type { SweepProgress } from './execute.js';
 
 export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number | null>): ProblemRecord {
   const ref: ProblemRecord['reference'] = { kind: p.reference.kind };

@@ -3,7 +3,7 @@ import { InputError } from '../../core/errors.js';
 import { makeBaseline, serializeBaseline } from '../../gate/baseline.js';
 import { writeFileAtomic } from '../../results/atomic.js';
 import { readResultsFile } from '../../results/read.js';
-import type { RegisterCommand } from './index.js';
+import type { RegisterCommand } from './register.js';
 
 export const registerBaseline: RegisterCommand = (program) => {
   program

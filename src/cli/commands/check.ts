@@ -8,7 +8,7 @@ import { junitXml } from '../../gate/junit.js';
 import { formatComparison } from '../../gate/report-text.js';
 import { writeFileAtomic } from '../../results/atomic.js';
 import { READABLE_RESULTS, readResultsFile, validateResults } from '../../results/read.js';
-import type { RegisterCommand } from './index.js';
+import type { RegisterCommand } from './register.js';
 
 interface CheckFlags {
   baseline: string;

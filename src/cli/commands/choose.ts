@@ -1,5 +1,5 @@
 // `stepgauge choose`: which method and setting meets an accuracy target at the least cost.
-import type { RegisterCommand } from './index.js';
+import type { RegisterCommand } from './register.js';
 import { InputError } from '../../core/errors.js';
 import { parsePositive, parsePositiveInt } from '../options.js';
 import type { Candidate, Choice } from '../../sweep/choose.js';

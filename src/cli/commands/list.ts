@@ -1,6 +1,6 @@
 // `stepgauge list`: the built-in problems and methods, as a table or as JSON.
 // Command modules load what their action needs when it runs (see DEVELOPERS.md, "CLI start-up").
-import type { RegisterCommand } from './index.js';
+import type { RegisterCommand } from './register.js';
 
 export const registerList: RegisterCommand = (program) => {
   program

@@ -3,7 +3,7 @@ import { writeFileAtomic } from '../../results/atomic.js';
 import { readResultsFile } from '../../results/read.js';
 import { mergeResults } from '../../results/merge.js';
 import { resultsJson } from '../../results/json.js';
-import type { RegisterCommand } from './index.js';
+import type { RegisterCommand } from './register.js';
 
 export const registerMerge: RegisterCommand = (program) => {
   program

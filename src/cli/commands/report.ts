@@ -2,7 +2,7 @@
 // integrating again.
 import { dirname } from 'node:path';
 import { readResultsFile } from '../../results/read.js';
-import type { RegisterCommand } from './index.js';
+import type { RegisterCommand } from './register.js';
 
 export const registerReport: RegisterCommand = (program) => {
   program

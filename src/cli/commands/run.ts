@@ -7,7 +7,7 @@ import { availableParallelism } from 'node:os';
 import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { existsSync } from 'node:fs';
-import type { RegisterCommand } from './index.js';
+import type { RegisterCommand } from './register.js';
 import { parsePositive, parsePositiveInt, parseSteps, parseTolerances } from '../options.js';
 import { checkWritableTarget, defaultOutDir, pointLatest } from '../output-folder.js';
 import type { ProgressLine } from '../progress.js';
