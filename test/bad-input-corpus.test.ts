@@ -4,7 +4,7 @@
 // folder that holds --out stays empty (no results, no half-written folder, no journal beside it).
 // A few files in the corpus are valid on purpose (a byte-order mark, CRLF line endings): those
 // must load and give the same problem as the plain file.
-import { accessSync, chmodSync, constants, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { accessSync, chmodSync, constants, copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -207,7 +207,7 @@ describe('valid on purpose: a byte-order mark and CRLF line endings load like th
     const r = await runCli(['run', '--problem', join(BAD, 'valid-bom-crlf.json'), '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report', '--out', join(dir, 'out')]);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stderr).toBe('');
-    expect(readdirSync(join(dir, 'out')).sort()).toEqual(['results.csv', 'results.json']);
+    expect(readdirSync(join(dir, 'out')).sort()).toEqual(['.stepgauge-output', 'results.csv', 'results.json']);
   });
 });
 
@@ -266,5 +266,100 @@ describe('bad flags and files for the other commands', () => {
   it('choose with a target that is not a number names --target', async () => {
     const r = await runCli(['choose', '--problem', 'harmonic-oscillator', '--target', 'tiny']);
     expectRefused(r, undefined, '--target', /tiny/);
+  });
+});
+
+// Issue 22, the output side: what stepgauge may replace, I/O failures, locks, resume, flags.
+describe('outputs: stepgauge replaces only what it wrote itself', () => {
+  const fast = ['-p', 'harmonic-oscillator', '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report'];
+  /** A folder of the user's own: two files and a subfolder, none of them stepgauge's. */
+  function userFolder(): { dir: string; thesis: string; listing: string[] } {
+    const dir = freshDir();
+    const thesis = join(dir, 'thesis');
+    mkdirSync(join(thesis, '.git'), { recursive: true });
+    writeFileSync(join(thesis, 'chapter1.tex'), '\\chapter{One}\n');
+    writeFileSync(join(thesis, '.git', 'HEAD'), 'ref: refs/heads/main\n');
+    return { dir, thesis, listing: readdirSync(thesis).sort() };
+  }
+  function expectUntouched(u: { thesis: string; listing: string[] }): void {
+    expect(readdirSync(u.thesis).sort()).toEqual(u.listing);
+    expect(readFileSync(join(u.thesis, 'chapter1.tex'), 'utf8')).toBe('\\chapter{One}\n');
+    expect(readFileSync(join(u.thesis, '.git', 'HEAD'), 'utf8')).toBe('ref: refs/heads/main\n');
+  }
+
+  it('run -o on a folder with unrelated files: refused, the files still there, nothing beside it', async () => {
+    const u = userFolder();
+    const r = await runCli(['run', ...fast, '--out', u.thesis]);
+    expectRefused(r, undefined, `--out ${u.thesis}`, /is a folder stepgauge did not write .*it is left untouched/);
+    expectUntouched(u);
+    expect(readdirSync(u.dir)).toEqual(['thesis']); // no journal, lock or temporary beside it
+  });
+  it('run -o with an empty name is refused', async () => {
+    const r = await runCli(['run', ...fast, '--out', '']);
+    expectRefused(r, undefined, '--out', /an empty folder name/);
+  });
+  it('run -o . (the current folder, here the repository itself) is refused', async () => {
+    const r = await runCli(['run', ...fast, '--out', '.']);
+    expectRefused(r, undefined, '--out .', /is the current folder or contains it/);
+    expect(existsSync('.git')).toBe(true);
+    expect(existsSync('package.json')).toBe(true);
+  });
+  it('run -o on a parent of the current folder is refused', async () => {
+    const r = await runCli(['run', ...fast, '--out', '..']);
+    expectRefused(r, undefined, '--out ..', /is the current folder or contains it/);
+  });
+  it('run -o on a file is refused', async () => {
+    const u = userFolder();
+    const r = await runCli(['run', ...fast, '--out', join(u.thesis, 'chapter1.tex')]);
+    expectRefused(r, undefined, 'chapter1.tex', /exists and is not a folder/);
+    expectUntouched(u);
+  });
+  it('an empty folder and a folder stepgauge wrote are written (twice: the second replaces the first)', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    mkdirSync(out);
+    for (let i = 0; i < 2; i++) {
+      const r = await runCli(['run', ...fast, '--out', out]);
+      expect(r.code, r.stderr).toBe(0);
+      expect(readdirSync(out).sort()).toEqual(['.stepgauge-output', 'results.csv', 'results.json']);
+    }
+    // A folder holding a stepgauge results.json but no marker (an older stepgauge wrote it) is stepgauge's too.
+    rmSync(join(out, '.stepgauge-output'));
+    const again = await runCli(['run', ...fast, '--out', out]);
+    expect(again.code, again.stderr).toBe(0);
+  });
+  it('report -o on a user folder is refused; its default folder (the results file\'s own) is written', async () => {
+    const u = userFolder();
+    const runDir = join(u.dir, 'sweep');
+    expect((await runCli(['run', ...fast, '--out', runDir])).code).toBe(0);
+    const r = await runCli(['report', join(runDir, 'results.json'), '--out', u.thesis]);
+    expectRefused(r, undefined, `--out ${u.thesis}`, /is a folder stepgauge did not write/);
+    expectUntouched(u);
+    // A stepgauge results file copied into the user's folder under another name does not make it stepgauge's.
+    copyFileSync(join(runDir, 'results.json'), join(u.thesis, 'merged.json'));
+    const beside = await runCli(['report', join(u.thesis, 'merged.json')]);
+    expectRefused(beside, undefined, `report folder (the results file's own) ${u.thesis}`, /is a folder stepgauge did not write/);
+    expectUntouched({ thesis: u.thesis, listing: [...u.listing, 'merged.json'].sort() });
+    const own = await runCli(['report', join(runDir, 'results.json')]);
+    expect(own.code, own.stderr).toBe(0);
+    expect(existsSync(join(runDir, 'report.html'))).toBe(true);
+  });
+  it.each([
+    ['merge', (res: string, out: string) => ['merge', res, '--out', out], '--out'],
+    ['baseline', (res: string, out: string) => ['baseline', res, '--out', out], '--out'],
+    ['check --junit', (res: string, out: string) => ['check', res, '--baseline', res, '--junit', out], '--junit'],
+  ] as const)('%s onto a file stepgauge did not write is refused; onto a folder too', async (_name, argv, flag) => {
+    const u = userFolder();
+    const runDir = join(u.dir, 'sweep');
+    expect((await runCli(['run', ...fast, '--out', runDir])).code).toBe(0);
+    const res = join(runDir, 'results.json');
+    const target = join(u.thesis, 'chapter1.tex');
+    expectRefused(await runCli(argv(res, target)), undefined, `${flag} ${target}`, /exists and is not a file stepgauge wrote; it is left untouched/);
+    expectRefused(await runCli(argv(res, u.thesis)), undefined, `${flag} ${u.thesis}`, /is a folder; give a file name/);
+    expectUntouched(u);
+    // Its own earlier output is replaced.
+    const own = join(u.dir, 'own.out');
+    expect((await runCli(argv(res, own))).code).toBe(0);
+    expect((await runCli(argv(res, own))).code).toBe(0);
   });
 });

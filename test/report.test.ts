@@ -156,7 +156,7 @@ describe('stepgauge report', () => {
     expect(code).toBe(0);
     expect(readFileSync(path, 'utf8')).toBe(text);
     expect(readFileSync(join(dir, 'results.csv'), 'utf8')).toBe('kept');
-    expect(readdirSync(dir).sort()).toEqual(['plots', 'report.html', 'report.md', 'results.csv', 'results.json']);
+    expect(readdirSync(dir).sort()).toEqual(['.stepgauge-output', 'plots', 'report.html', 'report.md', 'results.csv', 'results.json']);
     const printed = chunks.join('').trim().split('\n');
     expect(printed).toHaveLength(11);
     expect(printed).toContain(`wrote ${join(dir, 'report.html')}`);
@@ -171,7 +171,8 @@ describe('stepgauge report', () => {
     only.problems = only.problems.filter((p) => p.id === 'van-der-pol-mu-1');
     await installReport(only, dir);
     expect(readdirSync(join(dir, 'plots')).every((f) => f.startsWith('van-der-pol'))).toBe(true);
-    expect(readdirSync(dir).filter((f) => f.startsWith('.'))).toEqual([]);
+    // No temporaries left; the marker says stepgauge wrote the folder (src/results/ownership.ts).
+    expect(readdirSync(dir).filter((f) => f.startsWith('.'))).toEqual(['.stepgauge-output']);
   });
 
   it('rejects a malformed results file with a message naming file and field (exit 2)', async () => {

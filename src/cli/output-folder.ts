@@ -2,6 +2,7 @@
 import { accessSync, constants, existsSync, lstatSync, mkdirSync, renameSync, statSync, symlinkSync, unlinkSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import { InputError } from '../core/errors.js';
+import { assertReplaceableFolder } from '../results/ownership.js';
 
 export function defaultOutDir(now = new Date()): string {
   const p = (n: number) => String(n).padStart(2, '0');
@@ -9,8 +10,12 @@ export function defaultOutDir(now = new Date()): string {
   return join('reports', stamp);
 }
 
-/** Fails early (before any integration) when the output folder could not be written. */
+/**
+ * Fails early (before any integration) when the output folder could not be written, or is not
+ * one stepgauge may replace (src/results/ownership.ts).
+ */
 export function checkWritableTarget(dir: string, flag = '--out'): void {
+  assertReplaceableFolder(dir, flag);
   const abs = resolve(dir);
   if (existsSync(abs) && !statSync(abs).isDirectory()) throw new InputError(`${dir} exists and is not a folder`, flag);
   // Find the nearest existing ancestor: that is where the temporary folder will be created.

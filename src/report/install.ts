@@ -1,12 +1,14 @@
 // Putting a finished report in place. The report shares its folder with results.json (by
 // default the folder of the results file), so the folder itself cannot be swapped; instead the
 // report is written to a temporary folder inside the target (same file system, so renames are
-// atomic) and its top-level entries are renamed over the old ones one by one.
+// atomic) and its top-level entries are renamed over the old ones one by one. Only a folder
+// stepgauge wrote (or a new or empty one) is written into (src/results/ownership.ts).
 import { randomBytes } from 'node:crypto';
-import { lstat, mkdir, rename, rm } from 'node:fs/promises';
+import { lstat, mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import type { ResultsFile } from '../results/contract.js';
 import { writeReport } from './index.js';
+import { assertReplaceableFolder, OUTPUT_MARKER, OUTPUT_MARKER_TEXT } from '../results/ownership.js';
 
 async function exists(p: string): Promise<boolean> {
   try {
@@ -18,7 +20,8 @@ async function exists(p: string): Promise<boolean> {
 }
 
 /** Writes the report for `results` into `target` (created if missing); returns absolute paths. */
-export async function installReport(results: ResultsFile, target: string, options: { title?: string } = {}): Promise<string[]> {
+export async function installReport(results: ResultsFile, target: string, options: { title?: string; flag?: string } = {}): Promise<string[]> {
+  assertReplaceableFolder(target, options.flag ?? '--out', false);
   const dir = resolve(target);
   await mkdir(dir, { recursive: true });
   const tag = `${process.pid}-${randomBytes(4).toString('hex')}`;
@@ -41,6 +44,7 @@ export async function installReport(results: ResultsFile, target: string, option
       }
       if (old) await rm(old, { recursive: true, force: true });
     }
+    if (!(await exists(join(dir, OUTPUT_MARKER)))) await writeFile(join(dir, OUTPUT_MARKER), OUTPUT_MARKER_TEXT);
     return files.map((f) => join(dir, f));
   } finally {
     await rm(tmp, { recursive: true, force: true });

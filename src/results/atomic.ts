@@ -3,8 +3,9 @@
 // same folder as the target because rename is atomic only within one file system.
 import { randomBytes } from 'node:crypto';
 import { closeSync, fsyncSync, openSync, renameSync, rmSync, unlinkSync, writeSync } from 'node:fs';
-import { lstat, mkdir, rename, rm } from 'node:fs/promises';
+import { lstat, mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { basename, dirname, join, resolve } from 'node:path';
+import { assertReplaceableFolder, OUTPUT_MARKER, OUTPUT_MARKER_TEXT } from './ownership.js';
 
 function tempSibling(target: string, tag: string): string {
   const abs = resolve(target);
@@ -43,24 +44,35 @@ export function writeFileAtomicSync(path: string, data: string | Uint8Array): vo
 }
 
 /**
- * Fills a temporary sibling folder with `fill(tmpDir)` and renames it to `target`. An existing
+ * Fills a temporary sibling folder with `fill(tmpDir)` and renames it to `target`; the new folder
+ * carries stepgauge's marker (src/results/ownership.ts). Only an absent or empty target, or one
+ * stepgauge wrote, is replaced: anything else throws InputError before `fill` runs. An existing
  * target is moved aside first (a folder cannot be renamed over a non-empty one) and removed only
  * after the new folder is in place; if that rename fails, the old folder is put back. When `fill`
  * throws, the temporary folder is removed and the target is left untouched.
  */
-export async function writeFolderAtomically(target: string, fill: (tmpDir: string) => Promise<void>): Promise<void> {
+export async function writeFolderAtomically(target: string, fill: (tmpDir: string) => Promise<void>, flag = '--out'): Promise<void> {
+  assertReplaceableFolder(target, flag);
   const abs = resolve(target);
   await mkdir(dirname(abs), { recursive: true });
   const tmp = tempSibling(abs, 'tmp');
   await mkdir(tmp);
   try {
     await fill(tmp);
+    await writeFile(join(tmp, OUTPUT_MARKER), OUTPUT_MARKER_TEXT);
   } catch (e) {
     await rm(tmp, { recursive: true, force: true });
     throw e;
   }
   let old: string | undefined;
   if (await exists(abs)) {
+    // Checked again here: the folder may have changed while `fill` ran.
+    try {
+      assertReplaceableFolder(target, flag);
+    } catch (e) {
+      await rm(tmp, { recursive: true, force: true });
+      throw e;
+    }
     old = tempSibling(abs, 'old');
     await rename(abs, old);
   }

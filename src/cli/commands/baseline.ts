@@ -1,7 +1,8 @@
 // `stepgauge baseline`: reduce a results file to a committed baseline with reproducible bytes.
 import { InputError } from '../../core/errors.js';
-import { makeBaseline, serializeBaseline } from '../../gate/baseline.js';
+import { BASELINE_FORMAT, makeBaseline, serializeBaseline } from '../../gate/baseline.js';
 import { writeFileAtomic } from '../../results/atomic.js';
+import { assertReplaceableFile, declaresFormat } from '../../results/ownership.js';
 import { readResultsFile } from '../../results/read.js';
 import type { RegisterCommand } from './register.js';
 
@@ -13,6 +14,7 @@ export const registerBaseline: RegisterCommand = (program) => {
     .requiredOption('--out <file>', 'baseline file to write (atomically)')
     .option('--keep-time', 'keep run times and the calibration, for `check --time`')
     .action(async (resultsPath: string, flags: { out: string; keepTime?: boolean }) => {
+      assertReplaceableFile(flags.out, '--out', (p) => declaresFormat(p, BASELINE_FORMAT));
       const results = readResultsFile(resultsPath);
       // A baseline from a partial sweep would silently stop gating the runs it lacks.
       if (results.interrupted) throw new InputError('is from an interrupted sweep; rerun it to completion before making a baseline', resultsPath);

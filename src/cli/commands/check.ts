@@ -7,6 +7,7 @@ import { compareResults } from '../../gate/compare.js';
 import { junitXml } from '../../gate/junit.js';
 import { formatComparison } from '../../gate/report-text.js';
 import { writeFileAtomic } from '../../results/atomic.js';
+import { assertReplaceableFile, looksLikeOurJunit } from '../../results/ownership.js';
 import { READABLE_RESULTS, readResultsFile, validateResults } from '../../results/read.js';
 import type { RegisterCommand } from './register.js';
 
@@ -60,6 +61,7 @@ export const registerCheck: RegisterCommand = (program, setExit) => {
     .option('--time <factor>', 'also fail when a run is slower than this factor, in units of the calibration workload')
     .option('--verbose', 'list notes for new runs too')
     .action(async (resultsPath: string, flags: CheckFlags) => {
+      if (flags.junit !== undefined) assertReplaceableFile(flags.junit, '--junit', looksLikeOurJunit);
       const baseline = readBaselineOrResults(flags.baseline);
       const current = readResultsFile(resultsPath);
       const comparison = compareResults(baseline, current, {

@@ -1,5 +1,6 @@
 // `stepgauge merge`: join the shards of one sweep (or separate sweeps) into one results file.
 import { writeFileAtomic } from '../../results/atomic.js';
+import { assertReplaceableFile, declaresFormat } from '../../results/ownership.js';
 import { readResultsFile } from '../../results/read.js';
 import { mergeResults } from '../../results/merge.js';
 import { resultsJson } from '../../results/json.js';
@@ -12,6 +13,7 @@ export const registerMerge: RegisterCommand = (program) => {
     .argument('<files...>', 'results.json files to merge')
     .requiredOption('--out <file>', 'merged results file to write (atomically)')
     .action(async (paths: string[], flags: { out: string }) => {
+      assertReplaceableFile(flags.out, '--out', (p) => declaresFormat(p, 'stepgauge-results'));
       const files = paths.map((path) => ({ path, results: readResultsFile(path) }));
       const merged = mergeResults(files, (w) => process.stderr.write(`stepgauge: warning: ${w}\n`));
       await writeFileAtomic(flags.out, resultsJson(merged));

@@ -15,7 +15,10 @@ export const registerReport: RegisterCommand = (program) => {
       // The validating reader throws InputError naming the file and the field.
       const results = readResultsFile(path);
       const { installReport } = await import('../../report/install.js');
-      const written = await installReport(results, flags.out ?? dirname(path), flags.title ? { title: flags.title } : {});
+      const written = await installReport(results, flags.out ?? dirname(path), {
+        ...(flags.title ? { title: flags.title } : {}),
+        flag: flags.out === undefined ? 'report folder (the results file\'s own)' : '--out',
+      });
       for (const f of written) process.stdout.write(`wrote ${f}\n`);
     });
 };

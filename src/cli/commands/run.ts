@@ -117,7 +117,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
         req = { ...state.request, finished: state.finished, jobs: req.jobs ?? 1 };
         outDir = flags.resume;
       }
-      checkWritableTarget(outDir);
+      checkWritableTarget(outDir, flags.resume !== undefined ? '--resume' : '--out');
       // Workers go first (see the header); only a sweep that will use them starts them.
       const laneCount = workerLaneCount(req);
       const lanes = laneCount > 0 ? prestartLanes(laneCount) : undefined;
