@@ -4,20 +4,13 @@
 // atomic) and its top-level entries are renamed over the old ones one by one. Only a folder
 // stepgauge wrote (or a new or empty one) is written into (src/results/ownership.ts).
 import { randomBytes } from 'node:crypto';
-import { lstat, mkdir, rename, rm, writeFile } from 'node:fs/promises';
+import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
+import { exists } from './atomic.js';
 import { join, resolve } from 'node:path';
 import type { ResultsFile } from '../results/contract.js';
 import { writeReport } from './index.js';
 import { assertReplaceableFolder, OUTPUT_MARKER, OUTPUT_MARKER_TEXT } from '../results/ownership.js';
 
-async function exists(p: string): Promise<boolean> {
-  try {
-    await lstat(p);
-    return true;
-  } catch {
-    return false;
-  }
-}
 
 /** Writes the report for `results` into `target` (created if missing); returns absolute paths. */
 export async function installReport(results: ResultsFile, target: string, options: { title?: string; flag?: string } = {}): Promise<string[]> {

@@ -86,7 +86,8 @@ export async function writeFolderAtomically(target: string, fill: (tmpDir: strin
   if (old) rmSync(old, { recursive: true, force: true });
 }
 
-async function exists(p: string): Promise<boolean> {
+/** True when something (a file, folder or link, even a dangling one) is at `p`. */
+export async function exists(p: string): Promise<boolean> {
   try {
     await lstat(p);
     return true;
