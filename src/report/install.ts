@@ -5,7 +5,7 @@
 // stepgauge wrote (or a new or empty one) is written into (src/results/ownership.ts).
 import { randomBytes } from 'node:crypto';
 import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
-import { exists } from './atomic.js';
+import { exists } from '../results/atomic.js';
 import { join, resolve } from 'node:path';
 import type { ResultsFile } from '../results/contract.js';
 import { writeReport } from './index.js';
