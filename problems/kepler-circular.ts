@@ -7,6 +7,7 @@
 // Invariants: energy |v|^2/2 - 1/|x| = -1/2 and angular momentum |x cross v| = 1.
 // Checked four times per orbit, so phase drift shows up as it grows.
 import type { Problem } from '../src/core/types.js';
+import { twoBodyReference } from './physics/kepler.js';
 import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from './physics/two-body.js';
 
 const MU = 1;
@@ -48,6 +49,7 @@ export const keplerCircular: Problem = {
       out[5] = c * S30;
     },
   },
+  exactFromState: (y0) => twoBodyReference(y0, 3, MU, 0),
   checkTimes: CHECK_TIMES,
   // Equal steps from 200 doubling: reaches rk4's asymptotic range (common practice, no source).
   defaultSteps: [200, 400, 800, 1600, 3200, 6400, 12800, 25600],

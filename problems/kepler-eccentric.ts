@@ -6,7 +6,7 @@
 // Error scale: absolute. Invariants: energy -1/2 and angular momentum sqrt(1 - e^2) = 0.8.
 // Checked four times per orbit; near periapsis the speed is 2, the hardest part for step control.
 import type { Problem } from '../src/core/types.js';
-import { ellipticState } from './physics/kepler.js';
+import { ellipticState, twoBodyReference } from './physics/kepler.js';
 import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from './physics/two-body.js';
 
 const MU = 1;
@@ -41,6 +41,7 @@ export const keplerEccentric: Problem = {
       ellipticState(t, A, E, MU, out);
     },
   },
+  exactFromState: (y0) => twoBodyReference(y0, 2, MU, 0),
   checkTimes: CHECK_TIMES,
   // Equal steps from 500 doubling: reaches rk4's asymptotic range (common practice, no source).
   defaultSteps: [500, 1000, 2000, 4000, 8000, 16000, 32000, 64000],

@@ -1,6 +1,7 @@
 // The readable summary printed after a sweep: one line per (problem, method).
 import type { ResultsFile, RunResult } from '../results/contract.js';
 import { sig3 } from '../report/format.js';
+import { dispersionSummary, samplesOf } from '../report/dispersion-summary.js';
 
 function pad(s: string, w: number): string {
   return s.length >= w ? s : s + ' '.repeat(w - s.length);
@@ -20,7 +21,9 @@ function statusCounts(runs: RunResult[]): string {
 export function summaryText(results: ResultsFile): string {
   const lines: string[] = [];
   const byProblem = new Map<string, RunResult[]>();
-  for (const r of results.runs) byProblem.set(r.problem, [...(byProblem.get(r.problem) ?? []), r]);
+  const samples = samplesOf(results);
+  // Dispersion samples are summarised as distributions below, not one table each.
+  for (const r of results.runs) if (!samples.has(r.problem)) byProblem.set(r.problem, [...(byProblem.get(r.problem) ?? []), r]);
   for (const [problem, runs] of byProblem) {
     lines.push('', `${problem}`);
     const rows: string[][] = [['method', 'runs', 'ok', 'best error', 'at setting', 'nfev there', 'time there', 'failures']];
@@ -43,7 +46,29 @@ export function summaryText(results: ResultsFile): string {
     }
     lines.push(table(rows));
   }
+  if (samples.size > 0) lines.push(dispersionText(results));
   const failed = results.runs.filter((r) => r.status !== 'ok').length;
   lines.push('', `${results.runs.length} runs, ${failed} not ok${failed ? ` (${statusCounts(results.runs)})` : ''}.`);
+  return lines.join('\n');
+}
+
+function settingText(s: RunResult['setting']): string {
+  return 'rtol' in s ? `rtol ${sig3(s.rtol)}` : `${s.steps} steps`;
+}
+
+/** One table per dispersed problem: the final error's distribution over samples per setting. */
+export function dispersionText(results: ResultsFile, q = 0.95): string {
+  const summary = dispersionSummary(results, q);
+  const lines: string[] = [];
+  const byOf = new Map<string, typeof summary.rows>();
+  for (const r of summary.rows) byOf.set(r.of, [...(byOf.get(r.of) ?? []), r]);
+  for (const [of, rows] of byOf) {
+    lines.push('', `${of}: dispersion over ${Math.max(...rows.map((r) => r.samples))} samples (final error)`);
+    const t: string[][] = [['method', 'setting', 'median', `q${Math.round(q * 100)}`, 'worst', 'worst sample', 'failed', 'mean nfev']];
+    for (const r of rows) {
+      t.push([r.method, settingText(r.setting), sig3(r.median), sig3(r.quantile), sig3(r.worst.error), r.worst.problem, String(r.failed), sig3(r.meanNfev)]);
+    }
+    lines.push(table(t));
+  }
   return lines.join('\n');
 }

@@ -94,6 +94,26 @@ export interface Problem {
   readonly separableReason?: string;
   /** Canonical text of the definition, hashed (SHA-256) so auditors can tell two problems apart. */
   readonly definition: string;
+  /**
+   * The exact solution from another initial state at t0, where the model has one in closed form
+   * (two-body orbits): lets a dispersion keep an exact reference for every sample.
+   */
+  readonly exactFromState?: (y0: readonly number[]) => { exact: (t: number, out: Float64Array) => void; source: string } | undefined;
+  /** Set on one sample of a dispersed problem: which problem it disperses and with what values. */
+  readonly dispersion?: DispersionTag;
+}
+
+/** A dispersion sample's identity: reproducible from (of, seed, sample) alone. */
+export interface DispersionTag {
+  /** Id of the nominal problem. */
+  readonly of: string;
+  /** 1-based sample number; explicit cases follow the random samples. */
+  readonly sample: number;
+  /** True for an explicit case of the dispersion block (not a random draw). */
+  readonly explicitCase: boolean;
+  readonly seed: number;
+  /** The dispersed initial states and parameters of this sample, by name. */
+  readonly values: Readonly<Record<string, number>>;
 }
 
 export type Family =

@@ -53,5 +53,7 @@ export function uniformProblem(p: Problem): Problem {
     errorOn: p.errorOn,
     separableReason: p.separableReason,
     definition: p.definition,
+    exactFromState: p.exactFromState,
+    dispersion: p.dispersion,
   };
 }

@@ -208,7 +208,7 @@ export async function stiffnessOnPool(
   const limitMs = (timeoutSeconds + TERMINATE_GRACE_SECONDS) * 1000;
   await withWorker(async (pool) => {
     for (const [id, entry] of entries) {
-      const task: StiffnessTask = { kind: 'stiffness', problemEntry: entry };
+      const task: StiffnessTask = { kind: 'stiffness', problemEntry: entry, problemId: id };
       const why = uncertified?.get(entry);
       if (why !== undefined) task.uncertified = why;
       const outcome = await runLimited(pool, task, limitMs);

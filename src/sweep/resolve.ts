@@ -42,7 +42,8 @@ interface ListKind<T extends { id: string }> {
   noun: string;
   flag: string;
   builtins: readonly T[];
-  load(path: string): Promise<T>;
+  /** One item, or several (a dispersion yields one problem per sample). */
+  load(path: string): Promise<T | T[]>;
 }
 
 /** The entries of a comma list: built-in ids, or files loaded by `kind.load`. */
@@ -56,9 +57,11 @@ async function resolveList<T extends { id: string }>(list: string | undefined, k
   const sources = new Map<string, string>();
   for (const entry of entries) {
     if (looksLikePath(entry)) {
-      const item = await kind.load(entry);
-      items.push(item);
-      sources.set(item.id, entry);
+      const loaded = await kind.load(entry);
+      for (const item of Array.isArray(loaded) ? loaded : [loaded]) {
+        items.push(item);
+        sources.set(item.id, entry);
+      }
       continue;
     }
     const item = kind.builtins.find((c) => c.id === entry);
@@ -87,9 +90,12 @@ export async function resolveProblems(
       const { loadUserProblem } = await import('./user-files.js');
       const loaded = await loadUserProblem(entry);
       const skipped = uncertified?.get(resolvePath(entry));
-      const p = skipped !== undefined ? withoutReference(loaded, skipped) : withCertifiedReference(loaded);
-      if (p.reference.unavailable) warn(`${entry}: ${p.reference.unavailable}`);
-      return uniformProblem(p);
+      const one = (x: Problem): Problem => {
+        const p = skipped !== undefined ? withoutReference(x, skipped) : withCertifiedReference(x);
+        if (p.reference.unavailable) warn(`${entry}${x.dispersion ? ` (${x.id})` : ''}: ${p.reference.unavailable}`);
+        return uniformProblem(p);
+      };
+      return Array.isArray(loaded) ? loaded.map(one) : one(loaded);
     },
   });
 }

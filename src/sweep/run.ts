@@ -33,6 +33,7 @@ export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number
     source: p.source,
     dimension: p.dimension,
     stiffnessRatio: stiffness?.has(p.id) ? stiffness.get(p.id)! : problemStiffnessRatio(p),
+    ...(p.dispersion ? { dispersion: p.dispersion } : {}),
   };
 }
 

@@ -3,7 +3,8 @@ import { existsSync, statSync } from 'node:fs';
 import { extname } from 'node:path';
 import type { Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
-import { loadProblemFile } from '../problems/load-file.js';
+import { loadProblemFileWithSamples } from '../problems/load-file.js';
+import { loadDispersionOfBuiltin } from './dispersion-file.js';
 import { loadMethodModule, loadProblemModule } from '../authoring/module-loader.js';
 
 const MODULE = /\.(?:[cm]?[jt]s)$/i;
@@ -13,10 +14,16 @@ function assertFile(path: string, flag: string): void {
   if (!statSync(path).isFile()) throw new InputError(`expected a file, found a folder`, `${flag} ${path}`);
 }
 
-export async function loadUserProblem(path: string): Promise<Problem> {
+/** The problem of a file, or one problem per sample when the file disperses one. */
+export async function loadUserProblem(path: string): Promise<Problem | Problem[]> {
   assertFile(path, '--problem');
   if (MODULE.test(path)) return loadProblemModule(path);
-  if (/\.(ya?ml|json)$/i.test(path)) return loadProblemFile(path);
+  if (/\.(ya?ml|json)$/i.test(path)) {
+    const builtin = await loadDispersionOfBuiltin(path);
+    if (builtin) return builtin;
+    const loaded = await loadProblemFileWithSamples(path);
+    return loaded.samples ?? loaded.nominal;
+  }
   throw new InputError(`unknown problem file type '${extname(path)}'; expected .yaml, .yml, .json, .ts or .js`, `--problem ${path}`);
 }
 

@@ -29,15 +29,18 @@ if (typeof process.send === 'function') {
   process.on('disconnect', () => process.exit(0));
 }
 
-const problems = new Map<string, Problem>();
+const problems = new Map<string, Problem[]>();
 const methods = new Map<string, Method>();
 
-async function problemFor(entry: string, uncertified?: string): Promise<Problem> {
-  let p = problems.get(entry);
-  if (!p) {
-    p = (await resolveProblems(entry, undefined, uncertified !== undefined ? new Map([[entry, uncertified]]) : undefined)).items[0]!;
-    problems.set(entry, p);
+/** The problem `id` of an entry (an entry may yield several: the samples of a dispersion). */
+async function problemFor(entry: string, id: string | undefined, uncertified?: string): Promise<Problem> {
+  let items = problems.get(entry);
+  if (!items) {
+    items = (await resolveProblems(entry, undefined, uncertified !== undefined ? new Map([[entry, uncertified]]) : undefined)).items;
+    problems.set(entry, items);
   }
+  const p = id === undefined ? items[0] : items.find((x) => x.id === id);
+  if (!p) throw new Error(`${entry} yields no problem '${id}'`);
   return p;
 }
 
@@ -54,6 +57,8 @@ async function methodFor(entry: string): Promise<Method> {
 export interface StiffnessTask {
   kind: 'stiffness';
   problemEntry: string;
+  /** Which of the entry's problems (a dispersion yields several). */
+  problemId?: string;
   uncertified?: string;
 }
 
@@ -98,7 +103,7 @@ async function runBatch(task: BatchTask): Promise<BatchAnswer> {
 }
 
 async function runOne(task: WorkerTask): Promise<RunResult> {
-  const problem = await problemFor(task.problemEntry, task.uncertified);
+  const problem = await problemFor(task.problemEntry, task.planned.problem, task.uncertified);
   let method: Method;
   try {
     method = await methodFor(task.methodEntry);
@@ -111,6 +116,6 @@ async function runOne(task: WorkerTask): Promise<RunResult> {
 export default async function runTask(task: BatchTask | StiffnessTask | CertifyTask | PingTask): Promise<BatchAnswer | number | string | null> {
   if (task.kind === 'ping') return null;
   if (task.kind === 'batch') return runBatch(task);
-  if (task.kind === 'certify') return (await problemFor(task.problemEntry)).reference.unavailable ?? null;
-  return problemStiffnessRatio(await problemFor(task.problemEntry, task.uncertified));
+  if (task.kind === 'certify') return (await problemFor(task.problemEntry, undefined)).reference.unavailable ?? null;
+  return problemStiffnessRatio(await problemFor(task.problemEntry, task.problemId, task.uncertified));
 }

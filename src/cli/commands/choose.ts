@@ -15,6 +15,7 @@ interface ChooseFlags {
   cost: string;
   json?: boolean;
   maxSteps: string;
+  quantile?: string;
 }
 
 function settingText(c: Candidate): string {
@@ -60,6 +61,7 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
     .option('--cost <what>', 'time (median wall time) or nfev (function evaluations, free of timing noise)', 'time')
     .option('--max-steps <n>', 'step limit per run', String(DEFAULT_MAX_STEPS))
     .option('--json', 'print the ranked table as JSON')
+    .option('--quantile <q>', "for a dispersed problem: share of the samples that must meet the target, in (0, 1], or 'worst' (every sample; the default)")
     .action(async (flags: ChooseFlags) => {
       const target = parsePositive(flags.target ?? '', '--target');
       if (flags.measure !== 'final' && flags.measure !== 'max') throw new InputError(`'${flags.measure}' is not final or max`, '--measure');
@@ -67,6 +69,13 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       const { resolveMethods, resolveProblems } = await import('../../sweep/resolve.js');
       const { chooseMethod } = await import('../../sweep/choose.js');
       const problems = await resolveProblems(flags.problem);
+      const of = problems.items[0]?.dispersion?.of;
+      if (of !== undefined && problems.items.every((p) => p.dispersion?.of === of)) {
+        const { chooseDispersed } = await import('../choose-dispersed.js');
+        await chooseDispersed(of, problems.items, (await resolveMethods(flags.method)).items, target, flags, setExit);
+        return;
+      }
+      if (flags.quantile !== undefined) throw new InputError('applies to a dispersed problem only (a problem file with a dispersion block)', '--quantile');
       if (problems.items.length !== 1) throw new InputError('choose takes exactly one problem', '--problem');
       const methods = await resolveMethods(flags.method);
       const choice = await chooseMethod(problems.items[0]!, methods.items, {

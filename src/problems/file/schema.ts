@@ -2,6 +2,7 @@
 // dimensions, spans) is checked afterwards by the builders, which know the names involved.
 // The JSON Schema for editors (schema/problem.schema.json) describes the same shape.
 import { z } from 'zod';
+import { dispersionSpec } from '../dispersion/spec.js';
 
 /** A number, or an expression text (mathjs syntax, restricted; see src/problems/expression). */
 export const expressionValue = z.union([z.number(), z.string()]);
@@ -28,6 +29,8 @@ const common = {
   error: errorSpec.optional(),
   stiff: z.boolean().optional(),
   atolScale: atolScale.optional(),
+  /** Samples of initial states and parameters (src/problems/dispersion). */
+  dispersion: dispersionSpec.optional(),
 };
 
 export const equationFileSchema = z.strictObject({
@@ -94,3 +97,9 @@ export const linearFileSchema = z.strictObject({
 });
 export type LinearFile = z.infer<typeof linearFileSchema>;
 export type MatrixSpec = z.infer<typeof matrixSpec>;
+
+/** A file that disperses a built-in problem: its id and the dispersion block. */
+export const dispersionFileSchema = z.strictObject({
+  base: z.string().min(1),
+  dispersion: dispersionSpec,
+});

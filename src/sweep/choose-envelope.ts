@@ -1,0 +1,169 @@
+// Choosing a setting that holds across a dispersion: per method, the loosest tolerance (or fewest
+// equal steps) at which a share q of the samples meet the target, with the samples that miss it
+// named. Every trial runs every sample, so the figure is measured, not extrapolated from one case.
+// The search follows `choose` for one problem: a decade grid loosest first (equal-step counts
+// doubling), then bisection between the last failing and the first passing point; it assumes, as
+// that search does, that the error falls as the setting tightens.
+import type { Method, Problem, Setting } from '../core/types.js';
+import type { RunResult } from '../results/contract.js';
+import { measureRun, type RunOptions } from '../measure/run-one.js';
+import { absoluteTolerance } from '../core/tolerance.js';
+import { quantileOf } from '../measure/quantile.js';
+import { pairingGap } from './plan.js';
+
+/** The same decade grid as `choose` (1e-2 .. 1e-15) and fewer bisections: each trial costs every sample. */
+const RTOL_GRID = [1e-2, 1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10, 1e-11, 1e-12, 1e-13, 1e-14, 1e-15];
+const RTOL_BISECTIONS = 5;
+const MIN_STEPS = 4;
+const MAX_STEPS = 1 << 22;
+
+export interface EnvelopeOptions extends RunOptions {
+  target: number;
+  measure: 'final' | 'max';
+  /** Share of the samples that must meet the target, in (0, 1]; 1 is the worst case. */
+  quantile: number;
+}
+
+export interface EnvelopeCandidate {
+  method: string;
+  met: boolean;
+  setting: RunResult['setting'] | null;
+  /** Error at the quantile (nearest rank) over the samples at that setting. */
+  quantileError: number | null;
+  worstError: number | null;
+  worstSample: string | null;
+  /** Samples whose error exceeds the target at the chosen setting (failures included). */
+  failing: string[];
+  meanNfev: number | null;
+  trials: number;
+  note?: string;
+}
+
+export interface EnvelopeChoice {
+  of: string;
+  samples: number;
+  target: number;
+  measure: 'final' | 'max';
+  quantile: number;
+  candidates: EnvelopeCandidate[];
+  recommended: EnvelopeCandidate | null;
+}
+
+interface Trial {
+  setting: Setting;
+  runs: RunResult[];
+  errors: number[];
+  q: number;
+}
+
+function errorOf(r: RunResult, measure: 'final' | 'max'): number {
+  const e = measure === 'final' ? r.error.final : r.error.max;
+  return r.status === 'ok' && e !== null && Number.isFinite(e) ? e : Infinity;
+}
+
+function trial(samples: readonly Problem[], m: Method, setting: Setting, o: EnvelopeOptions): Trial {
+  const runs = samples.map((p) => measureRun(p, m, settingFor(p, setting), o));
+  const errors = runs.map((r) => errorOf(r, o.measure));
+  return { setting, runs, errors, q: quantileOf([...errors].sort((a, b) => a - b), o.quantile) };
+}
+
+/** Each sample's own atol from the shared rtol (samples of one problem share its atol scale). */
+function settingFor(p: Problem, s: Setting): Setting {
+  return 'rtol' in s ? { rtol: s.rtol, atol: absoluteTolerance(p, s.rtol) } : s;
+}
+
+function search(samples: readonly Problem[], m: Method, o: EnvelopeOptions): { best: Trial | null; closest: Trial | null; trials: number } {
+  let trials = 0;
+  let closest: Trial | null = null;
+  const at = (s: Setting): Trial => {
+    trials++;
+    const t = trial(samples, m, s, o);
+    if (!closest || t.q < closest.q) closest = t;
+    return t;
+  };
+  const meets = (t: Trial) => t.q <= o.target;
+  if (m.adaptive) {
+    let failing: number | null = null;
+    for (const rtol of RTOL_GRID) {
+      const t = at({ rtol, atol: 0 });
+      if (!meets(t)) {
+        failing = rtol;
+        continue;
+      }
+      let best = t;
+      if (failing !== null) {
+        let lo = Math.log10(failing);
+        let hi = Math.log10(rtol);
+        for (let k = 0; k < RTOL_BISECTIONS; k++) {
+          const mid = (lo + hi) / 2;
+          const tm = at({ rtol: 10 ** mid, atol: 0 });
+          if (meets(tm)) {
+            hi = mid;
+            best = tm;
+          } else lo = mid;
+        }
+      }
+      return { best, closest, trials };
+    }
+    return { best: null, closest, trials };
+  }
+  const cap = Math.min(MAX_STEPS, o.maxSteps);
+  let lo = 0;
+  for (let n = MIN_STEPS; ; n = Math.min(cap, n * 2)) {
+    const t = at({ steps: n });
+    if (meets(t)) {
+      let best = t;
+      let hi = n;
+      while (hi - lo > 1) {
+        const mid = Math.floor((lo + hi) / 2);
+        const tm = at({ steps: mid });
+        if (meets(tm)) {
+          hi = mid;
+          best = tm;
+        } else lo = mid;
+      }
+      return { best, closest, trials };
+    }
+    lo = n;
+    if (n >= cap) return { best: null, closest, trials };
+  }
+}
+
+export function chooseOverSamples(of: string, samples: readonly Problem[], methods: readonly Method[], o: EnvelopeOptions): EnvelopeChoice {
+  const candidates: EnvelopeCandidate[] = [];
+  for (const m of methods) {
+    const gap = pairingGap(samples[0]!, m);
+    if (gap && (m.needsSeparable || samples[0]!.stiff)) {
+      candidates.push({ method: m.id, met: false, setting: null, quantileError: null, worstError: null, worstSample: null, failing: [], meanNfev: null, trials: 0, note: gap });
+      continue;
+    }
+    const { best, closest, trials } = search(samples, m, o);
+    const shown = best ?? closest;
+    if (!shown) {
+      candidates.push({ method: m.id, met: false, setting: null, quantileError: null, worstError: null, worstSample: null, failing: [], meanNfev: null, trials, note: 'no run succeeded' });
+      continue;
+    }
+    let worst = 0;
+    shown.errors.forEach((e, i) => (e > shown.errors[worst]! ? (worst = i) : 0));
+    const limited = shown.runs.filter((r) => r.status === 'step-limit').length;
+    candidates.push({
+      method: m.id,
+      met: best !== null,
+      setting: shown.runs[0]!.setting,
+      quantileError: Number.isFinite(shown.q) ? shown.q : null,
+      worstError: Number.isFinite(shown.errors[worst]!) ? shown.errors[worst]! : null,
+      worstSample: shown.runs[worst]!.problem,
+      failing: shown.runs.filter((_, i) => !(shown.errors[i]! <= o.target)).map((r) => r.problem),
+      meanNfev: shown.runs.reduce((s, r) => s + r.counts.nfev, 0) / shown.runs.length,
+      trials,
+      ...(best ? {} : { note: `target not reached at the quantile${limited > 0 ? `; ${limited} sample(s) hit the step limit` : ''}` }),
+    });
+  }
+  // Cost is evaluations: one timing per sample would cost more than the search, and counts are exact.
+  const ranked = [...candidates].sort((a, b) => {
+    if (a.met !== b.met) return a.met ? -1 : 1;
+    if (a.met) return (a.meanNfev ?? Infinity) - (b.meanNfev ?? Infinity);
+    return (a.quantileError ?? Infinity) - (b.quantileError ?? Infinity);
+  });
+  return { of, samples: samples.length, target: o.target, measure: o.measure, quantile: o.quantile, candidates: ranked, recommended: ranked[0]?.met ? ranked[0] : null };
+}
