@@ -2,6 +2,7 @@
 import type { ResultsFile, RunResult } from '../results/contract.js';
 import { sig3 } from '../report/format.js';
 import { dispersionSummary, samplesOf } from '../report/dispersion-summary.js';
+import { dispersionTables } from './envelope-text.js';
 
 function pad(s: string, w: number): string {
   return s.length >= w ? s : s + ' '.repeat(w - s.length);
@@ -52,23 +53,7 @@ export function summaryText(results: ResultsFile): string {
   return lines.join('\n');
 }
 
-function settingText(s: RunResult['setting']): string {
-  return 'rtol' in s ? `rtol ${sig3(s.rtol)}` : `${s.steps} steps`;
-}
-
-/** One table per dispersed problem: the final error's distribution over samples per setting. */
-export function dispersionText(results: ResultsFile, q = 0.95): string {
-  const summary = dispersionSummary(results, q);
-  const lines: string[] = [];
-  const byOf = new Map<string, typeof summary.rows>();
-  for (const r of summary.rows) byOf.set(r.of, [...(byOf.get(r.of) ?? []), r]);
-  for (const [of, rows] of byOf) {
-    lines.push('', `${of}: dispersion over ${Math.max(...rows.map((r) => r.samples))} samples (final error)`);
-    const t: string[][] = [['method', 'setting', 'median', `q${Math.round(q * 100)}`, 'worst', 'worst sample', 'failed', 'mean nfev']];
-    for (const r of rows) {
-      t.push([r.method, settingText(r.setting), sig3(r.median), sig3(r.quantile), sig3(r.worst.error), r.worst.problem, String(r.failed), sig3(r.meanNfev)]);
-    }
-    lines.push(table(t));
-  }
-  return lines.join('\n');
+/** The dispersion tables of a sweep, one per dispersed problem (see `stepgauge envelope`). */
+function dispersionText(results: ResultsFile): string {
+  return [...dispersionTables(dispersionSummary(results)).values()].map((t) => `\n${t.join('\n')}`).join('\n');
 }

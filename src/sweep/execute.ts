@@ -31,6 +31,9 @@ export async function executeRun(
 ): Promise<RunResult> {
   const run = measureRun(problem, method, planned.setting, options);
   run.planIndex = planned.planIndex;
+  // One drift trace per sample would make a dispersion's results mostly traces (about 11 kB a
+  // run on an orbit); the drift maxima stay, and results.json says the traces were left out.
+  if (problem.dispersion) delete run.trace;
   if (run.status === 'step-limit' && problem.stiff && !method.stiff) {
     run.message = appendMessage(
       run.message,

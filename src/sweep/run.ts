@@ -92,6 +92,9 @@ export async function assembleResults(input: AssembleInput): Promise<ResultsFile
     skipped: input.plan.skipped,
   };
   if (input.interrupted) results.interrupted = true;
+  if (input.problems.some((p) => p.dispersion)) {
+    results.omitted = { traces: 'runs of dispersion samples carry no drift trace (drift maxima are kept); rerun a sample alone to see its trace' };
+  }
   return results;
 }
 

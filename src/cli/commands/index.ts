@@ -7,7 +7,8 @@ import { registerCheck } from './check.js';
 import { registerBaseline } from './baseline.js';
 import { registerMerge } from './merge.js';
 import { registerReport } from './report.js';
+import { registerEnvelope } from './envelope.js';
 
 export type { RegisterCommand } from './register.js';
 
-export const commands: RegisterCommand[] = [registerRun, registerList, registerChoose, registerCheck, registerBaseline, registerMerge, registerReport];
+export const commands: RegisterCommand[] = [registerRun, registerList, registerChoose, registerCheck, registerBaseline, registerMerge, registerReport, registerEnvelope];
