@@ -8,7 +8,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { erf } from 'mathjs';
 import { normalDraw, uniformDraw } from '../src/problems/dispersion/sample.js';
 import { ellipticState, twoBodyFromState } from '../problems/physics/kepler.js';
-import { quantileOf } from '../src/measure/quantile.js';
+import { quantileOf } from '../src/core/quantile.js';
 import { resolveMethods, resolveProblems } from '../src/sweep/resolve.js';
 import { chooseOverSamples } from '../src/sweep/choose-envelope.js';
 import { measureRun } from '../src/measure/run-one.js';

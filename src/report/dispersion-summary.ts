@@ -3,7 +3,7 @@
 // did not finish ok counts as an infinite error: a setting that fails on a sample fails there.
 import type { ProblemRecord, ResultsFile, RunResult } from '../results/contract.js';
 import { runKey } from '../results/contract.js';
-import { quantileOf } from '../measure/quantile.js';
+import { quantileOf } from '../core/quantile.js';
 
 export interface SampleError {
   sample: number;

@@ -8,7 +8,7 @@ import type { Method, Problem, Setting } from '../core/types.js';
 import type { RunResult } from '../results/contract.js';
 import { measureRun, type RunOptions } from '../measure/run-one.js';
 import { absoluteTolerance } from '../core/tolerance.js';
-import { quantileOf } from '../measure/quantile.js';
+import { quantileOf } from '../core/quantile.js';
 import { pairingGap } from './plan.js';
 
 /** The same decade grid as `choose` (1e-2 .. 1e-15) and fewer bisections: each trial costs every sample. */

@@ -1,7 +1,7 @@
 // `stepgauge envelope`: a dispersion's error distributions from a results file (a merged cluster
 // sweep, say) and, given a target, the cheapest swept setting per method that meets it on a share
 // of the samples, with the samples that miss it named. Reads results only; integrates nothing.
-import type { RegisterCommand } from './index.js';
+import type { RegisterCommand } from './register.js';
 import { InputError } from '../../core/errors.js';
 import { parsePositive } from '../options.js';
 import { readResultsFile } from '../../results/read.js';
