@@ -99,3 +99,13 @@ export function exactAt(p: Problem, t: number): Float64Array {
   p.reference.exact!(t, out);
   return out;
 }
+
+/**
+ * First same as last, read off the coefficients as HNW I sec. II.5 defines it: the last stage
+ * is evaluated at (t + h, y_new), i.e. its row of A equals b, its node is 1 and its weight 0.
+ */
+export function firstSameAsLast(d: { a: readonly (readonly number[])[]; b: readonly number[]; c: readonly number[] }): boolean {
+  const s = d.c.length;
+  const last = d.a[s - 1]!;
+  return s > 1 && d.c[s - 1] === 1 && d.b[s - 1] === 0 && d.b.slice(0, s - 1).every((bj, j) => Math.abs((last[j] ?? 0) - bj) <= 1e-15 * Math.max(1, Math.abs(bj)));
+}

@@ -2,8 +2,10 @@
 // and Wanner's ODEX, Gragg-Bulirsch-Stoer extrapolation), on a planar Kepler orbit.
 import odex from 'odex';
 import { describe, expect, it } from 'vitest';
-import { dormandPrince853, dormandPrince54 } from '../src/methods/explicit/index.js';
+import { dormandPrince54, tableauMethodById } from '../src/methods/explicit/index.js';
 import { kepler, maxAbsDiff } from './methods-explicit-helpers.js';
+
+const dormandPrince853 = tableauMethodById('dormand-prince-853');
 
 const E = 0.6;
 const T = 4 * Math.PI; // two periods of the a = 1, mu = 1 orbit

@@ -2,52 +2,18 @@
 // counts, same state to rounding; and the written-out and looped forms of one kernel bitwise equal.
 import { describe, expect, it } from 'vitest';
 import type { Method, Problem } from '../src/core/types.js';
-import {
-  UNROLL_MAX_N,
-  bogackiShampine32,
-  cashKarp45,
-  dormandPrince54,
-  dormandPrince853,
-  embeddedMethod,
-  euler,
-  fehlberg45,
-  fixedStepMethod,
-  midpoint,
-  rk4,
-  rk438,
-  tsitouras54,
-  unrolledSource,
-  verner65,
-  verner76,
-  verner87,
-} from '../src/methods/explicit/index.js';
+import { UNROLL_MAX_N, embeddedMethod, explicitTableaus, fixedStepMethod, tableauMethodById, unrolledSource } from '../src/methods/explicit/index.js';
 import type { StageKernel, TableauData } from '../src/methods/explicit/tableau.js';
-import { BOGACKI_SHAMPINE_32 } from '../src/methods/explicit/tableaus/bogacki-shampine-32.js';
-import { CASH_KARP_45 } from '../src/methods/explicit/tableaus/cash-karp-45.js';
-import { FEHLBERG_45 } from '../src/methods/explicit/tableaus/fehlberg-45.js';
-import { DORMAND_PRINCE_54 } from '../src/methods/explicit/tableaus/dormand-prince-54.js';
-import { DORMAND_PRINCE_853 } from '../src/methods/explicit/tableaus/dormand-prince-853.js';
-import { EULER, EXPLICIT_MIDPOINT, RK4, RK4_38 } from '../src/methods/explicit/tableaus/fixed.js';
-import { TSITOURAS_54 } from '../src/methods/explicit/tableaus/tsitouras-54.js';
-import { VERNER_65 } from '../src/methods/explicit/tableaus/verner-65.js';
-import { VERNER_76 } from '../src/methods/explicit/tableaus/verner-76.js';
 import { VERNER_87 } from '../src/methods/explicit/tableaus/verner-87.js';
 import { keplerEccentric } from '../problems/kepler-eccentric.js';
 import { exactAt, kepler, makeProblem, maxAbsDiff, oscillator } from './methods-explicit-helpers.js';
 
 const OPTS = { maxSteps: 1_000_000 };
 
-const withKernel: [Method, TableauData][] = [
-  [bogackiShampine32, BOGACKI_SHAMPINE_32],
-  [fehlberg45, FEHLBERG_45],
-  [cashKarp45, CASH_KARP_45],
-  [dormandPrince54, DORMAND_PRINCE_54],
-  [tsitouras54, TSITOURAS_54],
-  [verner65, VERNER_65],
-  [dormandPrince853, DORMAND_PRINCE_853],
-  [verner76, VERNER_76],
-  [verner87, VERNER_87],
-];
+/** Every registered pair (with its generated kernel) and every fixed-step tableau. */
+const withKernel: [Method, TableauData][] = explicitTableaus.filter((m) => m.tableau.bHat).map((m) => [tableauMethodById(m.id), m.tableau]);
+const fixed: [Method, TableauData][] = explicitTableaus.filter((m) => !m.tableau.bHat).map((m) => [tableauMethodById(m.id), m.tableau]);
+const verner87 = tableauMethodById('verner-87');
 
 /** Three uncoupled Kepler orbits (12 states): above UNROLL_MAX_N, so the looped kernel runs. */
 function keplerTriple(): Problem {
@@ -122,12 +88,6 @@ describe('written-out and looped kernels are the same arithmetic', () => {
 });
 
 describe('generated fixed-step kernels agree with the generic fixed-step engine', () => {
-  const fixed: [Method, TableauData][] = [
-    [euler, EULER],
-    [midpoint, EXPLICIT_MIDPOINT],
-    [rk4, RK4],
-    [rk438, RK4_38],
-  ];
   for (const [method, data] of fixed) {
     const generic = fixedStepMethod({ id: `${method.id}-generic`, name: 'generic', source: 'test' }, data);
     it.each(problems)(`${method.id}, %s: same counts, bitwise equal final state`, (_name, p) => {

@@ -2,25 +2,13 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../src/core/errors.js';
 import type { Method, Problem } from '../src/core/types.js';
-import {
-  bogackiShampine32,
-  cashKarp45,
-  dormandPrince54,
-  dormandPrince853,
-  embeddedMethod,
-  euler,
-  explicitMethods,
-  fehlberg45,
-  midpoint,
-  rk4,
-  rk438,
-  stormerVerlet,
-  tsitouras54,
-  verner65,
-  yoshida4,
-} from '../src/methods/explicit/index.js';
+import { dormandPrince54, embeddedMethod, explicitMethods, explicitTableaus, tableauMethodById } from '../src/methods/explicit/index.js';
 import { DORMAND_PRINCE_54 } from '../src/methods/explicit/tableaus/dormand-prince-54.js';
-import { decay, exactAt, kepler, makeProblem, maxAbsDiff, oscillator, oscillatorEnergy } from './methods-explicit-helpers.js';
+import { decay, exactAt, firstSameAsLast, kepler, makeProblem, maxAbsDiff, oscillator, oscillatorEnergy } from './methods-explicit-helpers.js';
+
+const [euler, midpoint, rk4, rk438, bogackiShampine32, fehlberg45, dormandPrince853] = ['euler', 'midpoint', 'rk4', 'rk4-38', 'bogacki-shampine-32', 'fehlberg-45', 'dormand-prince-853'].map(tableauMethodById) as [Method, Method, Method, Method, Method, Method, Method];
+const stormerVerlet = explicitMethods.find((m) => m.id === 'stormer-verlet')!;
+const yoshida4 = explicitMethods.find((m) => m.id === 'yoshida-4')!;
 
 const OPTS = { maxSteps: 1_000_000 };
 const adaptive = explicitMethods.filter((m) => m.adaptive);
@@ -34,31 +22,24 @@ function finalError(m: Method, p: Problem, setting: Parameters<Method['solve']>[
 }
 
 describe('method metadata', () => {
-  it('lists the fifteen explicit methods with their published orders', () => {
-    // Orders from the papers cited in each tableau file.
-    const orders = Object.fromEntries(explicitMethods.map((m) => [m.id, [m.order, m.embeddedOrder ?? null]]));
-    expect(orders).toEqual({
-      euler: [1, null],
-      midpoint: [2, null],
-      rk4: [4, null],
-      'rk4-38': [4, null],
-      'bogacki-shampine-32': [3, 2],
-      'fehlberg-45': [4, 5],
-      'cash-karp-45': [5, 4],
-      'dormand-prince-54': [5, 4],
-      'tsitouras-54': [5, 4],
-      'verner-65': [6, 5],
-      'verner-76': [7, 6],
-      'dormand-prince-853': [8, 5],
-      'verner-87': [8, 7],
-      'stormer-verlet': [2, null],
-      'yoshida-4': [4, null],
-    });
+  it('every registered tableau becomes a method that states the order its coefficients have', () => {
+    // The orders themselves are checked against the order conditions (methods-explicit-order-conditions).
+    for (const rec of explicitTableaus) {
+      const m = tableauMethodById(rec.id);
+      expect(m.order).toBe(rec.tableau.order);
+      expect(m.embeddedOrder).toBe(rec.tableau.embeddedOrder);
+      expect(m.family).toBe(rec.tableau.bHat ? 'embedded-explicit' : 'fixed-step');
+      expect(m.adaptive).toBe(rec.tableau.bHat !== undefined);
+      expect(rec.id).toMatch(/^[a-z0-9]+(-[a-z0-9]+)*$/);
+    }
+    expect(new Set(explicitMethods.map((m) => m.id)).size).toBe(explicitMethods.length);
     for (const m of explicitMethods) {
       expect(m.stiff).toBe(false);
       expect(m.source.length).toBeGreaterThan(20);
       expect(m.needsSeparable ?? false).toBe(m.family === 'symplectic');
     }
+    // The symplectic compositions' orders: HLW 2003 (Stormer-Verlet, 2) and Yoshida 1990 (4).
+    expect([stormerVerlet.order, yoshida4.order]).toEqual([2, 4]);
   });
 });
 
@@ -222,26 +203,19 @@ describe('landing, observer and counts', () => {
 
   it('nfev identities: FSAL, non-FSAL, fixed-step and symplectic', () => {
     const s = { rtol: 1e-7, atol: 1e-7 };
-    // FSAL with s stages: f(t0,y0) + initial-step probe + (s-1) per attempted step.
-    for (const [m, stages] of [
-      [dormandPrince54, 7],
-      [tsitouras54, 7],
-      [bogackiShampine32, 4],
-    ] as const) {
-      const c = m.solve(p, s, OPTS).counts;
-      expect(c.rejected + c.accepted).toBeGreaterThan(10);
-      expect(c.nfev).toBe(2 + (stages - 1) * (c.accepted + c.rejected));
+    // FSAL with s stages: f(t0,y0) + initial-step probe + (s-1) per attempted step. Non-FSAL:
+    // also a fresh first stage after every accepted step but the last.
+    for (const rec of explicitTableaus.filter((r) => r.tableau.bHat)) {
+      const stages = rec.tableau.c.length;
+      const c = tableauMethodById(rec.id).solve(p, s, OPTS).counts;
+      expect(c.rejected + c.accepted, rec.id).toBeGreaterThan(3);
+      const perAttempt = (stages - 1) * (c.accepted + c.rejected);
+      expect(c.nfev, rec.id).toBe(firstSameAsLast(rec.tableau) ? 2 + perAttempt : 2 + perAttempt + c.accepted - 1);
       expect([c.njev, c.nlu]).toEqual([0, 0]);
     }
-    // Non-FSAL: also a fresh first stage after every accepted step but the last.
-    for (const [m, stages] of [
-      [cashKarp45, 6],
-      [fehlberg45, 6],
-      [verner65, 8],
-      [dormandPrince853, 12],
-    ] as const) {
-      const c = m.solve(p, s, OPTS).counts;
-      expect(c.nfev).toBe(2 + (stages - 1) * (c.accepted + c.rejected) + c.accepted - 1);
+    // Fixed-step: s evaluations per step.
+    for (const rec of explicitTableaus.filter((r) => !r.tableau.bHat)) {
+      expect(tableauMethodById(rec.id).solve(p, { steps: 50 }, OPTS).counts.nfev, rec.id).toBe(50 * rec.tableau.c.length);
     }
     // A given initial step skips the probe.
     const c0 = dormandPrince54.solve(p, s, { ...OPTS, initialStep: 1e-3 }).counts;

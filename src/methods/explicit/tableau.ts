@@ -92,6 +92,25 @@ export function workingWeights(d: TableauData): {
   return out;
 }
 
+/**
+ * What a tableau file exports: the method's identity beside its coefficients. The registry
+ * (tableaus/index.ts) lists these; the engine, its kernels and the tests take everything from here.
+ */
+export interface TableauMethod {
+  /** kebab-case, after the published method. */
+  readonly id: string;
+  readonly name: string;
+  /** The paper the coefficients come from. */
+  readonly source: string;
+  readonly notes?: string;
+  readonly tableau: TableauData;
+  /**
+   * A continuous extension, when the method has one: `form` names the interpolation formula the
+   * coefficients `d` plug into ('dopri5': HNW I sec. II.6, see dense-dp54.ts).
+   */
+  readonly denseOutput?: { readonly form: 'dopri5'; readonly d: readonly number[] };
+}
+
 /** The compiled form the engines step with. */
 export interface Tableau {
   readonly stages: number;

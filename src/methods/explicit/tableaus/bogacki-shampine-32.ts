@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * P. Bogacki and L. F. Shampine, "A 3(2) pair of Runge-Kutta formulas", Appl. Math. Lett. 2 (1989)
@@ -11,4 +11,11 @@ export const BOGACKI_SHAMPINE_32: TableauData = {
   order: 3,
   bHat: [7 / 24, 1 / 4, 1 / 3, 1 / 8],
   embeddedOrder: 2,
+};
+
+export const bogackiShampine32: TableauMethod = {
+  id: 'bogacki-shampine-32',
+  name: 'Bogacki-Shampine 3(2)',
+  source: 'P. Bogacki and L. F. Shampine, A 3(2) pair of Runge-Kutta formulas, Appl. Math. Lett. 2 (1989) 321-325',
+  tableau: BOGACKI_SHAMPINE_32,
 };

@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * J. R. Cash and A. H. Karp, "A variable order Runge-Kutta method for initial value problems with
@@ -19,4 +19,12 @@ export const CASH_KARP_45: TableauData = {
   order: 5,
   bHat: [2825 / 27648, 0, 18575 / 48384, 13525 / 55296, 277 / 14336, 1 / 4],
   embeddedOrder: 4,
+};
+
+export const cashKarp45: TableauMethod = {
+  id: 'cash-karp-45',
+  name: 'Cash-Karp 5(4)',
+  source:
+    'J. R. Cash and A. H. Karp, A variable order Runge-Kutta method for initial value problems with rapidly varying right-hand sides, ACM Trans. Math. Softw. 16 (1990) 201-222',
+  tableau: CASH_KARP_45,
 };

@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * J. R. Dormand and P. J. Prince, "A family of embedded Runge-Kutta formulae", J. Comput. Appl.
@@ -36,3 +36,12 @@ export const DORMAND_PRINCE_54_DENSE: readonly number[] = [
   -1453857185 / 822651844,
   69997945 / 29380423,
 ];
+
+export const dormandPrince54: TableauMethod = {
+  id: 'dormand-prince-54',
+  name: 'Dormand-Prince 5(4)',
+  source: 'J. R. Dormand and P. J. Prince, A family of embedded Runge-Kutta formulae, J. Comput. Appl. Math. 6 (1980) 19-26',
+  notes: 'dense output: Shampine (1986) 4th-order continuous extension, HNW I sec. II.6',
+  tableau: DORMAND_PRINCE_54,
+  denseOutput: { form: 'dopri5', d: DORMAND_PRINCE_54_DENSE },
+};

@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * DOP853: the 8th-order, 12-stage method of P. J. Prince and J. R. Dormand, "High order embedded
@@ -96,4 +96,12 @@ export const DORMAND_PRINCE_853: TableauData = {
   embeddedOrder2: 3,
   // HNW I sec. II.10: err5^2 / sqrt(err5^2 + 0.01 err3^2) behaves like h^8, so 1/8 is the exponent.
   controlOrder: 7,
+};
+
+export const dormandPrince853: TableauMethod = {
+  id: 'dormand-prince-853',
+  name: 'Dormand-Prince 8(5,3) (DOP853)',
+  source:
+    'P. J. Prince and J. R. Dormand, High order embedded Runge-Kutta formulae, J. Comput. Appl. Math. 7 (1981) 67-75; coefficients and combined 5th/3rd-order error estimate of E. Hairer, S. P. Norsett and G. Wanner, Solving Ordinary Differential Equations I, 2nd ed. (1993), sec. II.10',
+  tableau: DORMAND_PRINCE_853,
 };

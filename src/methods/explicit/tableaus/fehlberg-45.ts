@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * E. Fehlberg, "Low-order classical Runge-Kutta formulas with stepsize control and their
@@ -20,4 +20,13 @@ export const FEHLBERG_45: TableauData = {
   order: 4,
   bHat: [16 / 135, 0, 6656 / 12825, 28561 / 56430, -9 / 50, 2 / 55],
   embeddedOrder: 5,
+};
+
+export const fehlberg45: TableauMethod = {
+  id: 'fehlberg-45',
+  name: 'Runge-Kutta-Fehlberg 4(5)',
+  source:
+    'E. Fehlberg, Low-order classical Runge-Kutta formulas with stepsize control and their application to some heat transfer problems, NASA TR R-315 (1969)',
+  notes: 'propagates the fourth-order solution, as published',
+  tableau: FEHLBERG_45,
 };

@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * Ch. Tsitouras, "Runge-Kutta pairs of order 5(4) satisfying only the first column simplifying
@@ -31,4 +31,12 @@ export const TSITOURAS_54: TableauData = {
   order: 5,
   bHat: TSITOURAS_54_B.map((bi, i) => bi - TSITOURAS_54_E[i]!),
   embeddedOrder: 4,
+};
+
+export const tsitouras54: TableauMethod = {
+  id: 'tsitouras-54',
+  name: 'Tsitouras 5(4)',
+  source:
+    'Ch. Tsitouras, Runge-Kutta pairs of order 5(4) satisfying only the first column simplifying assumption, Comput. Math. Appl. 62 (2011) 770-775',
+  tableau: TSITOURAS_54,
 };

@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * J. H. Verner, "Explicit Runge-Kutta methods with estimates of the local truncation error",
@@ -21,4 +21,12 @@ export const VERNER_65: TableauData = {
   order: 6,
   bHat: [13 / 160, 0, 2375 / 5984, 5 / 16, 12 / 85, 3 / 44, 0, 0],
   embeddedOrder: 5,
+};
+
+export const verner65: TableauMethod = {
+  id: 'verner-65',
+  name: 'Verner 6(5), 8 stages (1978)',
+  source:
+    'J. H. Verner, Explicit Runge-Kutta methods with estimates of the local truncation error, SIAM J. Numer. Anal. 15 (1978) 772-790',
+  tableau: VERNER_65,
 };

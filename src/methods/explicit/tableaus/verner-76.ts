@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * J. H. Verner, "Numerically optimal Runge-Kutta pairs with interpolants", Numer. Algorithms 53
@@ -75,4 +75,12 @@ export const VERNER_76: TableauData = {
     0.02029518466335628222767054793810430358554,
   ],
   embeddedOrder: 6,
+};
+
+export const verner76: TableauMethod = {
+  id: 'verner-76',
+  name: 'Verner 7(6), 10 stages, "most efficient" (2010)',
+  source:
+    'J. H. Verner, Numerically optimal Runge-Kutta pairs with interpolants, Numer. Algorithms 53 (2010) 383-396 (pair RKV76.IIa, efficient)',
+  tableau: VERNER_76,
 };

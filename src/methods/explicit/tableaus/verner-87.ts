@@ -1,4 +1,4 @@
-import type { TableauData } from '../tableau.js';
+import type { TableauData, TableauMethod } from '../tableau.js';
 
 /**
  * J. H. Verner, "Numerically optimal Runge-Kutta pairs with interpolants", Numer. Algorithms 53
@@ -83,4 +83,12 @@ export const VERNER_87: TableauData = {
   ],
   embeddedOrder: 7,
   increments: true,
+};
+
+export const verner87: TableauMethod = {
+  id: 'verner-87',
+  name: 'Verner 8(7), 13 stages, "most efficient" (2010)',
+  source:
+    'J. H. Verner, Numerically optimal Runge-Kutta pairs with interpolants, Numer. Algorithms 53 (2010) 383-396 (pair RKV87.IIa, efficient)',
+  tableau: VERNER_87,
 };
