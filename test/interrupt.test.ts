@@ -35,8 +35,9 @@ function runChild(args: string[], onJournalLines?: { path: string; lines: number
 describe('interruption', () => {
   it('writes the finished runs on SIGINT, exits 130, and resumes to the same result as an uninterrupted sweep', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'stepgauge-int-'));
-    // Down to 1e-7 only: every run must end ok for the exit codes below, and trapezoidal-bdf2 needs
-    // more than the default 100000 steps for harmonic-oscillator at rtol 1e-8 since its tolerance map.
+    // Every built-in method that applies, down to 1e-7. A sweep that completes exits 0, or 3 when
+    // some runs failed (a low-order pair can pass the step limit); the resumed and the
+    // uninterrupted sweep must agree on which.
     const args = ['run', '-p', 'van-der-pol,harmonic-oscillator', '-t', '1e-4..1e-7', '--no-timing', '--no-report', '-q', '--jobs', '1'];
     const out = join(dir, 'sweep');
     const code = await runChild([...args, '--out', out], { path: join(dir, '.sweep.journal.jsonl'), lines: 5 });
@@ -48,7 +49,8 @@ describe('interruption', () => {
     expect(partial.runs.length).toBeLessThan(planned);
     expect(existsSync(join(dir, '.sweep.journal.jsonl'))).toBe(false);
 
-    expect(await runChild(['run', '--resume', out, '--no-report', '-q', '--jobs', '1'])).toBe(0);
+    const completed = await runChild(['run', '--resume', out, '--no-report', '-q', '--jobs', '1']);
+    expect([0, 3]).toContain(completed);
     const resumed = JSON.parse(readFileSync(join(out, 'results.json'), 'utf8')) as ResultsFile;
     expect(resumed.interrupted).toBeUndefined();
     expect(resumed.runs).toHaveLength(planned);
@@ -58,7 +60,7 @@ describe('interruption', () => {
     for (const r of partial.runs) expect(byIndex.get(r.planIndex)).toEqual(r);
 
     const fresh = join(dir, 'fresh');
-    expect(await runChild([...args, '--out', fresh])).toBe(0);
+    expect(await runChild([...args, '--out', fresh])).toBe(completed);
     const whole = JSON.parse(readFileSync(join(fresh, 'results.json'), 'utf8')) as ResultsFile;
     expect(resumed.runs.map((r) => ({ ...r, time: undefined }))).toEqual(whole.runs.map((r) => ({ ...r, time: undefined })));
   });
