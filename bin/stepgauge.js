@@ -10,5 +10,6 @@ if (!existsSync(entry)) {
   process.stderr.write('stepgauge: not built yet; run `npm run build` (or `npm ci`) in the package folder first\n');
   process.exit(2);
 }
-const { main } = await import(pathToFileURL(entry).href);
+const { main, installProcessHooks } = await import(pathToFileURL(entry).href);
+installProcessHooks();
 process.exitCode = await main(process.argv.slice(2));

@@ -5,7 +5,11 @@
 // A few files in the corpus are valid on purpose (a byte-order mark, CRLF line endings): those
 // must load and give the same problem as the plain file.
 import { accessSync, chmodSync, constants, copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import fs from 'node:fs';
+import fsp from 'node:fs/promises';
+import { syncBuiltinESMExports } from 'node:module';
 import { tmpdir } from 'node:os';
+import { spawn } from 'node:child_process';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runCli, type CliResult } from './helpers/cli.js';
@@ -361,5 +365,104 @@ describe('outputs: stepgauge replaces only what it wrote itself', () => {
     const own = join(u.dir, 'own.out');
     expect((await runCli(argv(res, own))).code).toBe(0);
     expect((await runCli(argv(res, own))).code).toBe(0);
+  });
+});
+
+describe('exit codes: I/O failures are 74 naming the path, a path of the wrong kind is 2, user exits fail their run', () => {
+  const fast = ['-p', 'harmonic-oscillator', '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report'];
+  /** Makes `fn` of node:fs (or node:fs/promises) fail with a system error while `body` runs. */
+  async function withFailing<T>(mod: Record<string, unknown>, fn: string, code: string, body: () => Promise<T>): Promise<T> {
+    const original = mod[fn];
+    mod[fn] = () => {
+      throw Object.assign(new Error(`${code}: simulated`), { code, errno: -28, syscall: 'write' });
+    };
+    syncBuiltinESMExports();
+    try {
+      return await body();
+    } finally {
+      mod[fn] = original;
+      syncBuiltinESMExports();
+    }
+  }
+  it.each(['ENOSPC', 'EACCES', 'EROFS'])('run with the disk refusing results.json (%s): exit 74, one line naming --out, nothing written', async (code) => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    const r = await withFailing(fsp as unknown as Record<string, unknown>, 'writeFile', code, () => runCli(['run', ...fast, '--out', out]));
+    expect(r.code, r.stderr).toBe(74);
+    const lines = r.stderr.split('\n').filter(Boolean);
+    expect(lines).toEqual([`stepgauge: --out ${out}: cannot write: ${code === 'ENOSPC' ? 'no space left on the device' : code === 'EACCES' ? 'permission denied' : 'read-only file system'} (${code})`]);
+    // Nothing half-written: no folder, no temporary; the journal keeps the finished run for --resume.
+    expect(readdirSync(dir)).toEqual(['.out.journal.jsonl']);
+  });
+  it('merge, baseline and check --junit with the disk full: exit 74 naming the file, no temporary left', async () => {
+    const dir = freshDir();
+    const res = 'test/fixtures/results-synthetic.json';
+    for (const [argv, file] of [
+      [['merge', res, '--out', join(dir, 'merged.json')], join(dir, 'merged.json')],
+      [['check', res, '--baseline', res, '--junit', join(dir, 'junit.xml')], join(dir, 'junit.xml')],
+    ] as const) {
+      const r = await withFailing(fs as unknown as Record<string, unknown>, 'writeSync', 'ENOSPC', () => runCli([...argv]));
+      expect(r.code, r.stderr).toBe(74);
+      expect(r.stderr.split('\n').filter(Boolean).at(-1)).toBe(`stepgauge: ${file}: cannot write: no space left on the device (ENOSPC)`);
+      expect(readdirSync(dir)).toEqual([]);
+    }
+  });
+  it('merge --out under a file (ENOTDIR) is bad input: exit 2 naming the path', async () => {
+    const dir = freshDir();
+    writeFileSync(join(dir, 'plain'), '');
+    const target = join(dir, 'plain', 'merged.json');
+    const r = await runCli(['merge', 'test/fixtures/results-synthetic.json', '--out', target]);
+    expectRefused(r, undefined, target, /a part of the path is a file, where a folder was expected \((ENOTDIR|EEXIST)\)$/);
+  });
+  it('run -p robertson --jobs 1 with a method that calls process.exit(0): the run is recorded as error, exit 3, results written', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    const r = await runCli(['run', '-p', 'robertson', '--jobs', '1', '-m', 'test/fixtures/exits/exit-zero-method.ts', '-s', '10', '--no-timing', '-q', '--no-report', '--out', out]);
+    expect(r.code, r.stderr).toBe(3);
+    const results = JSON.parse(readFileSync(join(out, 'results.json'), 'utf8')) as { runs: { status: string; message: string }[] };
+    expect(results.runs).toHaveLength(1);
+    expect(results.runs[0]!.status).toBe('error');
+    expect(results.runs[0]!.message).toBe('exit-zero-method threw: user code called process.exit(0); stepgauge did not exit (a module must return or throw, not end the process)');
+  });
+  it('a method module that calls process.exit(0) while loading: exit 2 naming the module', async () => {
+    const { r, dir } = await runOn('robertson', 'test/fixtures/exits/exit-on-import.ts');
+    expectRefused(r, dir, 'test/fixtures/exits/exit-on-import.ts', /module failed while loading: user code called process.exit\(0\)/);
+  });
+});
+
+// Through the launcher (a real process; it loads the compiled dist/, which npm test builds first).
+describe('exit codes through the launcher: a closed stdout, an exit from a timer', () => {
+  const bin = join(import.meta.dirname, '..', 'bin', 'stepgauge.js');
+  function launch(args: string[], closeStdout: boolean): Promise<{ code: number | null; stderr: string }> {
+    return new Promise((done, fail) => {
+      const child = spawn(process.execPath, [bin, ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
+      let stderr = '';
+      child.stderr.on('data', (b: Buffer) => (stderr += String(b)));
+      // `| head -c 1`: the reader takes the first bytes, then goes away.
+      if (closeStdout) child.stdout.once('data', () => child.stdout.destroy());
+      else child.stdout.resume();
+      child.on('error', fail);
+      child.on('close', (code) => done({ code, stderr }));
+    });
+  }
+  it('stdout closed by its reader (EPIPE, as `| head`): ends quietly with the command\'s own code, results written', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    // The "skipped" line comes first, before the runs; the summary is written after the reader left.
+    const r = await launch(['run', '-p', 'van-der-pol,harmonic-oscillator', '-m', 'rk4,stormer-verlet', '-s', '10,20,40,80,160', '--no-timing', '--no-report', '-q', '--out', out], true);
+    expect(r.stderr).toBe('');
+    const results = JSON.parse(readFileSync(join(out, 'results.json'), 'utf8')) as { runs: { status: string }[] };
+    expect(results.runs.length).toBeGreaterThan(5);
+    expect(r.code).toBe(results.runs.every((x) => x.status === 'ok') ? 0 : 3);
+  });
+  it('a module that calls process.exit(0) from a timer mid-sweep: exit 2 with one line, never 0, no results folder', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    const r = await launch(['run', '-p', 'robertson,harmonic-oscillator', '--jobs', '1', '-m', 'test/fixtures/exits/exit-later.ts', '-s', '10,20,40,80', '--no-timing', '--no-report', '-q', '--out', out], false);
+    expect(r.code).toBe(2);
+    const lines = r.stderr.split('\n').filter(Boolean);
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toMatch(/^stepgauge: user code called process\.exit\(0\); .*from a timer or callback outside any run; the command stopped without writing results/);
+    expect(existsSync(out)).toBe(false);
   });
 });

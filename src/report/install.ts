@@ -8,13 +8,23 @@ import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { exists } from '../results/atomic.js';
 import { join, resolve } from 'node:path';
 import type { ResultsFile } from '../results/contract.js';
+import { asFileSystemError } from '../core/errors.js';
 import { writeReport } from './index.js';
 import { assertReplaceableFolder, OUTPUT_MARKER, OUTPUT_MARKER_TEXT } from '../results/ownership.js';
 
 
 /** Writes the report for `results` into `target` (created if missing); returns absolute paths. */
 export async function installReport(results: ResultsFile, target: string, options: { title?: string; flag?: string } = {}): Promise<string[]> {
-  assertReplaceableFolder(target, options.flag ?? '--out', false);
+  const flag = options.flag ?? '--out';
+  try {
+    return await install(results, target, options, flag);
+  } catch (e) {
+    throw asFileSystemError(e, `${flag} ${target}`);
+  }
+}
+
+async function install(results: ResultsFile, target: string, options: { title?: string }, flag: string): Promise<string[]> {
+  assertReplaceableFolder(target, flag, false);
   const dir = resolve(target);
   await mkdir(dir, { recursive: true });
   const tag = `${process.pid}-${randomBytes(4).toString('hex')}`;

@@ -6,6 +6,7 @@ import { closeSync, fsyncSync, openSync, renameSync, rmSync, unlinkSync, writeSy
 import { lstat, mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { basename, dirname, join, resolve } from 'node:path';
 import { assertReplaceableFolder, OUTPUT_MARKER, OUTPUT_MARKER_TEXT } from './ownership.js';
+import { asFileSystemError } from '../core/errors.js';
 
 function tempSibling(target: string, tag: string): string {
   const abs = resolve(target);
@@ -14,11 +15,18 @@ function tempSibling(target: string, tag: string): string {
 
 /** Writes `data` to `path` via a temporary sibling file and a rename; parent folders are created. */
 export async function writeFileAtomic(path: string, data: string | Uint8Array): Promise<void> {
-  await mkdir(dirname(resolve(path)), { recursive: true });
+  try {
+    await mkdir(dirname(resolve(path)), { recursive: true });
+  } catch (e) {
+    throw asFileSystemError(e, path);
+  }
   writeFileAtomicSync(path, data);
 }
 
-/** Synchronous form of writeFileAtomic (the parent folder must exist). */
+/**
+ * Synchronous form of writeFileAtomic (the parent folder must exist). A system failure (disk
+ * full, permission) is thrown as FileSystemError naming `path`, with no temporary left behind.
+ */
 export function writeFileAtomicSync(path: string, data: string | Uint8Array): void {
   const tmp = tempSibling(path, 'tmp');
   let fd: number | undefined;
@@ -39,7 +47,7 @@ export function writeFileAtomicSync(path: string, data: string | Uint8Array): vo
     } catch {
       /* never created or already renamed */
     }
-    throw e;
+    throw asFileSystemError(e, path);
   }
 }
 
@@ -52,6 +60,15 @@ export function writeFileAtomicSync(path: string, data: string | Uint8Array): vo
  * throws, the temporary folder is removed and the target is left untouched.
  */
 export async function writeFolderAtomically(target: string, fill: (tmpDir: string) => Promise<void>, flag = '--out'): Promise<void> {
+  try {
+    await replaceFolder(target, fill, flag);
+  } catch (e) {
+    // A system failure names the folder the user gave, not a temporary inside it.
+    throw asFileSystemError(e, `${flag} ${target}`);
+  }
+}
+
+async function replaceFolder(target: string, fill: (tmpDir: string) => Promise<void>, flag: string): Promise<void> {
   assertReplaceableFolder(target, flag);
   const abs = resolve(target);
   await mkdir(dirname(abs), { recursive: true });

@@ -3,7 +3,7 @@
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeFileSync, writeSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { RunResult } from '../results/contract.js';
-import { InputError } from '../core/errors.js';
+import { asFileSystemError, InputError } from '../core/errors.js';
 
 const JOURNAL_KIND = 'stepgauge-journal';
 const JOURNAL_VERSION = 1;
@@ -38,19 +38,32 @@ export class Journal {
   private flushQueued = false;
   constructor(outDir: string, header: Omit<JournalHeader, 'kind' | 'version'>, keep: readonly RunResult[] = []) {
     this.path = journalPath(outDir);
-    mkdirSync(dirname(this.path), { recursive: true });
     const head: JournalHeader = { kind: JOURNAL_KIND, version: JOURNAL_VERSION, ...header };
-    writeFileSync(this.path, [head, ...keep].map((x) => JSON.stringify(x)).join('\n') + '\n');
-    this.fd = openSync(this.path, 'a');
+    try {
+      mkdirSync(dirname(this.path), { recursive: true });
+      writeFileSync(this.path, [head, ...keep].map((x) => JSON.stringify(x)).join('\n') + '\n');
+      this.fd = openSync(this.path, 'a');
+    } catch (e) {
+      throw asFileSystemError(e, this.path);
+    }
   }
+  /** A write that failed when the event loop turned (disk full): thrown by the next append or close. */
+  private failure: unknown;
   /** Appends the run's line and answers it (the UTF-8 of JSON.stringify of the run) for reuse in results.json. */
   append(run: RunResult): Uint8Array {
     if (this.fd === null) throw new Error(`journal ${this.path} was already closed`);
+    if (this.failure) throw this.failure;
     const bytes = Buffer.from(`${JSON.stringify(run)}\n`);
     this.pending.push(bytes);
     if (!this.flushQueued) {
       this.flushQueued = true;
-      setImmediate(() => this.flush());
+      setImmediate(() => {
+        try {
+          this.flush();
+        } catch (e) {
+          this.failure = e;
+        }
+      });
     }
     return bytes.subarray(0, bytes.length - 1);
   }
@@ -60,17 +73,30 @@ export class Journal {
     if (this.fd === null || this.pending.length === 0) return;
     const lines = this.pending;
     this.pending = [];
-    writeSync(this.fd, lines.length === 1 ? lines[0]! : Buffer.concat(lines));
+    try {
+      writeSync(this.fd, lines.length === 1 ? lines[0]! : Buffer.concat(lines));
+    } catch (e) {
+      throw asFileSystemError(e, this.path);
+    }
   }
   /** Writes what is pending, closes the file and keeps it (an interrupted sweep is resumed from it). */
   close(): void {
-    this.flush();
-    if (this.fd !== null) closeSync(this.fd);
-    this.fd = null;
+    try {
+      if (!this.failure) this.flush();
+    } catch (e) {
+      this.failure = e;
+    } finally {
+      if (this.fd !== null) closeSync(this.fd);
+      this.fd = null;
+    }
+    if (this.failure) throw this.failure;
   }
   remove(): void {
-    this.close();
-    rmSync(this.path, { force: true });
+    try {
+      this.close();
+    } finally {
+      rmSync(this.path, { force: true });
+    }
   }
 }
 

@@ -8,6 +8,8 @@ import { calibrationSeconds } from '../measure/timing.js';
 import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 import { resolve as resolvePath } from 'node:path';
 import { executeRun, type SweepOptions } from './execute.js';
+import { failedRun } from '../measure/run-one.js';
+import { messageOf } from '../core/errors.js';
 import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
 import { certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
@@ -55,7 +57,15 @@ export async function executePlan(
     // Yield to the event loop between runs so signals (Ctrl-C) and progress output get through.
     await new Promise<void>((resolve) => setImmediate(resolve));
     if (options.shouldStop?.()) break;
-    const run = await executeRun(problems.get(planned.problem)!, methods.get(planned.method)!, planned, options);
+    const problem = problems.get(planned.problem)!;
+    let run: RunResult;
+    try {
+      run = await executeRun(problem, methods.get(planned.method)!, planned, options);
+    } catch (e) {
+      // As on a worker (runBatch): what a run throws past its solve (a user's exact solution,
+      // a module calling process.exit under the guard) fails that run, not the sweep.
+      run = { ...failedRun(problem, { id: planned.method }, planned.setting, messageOf(e)), planIndex: planned.planIndex };
+    }
     if (run.status !== 'ok') failed++;
     out.push(run);
     options.onRun?.({ done: out.length, total: runs.length, failed, last: run });

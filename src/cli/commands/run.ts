@@ -18,6 +18,7 @@ import { DEFAULT_MAX_STEPS, DEFAULT_TIMING } from '../../core/defaults.js';
 import type { ResultsFile, RunResult } from '../../results/contract.js';
 import type { KnownRunLine } from '../../results/json.js';
 import { InputError } from '../../core/errors.js';
+import { exitProcess } from '../../core/exit-guard.js';
 import { Journal, readJournal } from '../../sweep/journal.js';
 import { readResultsFile } from '../../results/read.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from '../../sweep/lanes.js';
@@ -160,7 +161,7 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
   // First Ctrl-C (or SIGTERM): start no new run, write what finished; a second one leaves at once.
   let stopping = false;
   const onSignal = () => {
-    if (stopping) process.exit(130);
+    if (stopping) exitProcess(130);
     stopping = true;
     process.stderr.write('\nstepgauge: stopping after the runs in flight (press Ctrl-C again to quit now)\n');
   };
