@@ -9,6 +9,10 @@ import { vanDerPol } from './van-der-pol.js';
 import { vanDerPolStiff } from './van-der-pol-stiff.js';
 import { robertson } from './robertson.js';
 import { linearOscillatorChain } from './linear-oscillator-chain.js';
+import { eclipseCircularOrbit } from './eclipse-circular-orbit.js';
+import { leoJ2 } from './leo-j2.js';
+import { arenstorfOrbit } from './arenstorf-orbit.js';
+import { tetheredPair } from './tethered-pair.js';
 
 export const catalogue: Problem[] = [
   harmonicOscillator,
@@ -18,6 +22,10 @@ export const catalogue: Problem[] = [
   vanDerPolStiff,
   robertson,
   linearOscillatorChain,
+  eclipseCircularOrbit,
+  leoJ2,
+  arenstorfOrbit,
+  tetheredPair,
 ].map(uniformProblem);
 
 export function findProblem(id: string): Problem | undefined {

@@ -22,6 +22,28 @@ export type ErrorScale =
 
 export type ReferenceKind = 'exact' | 'published' | 'certified';
 
+/**
+ * Where a problem keeps one body's position and velocity (three indices each), so its error can
+ * be split into radial, in-track and cross-track parts relative to the reference orbit.
+ */
+export interface OrbitStates {
+  readonly position: readonly [number, number, number];
+  readonly velocity: readonly [number, number, number];
+  /** Unit of the position components, e.g. 'm' (errors are reported in it). */
+  readonly unit: string;
+}
+
+/** Which zero crossings of an event function count: upward, downward or both. */
+export type EventDirection = 'rising' | 'falling' | 'both';
+
+/** An event: the times where fn(t, y) crosses zero in the given direction. */
+export interface ProblemEvent {
+  /** kebab-case name, unique in the problem. */
+  readonly name: string;
+  readonly fn: (t: number, y: Float64Array) => number;
+  readonly direction: EventDirection;
+}
+
 export interface ReferencePoint {
   readonly t: number;
   readonly y: readonly number[];
@@ -38,6 +60,8 @@ export interface Reference {
   readonly points?: readonly ReferencePoint[];
   /** Why no reference could be had (a certification that failed): every run says so. */
   readonly unavailable?: string;
+  /** Reference times of each event (by event name), sorted; analytic where the problem has them. */
+  readonly eventTimes?: Readonly<Record<string, readonly number[]>>;
 }
 
 /** Index split for separable problems q' = g(p), p' = h(t, q) (symplectic methods need it). */
@@ -90,6 +114,10 @@ export interface Problem {
   /** Outputs computed from the state; the error is measured on them when errorOn is 'outputs'. */
   readonly outputs?: ProblemOutputs;
   readonly errorOn?: 'states' | 'outputs';
+  /** Position and velocity of an orbiting body: runs also report radial / in-track / cross-track error. */
+  readonly orbit?: OrbitStates;
+  /** Event functions whose crossing times are located in every run and compared with the reference's. */
+  readonly events?: readonly ProblemEvent[];
   /** Why no separable split exists (said when a symplectic method is refused). */
   readonly separableReason?: string;
   /** Canonical text of the definition, hashed (SHA-256) so auditors can tell two problems apart. */

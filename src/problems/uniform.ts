@@ -16,6 +16,7 @@ function uniformReference(r: Reference): Reference {
     exact: r.exact,
     points: r.points,
     unavailable: r.unavailable,
+    eventTimes: r.eventTimes,
   };
 }
 
@@ -51,6 +52,8 @@ export function uniformProblem(p: Problem): Problem {
     atolScale: p.atolScale,
     outputs: p.outputs,
     errorOn: p.errorOn,
+    orbit: p.orbit,
+    events: p.events,
     separableReason: p.separableReason,
     definition: p.definition,
     exactFromState: p.exactFromState,

@@ -1,0 +1,111 @@
+// A circular low Earth orbit passing through Earth's shadow, modelled as a cylinder of Earth's
+// radius behind Earth (sun at infinity, fixed direction over the span). The event-timing reference:
+// entry and exit times are analytic.
+// Scenario of our own: radius R = 6378137 + 700e3 m, plane inclined 51.6 degrees about the x axis,
+// sun direction s = cos(beta) e1 + sin(beta) n at beta = 60 degrees above the orbit plane
+// (e1, e2 span the plane, n = e1 x e2). Span: three periods.
+// Motion: exact circular two-body motion r = R (cos wt e1 + sin wt e2), w = sqrt(GM / R^3)
+// (e.g. Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., ch. 2; chapter from memory).
+// Shadow: r.s < 0 and |r - (r.s) s| < R_E (cylindrical shadow model, Vallado 4th ed., ch. 5; chapter from memory).
+// On this orbit r.s = R cos(wt) cos(beta) and |r - (r.s)s|^2 = R^2 (1 - cos^2(wt) cos^2(beta)), so
+// the satellite is in shadow where cos(wt) <= -sqrt(1 - (R_E/R)^2) / cos(beta): entry at
+// wt = pi - alpha, exit at pi + alpha (mod 2 pi), alpha = acos(sqrt(1 - (R_E/R)^2) / cos(beta)).
+// Event function g = R_E - (r.s < 0 ? |r - (r.s)s| : |r|): continuous (the two agree where r.s = 0),
+// negative in sunlight, positive in shadow; entry is its rising crossing, exit its falling one.
+// Error: absolute, metres and metres per second. Invariants: energy and angular-momentum magnitude.
+import type { Problem, ProblemEvent } from '../src/core/types.js';
+import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from '../src/problems/two-body.js';
+import { EARTH_GM, EARTH_RADIUS, inclinedPlane } from './earth.js';
+
+const R = EARTH_RADIUS + 700e3;
+const W = Math.sqrt(EARTH_GM / (R * R * R));
+const PERIOD = (2 * Math.PI) / W;
+const ORBITS = 3;
+const INCLINATION = (51.6 * Math.PI) / 180;
+const BETA = (60 * Math.PI) / 180;
+const { e1: E1, e2: E2, normal: N } = inclinedPlane(INCLINATION);
+const SUN = [0, 1, 2].map((k) => Math.cos(BETA) * E1[k]! + Math.sin(BETA) * N[k]!);
+/** Half the orbit angle spent in shadow. */
+export const ECLIPSE_HALF_ANGLE = Math.acos(Math.sqrt(1 - (EARTH_RADIUS / R) ** 2) / Math.cos(BETA));
+
+function shadowFunction(_t: number, y: Float64Array): number {
+  const x = y[0]!;
+  const yy = y[1]!;
+  const z = y[2]!;
+  const along = x * SUN[0]! + yy * SUN[1]! + z * SUN[2]!;
+  if (along >= 0) return EARTH_RADIUS - Math.sqrt(x * x + yy * yy + z * z);
+  const px = x - along * SUN[0]!;
+  const py = yy - along * SUN[1]!;
+  const pz = z - along * SUN[2]!;
+  return EARTH_RADIUS - Math.sqrt(px * px + py * py + pz * pz);
+}
+
+/** Analytic entry and exit times over the span. */
+export function eclipseTimes(): { entry: number[]; exit: number[] } {
+  const entry: number[] = [];
+  const exit: number[] = [];
+  for (let k = 0; k < ORBITS; k++) {
+    entry.push((Math.PI - ECLIPSE_HALF_ANGLE + 2 * Math.PI * k) / W);
+    exit.push((Math.PI + ECLIPSE_HALF_ANGLE + 2 * Math.PI * k) / W);
+  }
+  return { entry, exit };
+}
+
+const EVENTS: ProblemEvent[] = [
+  { name: 'eclipse-entry', fn: shadowFunction, direction: 'rising' },
+  { name: 'eclipse-exit', fn: shadowFunction, direction: 'falling' },
+];
+const TIMES = eclipseTimes();
+
+export const eclipseCircularOrbit: Problem = {
+  id: 'eclipse-circular-orbit',
+  title: 'Circular low Earth orbit through a cylindrical Earth shadow (eclipse events)',
+  source: 'Exact circular two-body motion and cylindrical shadow geometry, Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., chs. 2 and 5; WGS 84 constants',
+  description:
+    "r'' = -GM r/|r|^3 in metres and seconds, GM = 3.986004418e14, circular orbit of radius R_E + 700 km (R_E = 6378137 m) " +
+    'inclined 51.6 degrees, three periods (about 1.65 h each). Sun fixed at 60 degrees above the orbit plane; shadow is a cylinder ' +
+    'of radius R_E behind Earth. Events: eclipse-entry (rising) and eclipse-exit (falling) of g = R_E - distance from the shadow axis ' +
+    '(from Earth\'s centre on the sunlit side), with analytic times. Error: absolute (m, m/s); radial / in-track / cross-track split. ' +
+    'Invariants: energy and angular-momentum magnitude.',
+  dimension: 6,
+  stateNames: ['x', 'y', 'z', 'vx', 'vy', 'vz'],
+  t0: 0,
+  tEnd: ORBITS * PERIOD,
+  y0: [R * E1[0], R * E1[1], R * E1[2], R * W * E2[0], R * W * E2[1], R * W * E2[2]],
+  f: twoBodyRhs(3, EARTH_GM),
+  jacobian: twoBodyJacobian(3, EARTH_GM),
+  stiff: false,
+  invariants: [twoBodyEnergy(3, EARTH_GM), twoBodyAngularMomentum(3)],
+  errorScale: { kind: 'absolute' },
+  reference: {
+    kind: 'exact',
+    source: 'analytic circular motion; eclipse times from the cylindrical shadow geometry',
+    exact(t, out) {
+      const c = Math.cos(W * t);
+      const s = Math.sin(W * t);
+      for (let k = 0; k < 3; k++) {
+        out[k] = R * (c * E1[k]! + s * E2[k]!);
+        out[3 + k] = R * W * (-s * E1[k]! + c * E2[k]!);
+      }
+    },
+    eventTimes: { 'eclipse-entry': TIMES.entry, 'eclipse-exit': TIMES.exit },
+  },
+  checkTimes: Array.from({ length: 4 * ORBITS - 1 }, (_, k) => ((k + 1) * PERIOD) / 4),
+  // 33 steps per orbit doubling: rk4 from visibly wrong to its asymptotic range (common practice, no source).
+  defaultSteps: [100, 200, 400, 800, 1600, 3200, 6400, 12800],
+  separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
+  orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' },
+  events: EVENTS,
+  definition: [
+    'id: eclipse-circular-orbit',
+    "equations: r'' = -GM r / |r|^3 (3-D), state (x, y, z, vx, vy, vz), metres and seconds",
+    'parameters: GM = 3.986004418e14, R_E = 6378137, radius R_E + 700e3, inclination 51.6 deg, sun 60 deg above the plane',
+    'span: [0, 3 periods]',
+    'initial: R e1, R w e2 with e1 = (1,0,0), e2 = (0, cos i, sin i)',
+    'reference: exact circular motion; eclipse entry/exit at w t = pi -/+ acos(sqrt(1 - (R_E/R)^2)/cos beta) + 2 pi k',
+    'error: absolute; orbit frame: position 0..2, velocity 3..5, unit m',
+    'events: eclipse-entry rising, eclipse-exit falling of g = R_E - (r.s < 0 ? |r - (r.s)s| : |r|)',
+    'invariants: energy = |v|^2/2 - GM/|r|; angular-momentum = |r cross v|',
+    'checkTimes: k*period/4, k = 1..11',
+  ].join('\n'),
+};
