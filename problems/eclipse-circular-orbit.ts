@@ -14,21 +14,30 @@
 // negative in sunlight, positive in shadow; entry is its rising crossing, exit its falling one.
 // Error: absolute, metres and metres per second. Invariants: energy and angular-momentum magnitude.
 import type { Problem, ProblemEvent } from '../src/core/types.js';
-import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from '../src/problems/two-body.js';
-import { EARTH_GM, EARTH_RADIUS, inclinedPlane } from './earth.js';
+import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from './physics/two-body.js';
+import { EARTH_GM, EARTH_RADIUS, inclinedPlane } from './physics/earth.js';
 
 const R = EARTH_RADIUS + 700e3;
 const W = Math.sqrt(EARTH_GM / (R * R * R));
 const PERIOD = (2 * Math.PI) / W;
 const ORBITS = 3;
 const INCLINATION = (51.6 * Math.PI) / 180;
-const BETA = (60 * Math.PI) / 180;
 const { e1: E1, e2: E2, normal: N } = inclinedPlane(INCLINATION);
-const SUN = [0, 1, 2].map((k) => Math.cos(BETA) * E1[k]! + Math.sin(BETA) * N[k]!);
-/** Half the orbit angle spent in shadow. */
-export const ECLIPSE_HALF_ANGLE = Math.acos(Math.sqrt(1 - (EARTH_RADIUS / R) ** 2) / Math.cos(BETA));
 
-function shadowFunction(_t: number, y: Float64Array): number {
+/**
+ * The problem with the sun `betaDeg` degrees above the orbit plane (60 in the catalogue; near 64.3
+ * the eclipse lasts about a minute, which tests use for steps that jump over it).
+ */
+export function eclipseOrbit(betaDeg: number): Problem {
+  const beta = (betaDeg * Math.PI) / 180;
+  const sun = [0, 1, 2].map((k) => Math.cos(beta) * E1[k]! + Math.sin(beta) * N[k]!);
+  const halfAngle = Math.acos(Math.sqrt(1 - (EARTH_RADIUS / R) ** 2) / Math.cos(beta));
+  const shadow = (t: number, y: Float64Array) => shadowFunction(sun, y);
+  const times = eclipseTimes(halfAngle);
+  return build(betaDeg, shadow, times);
+}
+
+function shadowFunction(SUN: readonly number[], y: Float64Array): number {
   const x = y[0]!;
   const yy = y[1]!;
   const z = y[2]!;
@@ -40,72 +49,75 @@ function shadowFunction(_t: number, y: Float64Array): number {
   return EARTH_RADIUS - Math.sqrt(px * px + py * py + pz * pz);
 }
 
-/** Analytic entry and exit times over the span. */
-export function eclipseTimes(): { entry: number[]; exit: number[] } {
+/** Analytic entry and exit times over the span, for an eclipse of half-angle alpha. */
+export function eclipseTimes(alpha: number): { entry: number[]; exit: number[] } {
   const entry: number[] = [];
   const exit: number[] = [];
   for (let k = 0; k < ORBITS; k++) {
-    entry.push((Math.PI - ECLIPSE_HALF_ANGLE + 2 * Math.PI * k) / W);
-    exit.push((Math.PI + ECLIPSE_HALF_ANGLE + 2 * Math.PI * k) / W);
+    entry.push((Math.PI - alpha + 2 * Math.PI * k) / W);
+    exit.push((Math.PI + alpha + 2 * Math.PI * k) / W);
   }
   return { entry, exit };
 }
 
-const EVENTS: ProblemEvent[] = [
-  { name: 'eclipse-entry', fn: shadowFunction, direction: 'rising' },
-  { name: 'eclipse-exit', fn: shadowFunction, direction: 'falling' },
-];
-const TIMES = eclipseTimes();
-
-export const eclipseCircularOrbit: Problem = {
-  id: 'eclipse-circular-orbit',
-  title: 'Circular low Earth orbit through a cylindrical Earth shadow (eclipse events)',
-  source: 'Exact circular two-body motion and cylindrical shadow geometry, Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., chs. 2 and 5; WGS 84 constants',
-  description:
-    "r'' = -GM r/|r|^3 in metres and seconds, GM = 3.986004418e14, circular orbit of radius R_E + 700 km (R_E = 6378137 m) " +
-    'inclined 51.6 degrees, three periods (about 1.65 h each). Sun fixed at 60 degrees above the orbit plane; shadow is a cylinder ' +
-    'of radius R_E behind Earth. Events: eclipse-entry (rising) and eclipse-exit (falling) of g = R_E - distance from the shadow axis ' +
-    '(from Earth\'s centre on the sunlit side), with analytic times. Error: absolute (m, m/s); radial / in-track / cross-track split. ' +
-    'Invariants: energy and angular-momentum magnitude.',
-  dimension: 6,
-  stateNames: ['x', 'y', 'z', 'vx', 'vy', 'vz'],
-  t0: 0,
-  tEnd: ORBITS * PERIOD,
-  y0: [R * E1[0], R * E1[1], R * E1[2], R * W * E2[0], R * W * E2[1], R * W * E2[2]],
-  f: twoBodyRhs(3, EARTH_GM),
-  jacobian: twoBodyJacobian(3, EARTH_GM),
-  stiff: false,
-  invariants: [twoBodyEnergy(3, EARTH_GM), twoBodyAngularMomentum(3)],
-  errorScale: { kind: 'absolute' },
-  reference: {
-    kind: 'exact',
-    source: 'analytic circular motion; eclipse times from the cylindrical shadow geometry',
-    exact(t, out) {
-      const c = Math.cos(W * t);
-      const s = Math.sin(W * t);
-      for (let k = 0; k < 3; k++) {
-        out[k] = R * (c * E1[k]! + s * E2[k]!);
-        out[3 + k] = R * W * (-s * E1[k]! + c * E2[k]!);
-      }
+function build(betaDeg: number, shadow: ProblemEvent['fn'], TIMES: { entry: number[]; exit: number[] }): Problem {
+  const EVENTS: ProblemEvent[] = [
+    { name: 'eclipse-entry', fn: shadow, direction: 'rising' },
+    { name: 'eclipse-exit', fn: shadow, direction: 'falling' },
+  ];
+  const variant = betaDeg === 60 ? '' : `-beta-${betaDeg}`;
+  return {
+    id: `eclipse-circular-orbit${variant.replace('.', '-')}`,
+    title: 'Circular low Earth orbit through a cylindrical Earth shadow (eclipse events)',
+    source: 'Exact circular two-body motion and cylindrical shadow geometry, Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., chs. 2 and 5; WGS 84 constants',
+    description:
+      "r'' = -GM r/|r|^3 in metres and seconds, GM = 3.986004418e14, circular orbit of radius R_E + 700 km (R_E = 6378137 m) " +
+      'inclined 51.6 degrees, three periods (about 1.65 h each). Sun fixed at ' + betaDeg + ' degrees above the orbit plane; shadow is a cylinder ' +
+      'of radius R_E behind Earth. Events: eclipse-entry (rising) and eclipse-exit (falling) of g = R_E - distance from the shadow axis ' +
+      '(from Earth\'s centre on the sunlit side), with analytic times. Error: absolute (m, m/s); radial / in-track / cross-track split. ' +
+      'Invariants: energy and angular-momentum magnitude.',
+    dimension: 6,
+    stateNames: ['x', 'y', 'z', 'vx', 'vy', 'vz'],
+    t0: 0,
+    tEnd: ORBITS * PERIOD,
+    y0: [R * E1[0], R * E1[1], R * E1[2], R * W * E2[0], R * W * E2[1], R * W * E2[2]],
+    f: twoBodyRhs(3, EARTH_GM),
+    jacobian: twoBodyJacobian(3, EARTH_GM),
+    stiff: false,
+    invariants: [twoBodyEnergy(3, EARTH_GM), twoBodyAngularMomentum(3)],
+    errorScale: { kind: 'absolute' },
+    reference: {
+      kind: 'exact',
+      source: 'analytic circular motion; eclipse times from the cylindrical shadow geometry',
+      exact(t, out) {
+        const c = Math.cos(W * t);
+        const s = Math.sin(W * t);
+        for (let k = 0; k < 3; k++) {
+          out[k] = R * (c * E1[k]! + s * E2[k]!);
+          out[3 + k] = R * W * (-s * E1[k]! + c * E2[k]!);
+        }
+      },
+      eventTimes: { 'eclipse-entry': TIMES.entry, 'eclipse-exit': TIMES.exit },
     },
-    eventTimes: { 'eclipse-entry': TIMES.entry, 'eclipse-exit': TIMES.exit },
-  },
-  checkTimes: Array.from({ length: 4 * ORBITS - 1 }, (_, k) => ((k + 1) * PERIOD) / 4),
-  // 33 steps per orbit doubling: rk4 from visibly wrong to its asymptotic range (common practice, no source).
-  defaultSteps: [100, 200, 400, 800, 1600, 3200, 6400, 12800],
-  separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
-  orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' },
-  events: EVENTS,
-  definition: [
-    'id: eclipse-circular-orbit',
-    "equations: r'' = -GM r / |r|^3 (3-D), state (x, y, z, vx, vy, vz), metres and seconds",
-    'parameters: GM = 3.986004418e14, R_E = 6378137, radius R_E + 700e3, inclination 51.6 deg, sun 60 deg above the plane',
-    'span: [0, 3 periods]',
-    'initial: R e1, R w e2 with e1 = (1,0,0), e2 = (0, cos i, sin i)',
-    'reference: exact circular motion; eclipse entry/exit at w t = pi -/+ acos(sqrt(1 - (R_E/R)^2)/cos beta) + 2 pi k',
-    'error: absolute; orbit frame: position 0..2, velocity 3..5, unit m',
-    'events: eclipse-entry rising, eclipse-exit falling of g = R_E - (r.s < 0 ? |r - (r.s)s| : |r|)',
-    'invariants: energy = |v|^2/2 - GM/|r|; angular-momentum = |r cross v|',
-    'checkTimes: k*period/4, k = 1..11',
-  ].join('\n'),
-};
+    checkTimes: Array.from({ length: 4 * ORBITS - 1 }, (_, k) => ((k + 1) * PERIOD) / 4),
+    // 33 steps per orbit doubling: rk4 from visibly wrong to its asymptotic range (common practice, no source).
+    defaultSteps: [100, 200, 400, 800, 1600, 3200, 6400, 12800],
+    separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
+    orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' },
+    events: EVENTS,
+    definition: [
+      'id: eclipse-circular-orbit',
+      "equations: r'' = -GM r / |r|^3 (3-D), state (x, y, z, vx, vy, vz), metres and seconds",
+      `parameters: GM = 3.986004418e14, R_E = 6378137, radius R_E + 700e3, inclination 51.6 deg, sun ${betaDeg} deg above the plane`,
+      'span: [0, 3 periods]',
+      'initial: R e1, R w e2 with e1 = (1,0,0), e2 = (0, cos i, sin i)',
+      'reference: exact circular motion; eclipse entry/exit at w t = pi -/+ acos(sqrt(1 - (R_E/R)^2)/cos beta) + 2 pi k',
+      'error: absolute; orbit frame: position 0..2, velocity 3..5, unit m',
+      'events: eclipse-entry rising, eclipse-exit falling of g = R_E - (r.s < 0 ? |r - (r.s)s| : |r|)',
+      'invariants: energy = |v|^2/2 - GM/|r|; angular-momentum = |r cross v|',
+      'checkTimes: k*period/4, k = 1..11',
+    ].join('\n'),
+  };
+}
+
+export const eclipseCircularOrbit: Problem = eclipseOrbit(60);

@@ -12,7 +12,7 @@
 // Reference: certified by stepgauge (no closed form). Error: absolute (m, m/s), with the
 // radial / in-track / cross-track split. Checked every hour.
 import type { Invariant, JacobianFn, Problem, Rhs } from '../src/core/types.js';
-import { EARTH_GM, EARTH_J2, EARTH_RADIUS } from './earth.js';
+import { EARTH_GM, EARTH_J2, EARTH_RADIUS } from './physics/earth.js';
 
 const DAY = 86400;
 const DEG = Math.PI / 180;

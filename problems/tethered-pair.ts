@@ -22,7 +22,7 @@
 // s'' = g(r1) - g(r2) - T (1/m1 + 1/m2) s/l, with r1 = c + (m2/M) s, r2 = c - (m1/M) s.
 // Reference: certified by stepgauge. Error: absolute (m, m/s).
 import type { Problem } from '../src/core/types.js';
-import { EARTH_GM, EARTH_RADIUS, inclinedPlane } from './earth.js';
+import { EARTH_GM, EARTH_RADIUS, inclinedPlane } from './physics/earth.js';
 
 const M1 = 100;
 const M2 = 50;

@@ -4,7 +4,6 @@
 import { describe, expect, it } from 'vitest';
 import odex from 'odex';
 import { findProblem } from '../problems/index.js';
-import { eclipseTimes } from '../problems/eclipse-circular-orbit.js';
 import type { Problem } from '../src/core/types.js';
 
 function odexSolve(p: Problem, tEnd: number, tol: number): Float64Array {
@@ -39,7 +38,8 @@ describe('eclipse-circular-orbit', () => {
   };
 
   it('the analytic entry and exit times are where the cylinder test changes (bisection to 1e-9 s)', () => {
-    const { entry, exit } = eclipseTimes();
+    const entry = p.reference.eventTimes!['eclipse-entry']!;
+    const exit = p.reference.eventTimes!['eclipse-exit']!;
     expect(entry.length).toBe(3);
     for (const [times, into] of [[entry, true], [exit, false]] as const) {
       for (const t of times) {

@@ -1,9 +1,11 @@
 // What one measured solve watches along the way: the worst error at every landing where a reference
 // exists, the worst drift of every invariant, and a thinned drift trace for plots.
 import type { Problem } from '../core/types.js';
-import type { DriftTrace } from '../results/contract.js';
+import type { DriftTrace, OrbitErrorRecord } from '../results/contract.js';
 import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';
+import { watchEvents } from './events.js';
+import { orbitErrorInto } from './orbit-error.js';
 
 /** Number of time buckets the drift trace is thinned to (one sample per bucket). */
 const TRACE_BUCKETS = 200;
@@ -20,6 +22,10 @@ export interface RunWatch {
   trace(): DriftTrace | undefined;
   /** How many observed points were compared with the reference. */
   comparedPoints(): number;
+  /** Largest part of the orbit error along the run and its trace (problems that name an orbit). */
+  orbitAlong(): Pick<OrbitErrorRecord, 'max' | 'trace'> | undefined;
+  /** Event crossing times found (problems with events). */
+  eventsFound(): Record<string, number[]> | undefined;
 }
 
 /**
@@ -75,7 +81,17 @@ export function watchRun(problem: Problem): RunWatch {
   const checks = new Set(problem.checkTimes);
   let lastErrorBucket = -1;
 
+  const orbit = problem.orbit;
+  const ric = new Float64Array(4);
+  const worstRic = new Float64Array(4);
+  let ricCompared = 0;
+  let lastRicBucket = -1;
+  const ricT = new NumberLog();
+  const ricParts = [new NumberLog(), new NumberLog(), new NumberLog()];
+  const events = watchEvents(problem);
+
   const observer = (t: number, y: Float64Array): void => {
+    if (events) events.observe(t, y);
     if (!started) {
       for (let k = 0; k < invariantCount; k++) initial[k] = invariantFns[k]!(t, y);
       started = true;
@@ -90,6 +106,20 @@ export function watchRun(problem: Problem): RunWatch {
       const e = meter(t, y, ref);
       compared++;
       if (worstError === worstError && (e > worstError || e !== e)) worstError = e; // NaN, once seen, stays
+      if (orbit) {
+        orbitErrorInto(y, ref, orbit, ric);
+        ricCompared++;
+        for (let k = 0; k < 4; k++) {
+          const a = Math.abs(ric[k]!);
+          if (worstRic[k]! === worstRic[k]! && (a > worstRic[k]! || a !== a)) worstRic[k] = a;
+        }
+        const bucket = Math.floor(((t - t0) / span) * TRACE_BUCKETS);
+        if (bucket > lastRicBucket || t === tEnd) {
+          lastRicBucket = bucket;
+          ricT.push(t);
+          for (let k = 0; k < 3; k++) ricParts[k]!.push(ric[k + 1]!);
+        }
+      }
     }
     if (invariantCount === 0) return;
     const bucket = Math.floor(((t - t0) / span) * TRACE_BUCKETS);
@@ -112,6 +142,14 @@ export function watchRun(problem: Problem): RunWatch {
     observer,
     maxError: () => (compared > 0 ? worstError : null),
     comparedPoints: () => compared,
+    orbitAlong() {
+      if (!orbit || ricCompared === 0) return undefined;
+      return {
+        max: { position: worstRic[0]!, radial: worstRic[1]!, inTrack: worstRic[2]!, crossTrack: worstRic[3]! },
+        trace: { t: ricT.toArray(), radial: ricParts[0]!.toArray(), inTrack: ricParts[1]!.toArray(), crossTrack: ricParts[2]!.toArray() },
+      };
+    },
+    eventsFound: () => events?.found(),
     drift() {
       const out: Record<string, number> = {};
       invariants.forEach((inv, k) => (out[inv.name] = worstDrift[k]!));

@@ -9,6 +9,9 @@ import { referenceLookup } from './reference.js';
 import { watchRun } from './observer.js';
 import { roundTripError } from './round-trip.js';
 import { solveOptions, type RunOptions } from './run-options.js';
+import { eventRecords } from './events.js';
+import { orbitErrorInto } from './orbit-error.js';
+import type { OrbitErrorParts } from '../results/contract.js';
 
 export type { RunOptions } from './run-options.js';
 export { solveOptions } from './run-options.js';
@@ -55,6 +58,8 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   if (result.message) run.message = result.message;
   const trace = watch.trace();
   if (trace) run.trace = trace;
+  const found = watch.eventsFound();
+  if (found) run.events = eventRecords(problem, found);
   if (result.status !== 'ok') return run;
   try {
     run.roundTrip = roundTripError(problem, method, setting, result.yFinal, options);
@@ -69,6 +74,7 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
     run.error = { final, max: along === null ? final : Math.max(along, final) };
     const resolution = referenceResolution(problem, ref);
     if (resolution > 0 && final < resolution) run.errorBelowReference = true;
+    if (problem.orbit) run.orbitError = orbitRecord(problem.orbit.unit, result.yFinal, ref, problem, watch.orbitAlong());
   } else if (problem.reference.unavailable) {
     run.status = 'error';
     run.message = appendMessage(run.message, `${problem.reference.unavailable}; error not measured`);
@@ -77,6 +83,25 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   }
   return run;
 }
+
+function parts(b: Float64Array): OrbitErrorParts {
+  return { position: b[0]!, radial: b[1]!, inTrack: b[2]!, crossTrack: b[3]! };
+}
+
+/** Final signed parts; the along-the-run maxima include the end. */
+function orbitRecord(unit: string, y: Float64Array, ref: Float64Array, problem: Problem, along: ReturnType<RunWatchLike['orbitAlong']>): NonNullable<RunResult['orbitError']> {
+  const b = new Float64Array(4);
+  orbitErrorInto(y, ref, problem.orbit!, b);
+  const final = parts(b);
+  const max = { ...(along?.max ?? { position: 0, radial: 0, inTrack: 0, crossTrack: 0 }) };
+  max.position = Math.max(max.position, Math.abs(final.position));
+  max.radial = Math.max(max.radial, Math.abs(final.radial));
+  max.inTrack = Math.max(max.inTrack, Math.abs(final.inTrack));
+  max.crossTrack = Math.max(max.crossTrack, Math.abs(final.crossTrack));
+  return { unit, final, max, ...(along?.trace ? { trace: along.trace } : {}) };
+}
+
+type RunWatchLike = ReturnType<typeof watchRun>;
 
 export function failedRun(problem: Problem, method: Method | { id: string }, setting: Setting, message: string): RunResult {
   return {

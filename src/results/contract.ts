@@ -13,6 +13,40 @@ export interface DriftTrace {
   drift: Record<string, number[]>;
 }
 
+/** Position error split in the reference orbit's frame, in the problem's position unit. */
+export interface OrbitErrorParts {
+  /** RSS (length of the position error). */
+  position: number;
+  radial: number;
+  inTrack: number;
+  crossTrack: number;
+}
+
+export interface OrbitErrorRecord {
+  unit: string;
+  /** Signed parts at the end of the span. */
+  final: OrbitErrorParts | null;
+  /** Largest magnitude of each part over the points compared along the run (the end included). */
+  max: OrbitErrorParts | null;
+  /** Signed parts sampled along the run (a few hundred points at most), for plots. */
+  trace?: { t: number[]; radial: number[]; inTrack: number[]; crossTrack: number[] };
+}
+
+/** One event's crossings in a run against the reference's. */
+export interface EventRecord {
+  direction: 'rising' | 'falling' | 'both';
+  /** Crossing times the run produced. */
+  times: number[];
+  /** Reference crossing times (null: the reference gives none, so nothing is compared). */
+  reference: number[] | null;
+  /** Per reference crossing: run time minus reference time, null where the run missed it. */
+  timeErrors: (number | null)[] | null;
+  /** Largest |time error| over the matched crossings (null when none matched or no reference). */
+  maxTimeError: number | null;
+  missed: number | null;
+  extra: number | null;
+}
+
 export interface RunResult {
   problem: string;
   method: string;
@@ -32,6 +66,10 @@ export interface RunResult {
   /** Position of this run in the sweep plan (keeps merged shards in plan order). */
   planIndex?: number;
   trace?: DriftTrace;
+  /** Radial / in-track / cross-track split of the position error (problems that name an orbit). */
+  orbitError?: OrbitErrorRecord;
+  /** Event crossings located in the run, by event name (problems that declare events). */
+  events?: Record<string, EventRecord>;
 }
 
 export interface ProblemRecord {

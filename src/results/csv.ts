@@ -12,6 +12,8 @@ export const CSV_COLUMNS = [
   'problem', 'method', 'rtol', 'atol', 'steps', 'h', 'status',
   'error_final', 'error_max', 'drift_max', 'nfev', 'njev', 'nlu', 'accepted', 'rejected', 'time_median_s',
   'time_samples', 'error_below_reference', 'round_trip', 'message',
+  'orbit_position_final', 'orbit_radial_final', 'orbit_in_track_final', 'orbit_cross_track_final', 'orbit_position_max', 'orbit_in_track_max',
+  'event_time_error_max', 'events_missed', 'events_extra',
 ] as const;
 
 function cell(v: number | null | undefined): string {
@@ -23,7 +25,19 @@ function driftMax(run: RunResult): number | null {
   return values.length === 0 ? null : Math.max(...values);
 }
 
+/** Sum of a count over the run's events (empty when none was compared). */
+function eventCount(run: RunResult, key: 'missed' | 'extra'): number | null {
+  const counted = Object.values(run.events ?? {}).filter((e) => e[key] !== null);
+  return counted.length === 0 ? null : counted.reduce((a, e) => a + e[key]!, 0);
+}
+
+function eventTimeMax(run: RunResult): number | null {
+  const values = Object.values(run.events ?? {}).map((e) => e.maxTimeError).filter((v): v is number => v !== null);
+  return values.length === 0 ? null : Math.max(...values);
+}
+
 function row(run: RunResult): string[] {
+  const o = run.orbitError;
   const s = run.setting;
   const adaptive = 'rtol' in s;
   return [
@@ -47,6 +61,15 @@ function row(run: RunResult): string[] {
     run.errorBelowReference ? 'true' : '',
     cell(run.roundTrip),
     run.message ?? '',
+    cell(o?.final?.position),
+    cell(o?.final?.radial),
+    cell(o?.final?.inTrack),
+    cell(o?.final?.crossTrack),
+    cell(o?.max?.position),
+    cell(o?.max?.inTrack),
+    cell(eventTimeMax(run)),
+    cell(eventCount(run, 'missed')),
+    cell(eventCount(run, 'extra')),
   ];
 }
 

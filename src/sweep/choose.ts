@@ -7,6 +7,8 @@ import { measureRun, type RunOptions } from '../measure/run-one.js';
 import { timeRun, type TimingOptions } from '../measure/timing.js';
 import { pairingGap } from './plan.js';
 import { absoluteTolerance } from '../core/tolerance.js';
+import { InputError } from '../core/errors.js';
+import { measureGap, measureOf, type ErrorMeasure } from '../measure/run-measures.js';
 
 /**
  * Decade grid searched for adaptive methods, loosest first. It ends at 1e-15, about 4.5 times
@@ -21,7 +23,7 @@ const RTOL_BISECTIONS = 8;
 const MIN_STEPS = 4;
 const MAX_STEPS = 1 << 22;
 
-export type ErrorMeasure = 'final' | 'max';
+export type { ErrorMeasure } from '../measure/run-measures.js';
 export type CostMeasure = 'nfev' | 'time';
 
 export interface ChooseOptions extends RunOptions {
@@ -56,8 +58,7 @@ export interface Choice {
 }
 
 function errorOf(run: RunResult, measure: ErrorMeasure): number | null {
-  if (run.status !== 'ok') return null;
-  return measure === 'final' ? run.error.final : run.error.max;
+  return measureOf(run, measure);
 }
 
 function meets(run: RunResult, o: ChooseOptions): boolean {
@@ -142,6 +143,8 @@ function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
 }
 
 export async function chooseMethod(problem: Problem, methods: readonly Method[], o: ChooseOptions): Promise<Choice> {
+  const gap = measureGap(problem, o.measure);
+  if (gap) throw new InputError(gap, '--measure');
   const candidates: Candidate[] = [];
   for (const m of methods) {
     const gap = pairingGap(problem, m);

@@ -57,14 +57,15 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
     .requiredOption('-p, --problem <id|file>', 'one problem id or problem file')
     .requiredOption('--target <error>', 'largest acceptable error in the problem\'s error scale, e.g. 1e-8')
     .option('-m, --method <list>', 'methods to consider (default: all that apply)')
-    .option('--measure <which>', 'final (at the end of the span) or max (over check times)', 'final')
+    .option('--measure <which>', 'final (at the end of the span) or max (over check times) in the problem\'s error scale; for orbit problems position, radial, in-track, cross-track (at the end, in the problem\'s position unit) or the same with -max (largest along the run); event-time (worst event timing error; a missed or extra crossing never meets the target)', 'final')
     .option('--cost <what>', 'time (median wall time) or nfev (function evaluations, free of timing noise)', 'time')
     .option('--max-steps <n>', 'step limit per run', String(DEFAULT_MAX_STEPS))
     .option('--json', 'print the ranked table as JSON')
     .option('--quantile <q>', "for a dispersed problem: share of the samples that must meet the target, in (0, 1], or 'worst' (every sample; the default)")
     .action(async (flags: ChooseFlags) => {
       const target = parsePositive(flags.target ?? '', '--target');
-      if (flags.measure !== 'final' && flags.measure !== 'max') throw new InputError(`'${flags.measure}' is not final or max`, '--measure');
+      const { ERROR_MEASURES, isErrorMeasure } = await import('../../measure/run-measures.js');
+      if (!isErrorMeasure(flags.measure)) throw new InputError(`'${flags.measure}' is not one of ${ERROR_MEASURES.join(', ')}`, '--measure');
       if (flags.cost !== 'time' && flags.cost !== 'nfev') throw new InputError(`'${flags.cost}' is not time or nfev`, '--cost');
       const { resolveMethods, resolveProblems } = await import('../../sweep/resolve.js');
       const { chooseMethod } = await import('../../sweep/choose.js');

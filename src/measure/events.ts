@@ -1,0 +1,180 @@
+// Events: the times where a problem's event functions cross zero in their direction. A run's
+// crossings are found between its accepted steps (a sign change of g from one step to the next)
+// and located on the Hermite interpolant of the two steps (src/measure/hermite.ts) with a
+// bracketing root finder. The interpolant is built from the run's own states and the right-hand
+// side at and beside them (three evaluations per accepted step, made here, outside the method's
+// counts); it is stepgauge's, not the method's own dense output; a step that jumps over an even number
+// of crossings (a short eclipse) sees no sign change and the crossings are missed, as they would
+// be by any integrator that tests for events only at its steps.
+// Reference crossings: given by the problem (analytic), or located on an exact reference.
+import type { EventDirection, Problem } from '../core/types.js';
+import type { EventRecord } from '../results/contract.js';
+import { illinoisRoot } from '../core/root.js';
+import { hermiteAt, secondDerivative, type StepEnds } from './hermite.js';
+
+/** Root-finding tolerance in time, relative to the span's time scale (|t| or the step). */
+const ROOT_REL_TOL = 4 * Number.EPSILON;
+/** Intervals of the scan for sign changes of g along an exact reference. */
+const EXACT_SCAN_INTERVALS = 20000;
+
+export interface EventWatch {
+  observe(t: number, y: Float64Array): void;
+  /** Crossing times found so far, by event name. */
+  found(): Record<string, number[]>;
+}
+
+function crosses(direction: EventDirection, ga: number, gb: number): boolean {
+  const rising = ga < 0 && gb >= 0;
+  const falling = ga > 0 && gb <= 0;
+  return direction === 'rising' ? rising : direction === 'falling' ? falling : rising || falling;
+}
+
+/** Watches a run's accepted steps for crossings; null when the problem declares no events. */
+export function watchEvents(problem: Problem): EventWatch | null {
+  const events = problem.events ?? [];
+  if (events.length === 0) return null;
+  const n = problem.dimension;
+  const orbit = problem.orbit;
+  const f = problem.f;
+  const ends: StepEnds = {
+    tA: NaN,
+    tB: NaN,
+    yA: new Float64Array(n),
+    yB: new Float64Array(n),
+    fA: new Float64Array(n),
+    fB: new Float64Array(n),
+    gA: new Float64Array(n),
+    gB: new Float64Array(n),
+  };
+  const work = { y: new Float64Array(n), fp: new Float64Array(n), fm: new Float64Array(n) };
+  const yi = new Float64Array(n);
+  const gPrev = new Float64Array(events.length);
+  const times = events.map(() => [] as number[]);
+  let started = false;
+  return {
+    observe(t, y) {
+      if (started && t === ends.tB) return; // the same landing reported twice
+      for (let i = 0; i < n; i++) if (!Number.isFinite(y[i]!)) return;
+      // Shift B to A, then take the new point as B.
+      const ya = ends.yA;
+      const fa = ends.fA;
+      const ga = ends.gA;
+      ends.yA = ends.yB;
+      ends.fA = ends.fB;
+      ends.gA = ends.gB;
+      ends.yB = ya;
+      ends.fB = fa;
+      ends.gB = ga;
+      ends.tA = ends.tB;
+      ends.tB = t;
+      ends.yB.set(y);
+      f(t, ends.yB, ends.fB);
+      secondDerivative(f, t, ends.yB, ends.fB, ends.gB, work);
+      for (let k = 0; k < events.length; k++) {
+        const ev = events[k]!;
+        const g = ev.fn(t, ends.yB);
+        if (started && crosses(ev.direction, gPrev[k]!, g)) {
+          const tol = ROOT_REL_TOL * Math.max(Math.abs(ends.tA), Math.abs(t), ends.tB - ends.tA);
+          const at = (s: number) => (hermiteAt(ends, s, yi, orbit), ev.fn(s, yi));
+          times[k]!.push(illinoisRoot(at, ends.tA, gPrev[k]!, t, g, tol));
+        }
+        gPrev[k] = g;
+      }
+      started = true;
+    },
+    found: () => Object.fromEntries(events.map((ev, k) => [ev.name, times[k]!])),
+  };
+}
+
+const exactCache = new WeakMap<object, Record<string, number[]> | null>();
+
+/** Reference crossing times by event name: the problem's own, or located on its exact reference; null when neither. */
+export function referenceEventTimes(problem: Problem): Record<string, number[]> | null {
+  const events = problem.events ?? [];
+  if (events.length === 0) return null;
+  const given = problem.reference.eventTimes;
+  if (given) return Object.fromEntries(events.map((ev) => [ev.name, [...(given[ev.name] ?? [])]]));
+  const exact = problem.reference.exact;
+  if (!exact) return null;
+  const key = exact as object;
+  if (exactCache.has(key)) return exactCache.get(key)!;
+  const y = new Float64Array(problem.dimension);
+  const g = (k: number, t: number) => (exact(t, y), events[k]!.fn(t, y));
+  const out: Record<string, number[]> = Object.fromEntries(events.map((ev) => [ev.name, [] as number[]]));
+  const span = problem.tEnd - problem.t0;
+  const prev = events.map((_, k) => g(k, problem.t0));
+  for (let i = 1; i <= EXACT_SCAN_INTERVALS; i++) {
+    const tb = problem.t0 + (span * i) / EXACT_SCAN_INTERVALS;
+    const ta = problem.t0 + (span * (i - 1)) / EXACT_SCAN_INTERVALS;
+    events.forEach((ev, k) => {
+      const gb = g(k, tb);
+      if (crosses(ev.direction, prev[k]!, gb)) {
+        out[ev.name]!.push(illinoisRoot((t) => g(k, t), ta, prev[k]!, tb, gb, ROOT_REL_TOL * Math.max(Math.abs(tb), span)));
+      }
+      prev[k] = gb;
+    });
+  }
+  exactCache.set(key, out);
+  return out;
+}
+
+/**
+ * Pairs each reference crossing with the nearest run crossing closer to it than to any other
+ * reference crossing of the same event (half the gap to each neighbour); what is left over is
+ * missed (reference) or extra (run).
+ */
+export function matchCrossings(reference: readonly number[], found: readonly number[], span: number): { timeErrors: (number | null)[]; extra: number } {
+  const used = new Set<number>();
+  const timeErrors = reference.map((r, k) => {
+    const lo = k > 0 ? (reference[k - 1]! + r) / 2 : r - span;
+    const hi = k + 1 < reference.length ? (r + reference[k + 1]!) / 2 : r + span;
+    let best = -1;
+    found.forEach((t, j) => {
+      if (used.has(j) || t < lo || t >= hi) return;
+      if (best < 0 || Math.abs(t - r) < Math.abs(found[best]! - r)) best = j;
+    });
+    if (best < 0) return null;
+    used.add(best);
+    return found[best]! - r;
+  });
+  return { timeErrors, extra: found.length - used.size };
+}
+
+/** The run's event records, compared with the reference crossings where there are some. */
+export function eventRecords(problem: Problem, found: Record<string, number[]>): Record<string, EventRecord> {
+  const reference = referenceEventTimes(problem);
+  const span = problem.tEnd - problem.t0;
+  const out: Record<string, EventRecord> = {};
+  for (const ev of problem.events ?? []) {
+    const times = found[ev.name] ?? [];
+    const ref = reference?.[ev.name] ?? null;
+    if (!ref) {
+      out[ev.name] = { direction: ev.direction, times, reference: null, timeErrors: null, maxTimeError: null, missed: null, extra: null };
+      continue;
+    }
+    const { timeErrors, extra } = matchCrossings(ref, times, span);
+    const matched = timeErrors.filter((e): e is number => e !== null);
+    out[ev.name] = {
+      direction: ev.direction,
+      times,
+      reference: [...ref],
+      timeErrors,
+      maxTimeError: matched.length > 0 ? Math.max(...matched.map(Math.abs)) : null,
+      missed: timeErrors.length - matched.length,
+      extra,
+    };
+  }
+  return out;
+}
+
+/** Worst event-time error of a run, Infinity when it missed or added a crossing, null with nothing to compare. */
+export function worstEventTimeError(events: Record<string, EventRecord> | undefined): number | null {
+  if (!events) return null;
+  let worst: number | null = null;
+  for (const e of Object.values(events)) {
+    if (e.reference === null) continue;
+    if ((e.missed ?? 0) > 0 || (e.extra ?? 0) > 0) return Infinity;
+    if (e.maxTimeError !== null) worst = Math.max(worst ?? 0, e.maxTimeError);
+  }
+  return worst;
+}
