@@ -199,3 +199,44 @@ describe('choose on orbit and event measures', () => {
     await expect(chooseMethod(findProblem('van-der-pol')!, [findMethod('rk4')!], { target: 1, measure: 'in-track', cost: 'nfev', timing: { budgetSeconds: 0.01, minSamples: 1 }, maxSteps: 10 })).rejects.toThrow(/names no orbit/);
   });
 });
+
+describe('orbit and events in a module problem (defineProblem)', () => {
+  it('a unit circular orbit crosses the x axis downward at t = pi: reference located on the exact solution, run within 1e-8', async () => {
+    const { defineProblem } = await import('../src/authoring/define-problem.js');
+    const p = defineProblem({
+      id: 'unit-circle',
+      title: 'unit circle',
+      source: 'circular two-body motion, mu = 1 (x = cos t, y = sin t)',
+      y0: [1, 0, 0, 0, 1, 0],
+      span: [0, 2 * Math.PI - 0.1],
+      f: (_t, y, dy) => {
+        const r3 = Math.hypot(y[0]!, y[1]!, y[2]!) ** 3;
+        for (let k = 0; k < 3; k++) {
+          dy[k] = y[3 + k]!;
+          dy[3 + k] = -y[k]! / r3;
+        }
+      },
+      reference: { kind: 'exact', exact: (t, out) => out.set([Math.cos(t), Math.sin(t), 0, -Math.sin(t), Math.cos(t), 0]) },
+      orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'length units' },
+      events: [{ name: 'descending-x-axis', fn: (_t, y) => y[1]!, direction: 'falling' }],
+    });
+    const run = measureRun(p, findMethod('dormand-prince-853')!, { rtol: 1e-10, atol: 1e-10 }, { maxSteps: 1e6 });
+    const e = run.events!['descending-x-axis']!;
+    expect(e.reference!.length).toBe(1);
+    expect(Math.abs(e.reference![0]! - Math.PI)).toBeLessThan(1e-12);
+    expect(e.missed).toBe(0);
+    expect(e.extra).toBe(0);
+    expect(e.maxTimeError!).toBeLessThan(1e-8);
+    expect(run.orbitError!.unit).toBe('length units');
+  });
+
+  it('refuses an event without a valid direction, naming the problem', async () => {
+    const { defineProblem } = await import('../src/authoring/define-problem.js');
+    expect(() =>
+      defineProblem({
+        id: 'bad-event', title: 'x', source: 'x', y0: [1], span: [0, 1], f: (_t, y, dy) => void (dy[0] = -y[0]!),
+        events: [{ name: 'half', fn: (_t, y) => y[0]! - 0.5, direction: 'down' as never }],
+      }),
+    ).toThrow(/bad-event.*direction must be rising, falling or both|direction must be rising, falling or both/);
+  });
+});

@@ -1,7 +1,7 @@
 // defineProblem: the way a user's module describes a problem in code. It checks the spec, fills
 // the defaults and records a stable text of the spec (functions by their source) as the
 // definition; the module loader appends a hash of the module's source files.
-import type { ErrorScale, Invariant, JacobianFn, Problem, Reference, Rhs, SeparableSplit } from '../core/types.js';
+import type { ErrorScale, Invariant, JacobianFn, OrbitStates, Problem, ProblemEvent, Reference, Rhs, SeparableSplit } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { brand, PROBLEM_BRAND } from './brand.js';
 
@@ -30,6 +30,10 @@ export interface ProblemSpec {
   readonly checkTimes?: readonly number[];
   readonly separable?: SeparableSplit;
   readonly atolScale?: number | readonly number[];
+  /** Position and velocity indices of an orbiting body (runs add the radial / in-track / cross-track split). */
+  readonly orbit?: OrbitStates;
+  /** Event functions with a direction; crossing times are located in every run. */
+  readonly events?: readonly ProblemEvent[];
 }
 
 const KEBAB = /^[a-z0-9]+(-[a-z0-9]+)*$/;
@@ -87,6 +91,22 @@ export function defineProblem(spec: ProblemSpec): Problem {
       bad(spec, `separable must split the indices 0..${n - 1} into positions and velocities, each once`);
     }
   }
+  if (spec.orbit) {
+    const o = spec.orbit;
+    const idx = [...(o.position ?? []), ...(o.velocity ?? [])];
+    if (o.position?.length !== 3 || o.velocity?.length !== 3 || idx.some((i) => !Number.isInteger(i) || i < 0 || i >= n) || new Set(idx).size !== 6) {
+      bad(spec, `orbit needs three position and three velocity indices, distinct, in 0..${n - 1}`);
+    }
+    if (typeof o.unit !== 'string' || !o.unit.trim()) bad(spec, "orbit needs the position unit, e.g. unit: 'm'");
+  }
+  const eventNames = new Set<string>();
+  for (const ev of spec.events ?? []) {
+    if (!ev || typeof ev.name !== 'string' || !KEBAB.test(ev.name)) bad(spec, 'each event needs a kebab-case name');
+    if (eventNames.has(ev.name)) bad(spec, `event ${ev.name} is declared twice`);
+    eventNames.add(ev.name);
+    if (typeof ev.fn !== 'function') bad(spec, `event ${ev.name} needs a function fn(t, y)`);
+    if (!['rising', 'falling', 'both'].includes(ev.direction)) bad(spec, `event ${ev.name}: direction must be rising, falling or both`);
+  }
   const reference = spec.reference ?? { kind: 'certified', points: [] };
   if (reference.kind === 'exact' && typeof reference.exact !== 'function') bad(spec, "reference of kind 'exact' needs exact(t, out)");
 
@@ -119,6 +139,8 @@ export function defineProblem(spec: ProblemSpec): Problem {
     checkTimes,
     ...(spec.separable ? { separable: spec.separable } : {}),
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
+    ...(spec.orbit ? { orbit: spec.orbit } : {}),
+    ...(spec.events ? { events: spec.events } : {}),
     definition: stableText(spec),
   };
   return brand(problem, PROBLEM_BRAND);

@@ -58,3 +58,9 @@ export function parsePositiveInt(text: string, flag: string): number {
 export function parsePositive(text: string, flag: string): number {
   return positiveNumber(text, flag);
 }
+
+/** A comma list of positive numbers (rates, step sizes). */
+export function parsePositiveList(text: string, flag: string): number[] {
+  if (text.trim() === '') throw new InputError('expected a comma list of positive numbers', flag);
+  return [...new Set(text.split(',').map((p) => positiveNumber(p, flag)))];
+}

@@ -9,6 +9,7 @@ import { pairingGap } from './plan.js';
 import { absoluteTolerance } from '../core/tolerance.js';
 import { InputError } from '../core/errors.js';
 import { measureGap, measureOf, type ErrorMeasure } from '../measure/run-measures.js';
+import { stepCost, type FixedCandidate, type StepCost } from './fixed-rates.js';
 
 /**
  * Decade grid searched for adaptive methods, loosest first. It ends at 1e-15, about 4.5 times
@@ -31,6 +32,8 @@ export interface ChooseOptions extends RunOptions {
   measure: ErrorMeasure;
   cost: CostMeasure;
   timing: TimingOptions;
+  /** Fixed-step candidates (rates or step sizes), fewest steps first; tried in order instead of the doubling search. */
+  fixedCandidates?: readonly FixedCandidate[];
 }
 
 export interface Candidate {
@@ -46,6 +49,10 @@ export interface Candidate {
   /** Solves spent searching (for the record). */
   trials: number;
   note?: string;
+  /** The rate of the chosen fixed-step candidate, Hz (when candidates were given as rates). */
+  rateHz?: number | null;
+  /** Cost of one step at the chosen fixed-step setting: the most and the mean evaluations, and mean seconds. */
+  stepCost?: (StepCost & { meanSeconds: number | null }) | null;
 }
 
 export interface Choice {
@@ -107,7 +114,22 @@ function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
   return { best: null, setting: null, trials, closest };
 }
 
+/** The listed candidates, fewest steps first: the first that meets the target is the lowest rate that does. */
+function searchCandidates(p: Problem, m: Method, o: ChooseOptions, list: readonly FixedCandidate[]): Search {
+  let trials = 0;
+  let closest: RunResult | null = null;
+  for (const c of list) {
+    trials++;
+    const run = measureRun(p, m, { steps: c.steps }, o);
+    if (meets(run, o)) return { best: run, setting: { steps: c.steps }, trials, closest: run };
+    const e = errorOf(run, o.measure);
+    if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
+  }
+  return { best: null, setting: null, trials, closest };
+}
+
 function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
+  if (o.fixedCandidates && o.fixedCandidates.length > 0) return searchCandidates(p, m, o, o.fixedCandidates);
   let trials = 0;
   const at = (steps: number) => {
     trials++;
@@ -171,10 +193,18 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
       if (t) confirmed.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds };
       cost = t ? t.medianSeconds : null;
     }
-    candidates.push({
+    const candidate: Candidate = {
       method: m.id, family: m.family, met: ok, run: confirmed, achieved,
       margin: achieved && achieved > 0 ? o.target / achieved : null, cost, trials: search.trials + 1,
-    });
+    };
+    if (!m.adaptive && o.fixedCandidates?.length && 'steps' in search.setting) {
+      const steps = search.setting.steps;
+      candidate.rateHz = o.fixedCandidates.find((c) => c.steps === steps)?.rateHz ?? null;
+      const sc = ok ? stepCost(problem, m, search.setting, o.maxSteps) : null;
+      const seconds = confirmed.time.medianSeconds;
+      candidate.stepCost = sc ? { ...sc, meanSeconds: seconds !== null ? seconds / steps : null } : null;
+    }
+    candidates.push(candidate);
   }
   const ranked = [...candidates].sort((a, b) => {
     if (a.met !== b.met) return a.met ? -1 : 1;

@@ -1,7 +1,7 @@
 // `stepgauge choose`: which method and setting meets an accuracy target at the least cost.
 import type { RegisterCommand } from './register.js';
 import { InputError } from '../../core/errors.js';
-import { parsePositive, parsePositiveInt } from '../options.js';
+import { parsePositive, parsePositiveInt, parsePositiveList } from '../options.js';
 import type { Candidate, Choice } from '../../sweep/choose.js';
 import { DEFAULT_MAX_STEPS, DEFAULT_TIMING } from '../../core/defaults.js';
 import { sig3 } from '../../report/format.js';
@@ -15,13 +15,28 @@ interface ChooseFlags {
   cost: string;
   json?: boolean;
   maxSteps: string;
+<<<<<<< HEAD
   quantile?: string;
+=======
+  rates?: string;
+  stepSizes?: string;
+>>>>>>> d628e48 (Fixed rates, vector expressions, orbit-error plots, module orbit/events: choose --rates (Hz) / --step-sizes gives fixed-step methods those candidates and answers with the lowest rate that meets the target and the most evaluations any one step took (rk4 on leo-j2, 100 m position target: lowest rate met among 0.0025..0.1 Hz, the next lower fails); problem files take vectors: { r: [x, y, z] } with +, -, scalar *, /, norm, dot, cross, expanded into scalar definitions before compilation (the J2 file written with vectors gives the catalogue leo-j2's f and Jacobian to 1e-14 / 1e-13 relative); defineProblem takes orbit and events; the report draws radial, in-track and cross-track error over time; README: catalogue rows, choose measures and rates, results fields, a guide to reading RIC error and event timing)
 }
 
 function settingText(c: Candidate): string {
   const s = c.run?.setting;
   if (!s) return '—';
-  return 'rtol' in s ? `rtol ${sig3(s.rtol)}` : `${s.steps} steps (h ${sig3(s.h)})`;
+  if ('rtol' in s) return `rtol ${sig3(s.rtol)}`;
+  if (c.rateHz != null) return `${sig3(c.rateHz)} Hz (h ${sig3(s.h)}, ${s.steps} steps)`;
+  return `${s.steps} steps (h ${sig3(s.h)})`;
+}
+
+/** One step's cost at a fixed rate: the most evaluations any step took, and the mean time. */
+function stepCostText(c: Candidate): string {
+  const sc = c.stepCost;
+  if (!sc) return '';
+  const time = sc.meanSeconds !== null ? `, ${sig3(sc.meanSeconds * 1e6)} us mean` : '';
+  return `one step: at most ${sc.worstNfev} evaluations${time}`;
 }
 
 export function choiceText(choice: Choice): string {
@@ -37,7 +52,7 @@ export function choiceText(choice: Choice): string {
       c.run ? String(c.run.counts.njev) : '—',
       c.run ? String(c.run.counts.nlu) : '—',
       c.run?.time.medianSeconds != null ? `${sig3(c.run.time.medianSeconds * 1000)} ms` : '—',
-      c.note ?? '',
+      [c.note, stepCostText(c)].filter(Boolean).join('; '),
     ]);
   });
   const widths = rows[0]!.map((_, k) => Math.max(...rows.map((r) => r[k]!.length)));
@@ -60,6 +75,8 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
     .option('--measure <which>', 'final (at the end of the span) or max (over check times) in the problem\'s error scale; for orbit problems position, radial, in-track, cross-track (at the end, in the problem\'s position unit) or the same with -max (largest along the run); event-time (worst event timing error; a missed or extra crossing never meets the target)', 'final')
     .option('--cost <what>', 'time (median wall time) or nfev (function evaluations, free of timing noise)', 'time')
     .option('--max-steps <n>', 'step limit per run', String(DEFAULT_MAX_STEPS))
+    .option('--rates <list>', 'fixed-step candidates as rates in Hz (time in seconds), e.g. 0.05,0.1,0.2; the answer is the lowest rate that meets the target')
+    .option('--step-sizes <list>', 'fixed-step candidates as step sizes in the problem\'s time unit, e.g. 5,10,20')
     .option('--json', 'print the ranked table as JSON')
     .option('--quantile <q>', "for a dispersed problem: share of the samples that must meet the target, in (0, 1], or 'worst' (every sample; the default)")
     .action(async (flags: ChooseFlags) => {
@@ -69,6 +86,8 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       if (flags.cost !== 'time' && flags.cost !== 'nfev') throw new InputError(`'${flags.cost}' is not time or nfev`, '--cost');
       const { resolveMethods, resolveProblems } = await import('../../sweep/resolve.js');
       const { chooseMethod } = await import('../../sweep/choose.js');
+      const rates = flags.rates !== undefined ? parsePositiveList(flags.rates, '--rates') : undefined;
+      const stepSizes = flags.stepSizes !== undefined ? parsePositiveList(flags.stepSizes, '--step-sizes') : undefined;
       const problems = await resolveProblems(flags.problem);
       const of = problems.items[0]?.dispersion?.of;
       if (of !== undefined && problems.items.every((p) => p.dispersion?.of === of)) {
@@ -78,6 +97,8 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       }
       if (flags.quantile !== undefined) throw new InputError('applies to a dispersed problem only (a problem file with a dispersion block)', '--quantile');
       if (problems.items.length !== 1) throw new InputError('choose takes exactly one problem', '--problem');
+      const { fixedCandidates } = await import('../../sweep/fixed-rates.js');
+      const candidates = rates || stepSizes ? fixedCandidates(problems.items[0]!, { rates, stepSizes }) : undefined;
       const methods = await resolveMethods(flags.method);
       const choice = await chooseMethod(problems.items[0]!, methods.items, {
         target,
@@ -85,6 +106,7 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
         cost: flags.cost,
         timing: DEFAULT_TIMING,
         maxSteps: parsePositiveInt(flags.maxSteps, '--max-steps'),
+        ...(candidates ? { fixedCandidates: candidates } : {}),
       });
       if (flags.json) process.stdout.write(`${JSON.stringify(choice, (_k, v) => (k(_k) ? undefined : v), 2)}\n`);
       else process.stdout.write(`${choiceText(choice)}\n`);

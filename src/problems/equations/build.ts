@@ -17,6 +17,7 @@ import { constantValue, emitField, evaluateParameters } from './constants.js';
 import { definitionOrderProblem } from './definition-order.js';
 import { dependencyGraph } from './dependency-graph.js';
 import { symbolicJacobian } from './jacobian.js';
+import { expandVectors } from './vectors.js';
 import { checkName, makeScope } from './names.js';
 import { checkSeparableSplit, findSeparableSplit, type Dependencies } from './separable.js';
 
@@ -30,7 +31,8 @@ function keysMatchStates(site: StructuredFile, path: FieldPath, given: Record<st
   if (missing !== undefined) fail(site, path, `state '${missing}' has no ${what}`);
 }
 
-export function buildEquationProblem(site: StructuredFile, spec: EquationFile): UserProblem {
+export function buildEquationProblem(site: StructuredFile, given: EquationFile): UserProblem {
+  const spec = expandVectors(site, given);
   const taken = new Map<string, string>();
   const states = spec.states;
   states.forEach((s, i) => checkName(site, ['states', i], s, taken, 'state'));

@@ -36,6 +36,8 @@ const common = {
 export const equationFileSchema = z.strictObject({
   ...common,
   states: z.array(z.string()).min(1),
+  /** Named groups of states (or other scalar names), usable as vectors in expressions. */
+  vectors: z.record(z.string(), z.array(z.string()).min(2)).optional(),
   definitions: namedExpressions.optional(),
   equations: namedExpressions,
   initial: namedExpressions,

@@ -3,6 +3,7 @@ import type { ResultsFile } from '../../results/contract.js';
 import { plotContext, type PlotContext } from './context.js';
 import { convergencePlots } from './convergence.js';
 import { driftPlots } from './drift.js';
+import { orbitErrorPlots } from './orbit-error.js';
 import { proportionalityPlots } from './proportionality.js';
 import { renderPlot } from './render.js';
 import type { OmittedPlot, PlotOutcome, PlotSpec } from './spec.js';
@@ -25,6 +26,7 @@ export function planPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
     ...convergencePlots(ctx, problem),
     ...proportionalityPlots(ctx, problem),
     ...driftPlots(ctx, problem),
+    ...orbitErrorPlots(ctx, problem),
   ];
 }
 

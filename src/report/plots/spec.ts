@@ -35,7 +35,7 @@ export interface AxisSpec {
   max?: number;
 }
 
-export type PlotKind = 'work-time' | 'work-nfev' | 'convergence' | 'proportionality' | 'drift';
+export type PlotKind = 'work-time' | 'work-nfev' | 'convergence' | 'proportionality' | 'drift' | 'orbit-error';
 
 export interface PlotSpec {
   kind: PlotKind;
