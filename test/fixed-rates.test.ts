@@ -1,9 +1,7 @@
 // Fixed rates: choose answers with the lowest rate (Hz) that meets a position target on the J2
 // orbit, checked by rerunning that rate and the next lower one against the certified reference.
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
+import { useTempCache } from './helpers/temp-cache.js';
 import { findProblem } from '../problems/index.js';
 import { findMethod } from '../src/methods/registry.js';
 import { measureRun } from '../src/measure/run-one.js';
@@ -11,17 +9,7 @@ import { withCertifiedReference } from '../src/measure/certify.js';
 import { chooseMethod } from '../src/sweep/choose.js';
 import { fixedCandidates, stepCost } from '../src/sweep/fixed-rates.js';
 
-let cache = '';
-const before = process.env.STEPGAUGE_CACHE;
-beforeAll(() => {
-  cache = mkdtempSync(join(tmpdir(), 'sg-rates-'));
-  process.env.STEPGAUGE_CACHE = cache;
-});
-afterAll(() => {
-  if (before === undefined) delete process.env.STEPGAUGE_CACHE;
-  else process.env.STEPGAUGE_CACHE = before;
-  rmSync(cache, { recursive: true, force: true });
-});
+useTempCache('sg-rates-');
 
 /** Length of the position error at the end against the certified reference. */
 function positionError(y: readonly number[], ref: readonly number[]): number {

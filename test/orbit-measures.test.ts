@@ -2,10 +2,8 @@
 // computations: the frame from its textbook definition (Vallado, Fundamentals of Astrodynamics and
 // Applications, 4th ed., ch. 3, RSW frame: R = r/|r|, C = r x v/|r x v|, I = C x R; chapter from
 // memory) and the eclipse times from the cylindrical shadow geometry (problems/eclipse-circular-orbit.ts).
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
+import { useTempCache } from './helpers/temp-cache.js';
 import { findProblem } from '../problems/index.js';
 import { eclipseOrbit } from '../problems/eclipse-circular-orbit.js';
 import { findMethod } from '../src/methods/registry.js';
@@ -35,17 +33,7 @@ function textbookRic(y: readonly number[], ref: ArrayLike<number>) {
   return { position: Math.sqrt(dot(d, d)), radial: dot(d, R), inTrack: dot(d, I), crossTrack: dot(d, C) };
 }
 
-let cache = '';
-const before = process.env.STEPGAUGE_CACHE;
-beforeAll(() => {
-  cache = mkdtempSync(join(tmpdir(), 'sg-orbit-'));
-  process.env.STEPGAUGE_CACHE = cache;
-});
-afterAll(() => {
-  if (before === undefined) delete process.env.STEPGAUGE_CACHE;
-  else process.env.STEPGAUGE_CACHE = before;
-  rmSync(cache, { recursive: true, force: true });
-});
+useTempCache('sg-orbit-');
 
 describe('radial / in-track / cross-track error', () => {
   it('matches the textbook frame computed from yFinal and the exact reference (eclipse orbit, dormand-prince-54 rtol 1e-6)', () => {

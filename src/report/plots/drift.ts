@@ -31,6 +31,19 @@ export function pickSettings(runs: readonly RunResult[]): { tightest: RunResult;
   return { tightest, mid: mid === tightest ? null : mid };
 }
 
+/** One method's trace over time: solid for its tightest run, dashed for a middle one. */
+export function traceSeries(ctx: PlotContext, id: string, run: RunResult, dashed: boolean, points: Point[]): SeriesSpec {
+  return {
+    label: `${methodName(ctx, id)}, ${dashed ? 'middle' : 'tightest'}: ${settingLabel(run.setting)}`,
+    points,
+    style: ctx.styles.get(id)!,
+    dashed,
+    markers: true,
+    markerEvery: Math.max(1, Math.ceil(points.length / MARKER_TARGET)),
+    line: true,
+  };
+}
+
 export function driftPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
   const runs = runsOf(ctx, problem);
   const names = invariantNames(runs);
@@ -72,15 +85,7 @@ export function driftPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
           else zeroSamples++;
         }
         if (points.length === 0) continue;
-        series.push({
-          label: `${methodName(ctx, id)}, ${dashed ? 'middle' : 'tightest'}: ${settingLabel(run.setting)}`,
-          points,
-          style: ctx.styles.get(id)!,
-          dashed,
-          markers: true,
-          markerEvery: Math.max(1, Math.ceil(points.length / MARKER_TARGET)),
-          line: true,
-        });
+        series.push(traceSeries(ctx, id, run, dashed, points));
       }
     }
     const notLeftOut = runs.length - [...leftOut.values()].reduce((a, b) => a + b, 0);

@@ -3,12 +3,10 @@
 // in the results. The in-track plot is the one that grows (a phase error accumulates), the
 // others stay near the size of one orbit's error.
 import type { RunResult } from '../../results/contract.js';
-import { settingLabel } from '../format.js';
-import { methodName, problemTitle, runsOf, type PlotContext } from './context.js';
-import { pickSettings } from './drift.js';
+import { problemTitle, runsOf, type PlotContext } from './context.js';
+import { pickSettings, traceSeries } from './drift.js';
 import type { Point, PlotOutcome, SeriesSpec } from './spec.js';
 
-const MARKER_TARGET = 12;
 const PARTS = [
   ['inTrack', 'in-track'],
   ['radial', 'radial'],
@@ -44,15 +42,7 @@ export function orbitErrorPlots(ctx: PlotContext, problem: string): PlotOutcome[
           }
         }
         if (points.length === 0) continue;
-        series.push({
-          label: `${methodName(ctx, id)}, ${dashed ? 'middle' : 'tightest'}: ${settingLabel(run.setting)}`,
-          points,
-          style: ctx.styles.get(id)!,
-          dashed,
-          markers: true,
-          markerEvery: Math.max(1, Math.ceil(points.length / MARKER_TARGET)),
-          line: true,
-        });
+        series.push(traceSeries(ctx, id, run, dashed, points));
       }
     }
     const notes = [
