@@ -13,6 +13,7 @@ import { eclipseCircularOrbit } from './eclipse-circular-orbit.js';
 import { leoJ2 } from './leo-j2.js';
 import { arenstorfOrbit } from './arenstorf-orbit.js';
 import { tetheredPair } from './tethered-pair.js';
+import { decayingOrbitDrag } from './decaying-orbit-drag.js';
 
 export const catalogue: Problem[] = [
   harmonicOscillator,
@@ -26,6 +27,7 @@ export const catalogue: Problem[] = [
   leoJ2,
   arenstorfOrbit,
   tetheredPair,
+  decayingOrbitDrag,
 ].map(uniformProblem);
 
 export function findProblem(id: string): Problem | undefined {

@@ -102,6 +102,7 @@ export const linearOscillatorChain: Problem & { readonly linearModel: LinearMode
   jacobian(_t, _y, jac) {
     jac.set(A_FLAT);
   },
+  linear: { A: A_FLAT, B: B_FLAT, inputs: 1, input: (t, out) => void (out[0] = Math.sin(OMEGA * t)) },
   stiff: false,
   invariants: [],
   errorScale: { kind: 'absolute' },

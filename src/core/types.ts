@@ -33,6 +33,18 @@ export interface OrbitStates {
   readonly unit: string;
 }
 
+/** The structure x' = A x + B u(t) of a linear problem, for methods that discretise it exactly. */
+export interface LinearStructure {
+  /** n x n, row-major. */
+  readonly A: Float64Array;
+  /** n x m, row-major. */
+  readonly B: Float64Array;
+  /** Number of inputs m. */
+  readonly inputs: number;
+  /** u(t) written into out (length m). */
+  readonly input: (t: number, out: Float64Array) => void;
+}
+
 /** Which zero crossings of an event function count: upward, downward or both. */
 export type EventDirection = 'rising' | 'falling' | 'both';
 
@@ -118,6 +130,8 @@ export interface Problem {
   readonly orbit?: OrbitStates;
   /** Event functions whose crossing times are located in every run and compared with the reference's. */
   readonly events?: readonly ProblemEvent[];
+  /** Set for linear problems x' = A x + B u: the hold discretisations need it. */
+  readonly linear?: LinearStructure;
   /** Why no separable split exists (said when a symplectic method is refused). */
   readonly separableReason?: string;
   /** Canonical text of the definition, hashed (SHA-256) so auditors can tell two problems apart. */
@@ -215,6 +229,8 @@ export interface Method {
   readonly stiff: boolean;
   /** Set for methods that need the problem's separable split (symplectic). */
   readonly needsSeparable?: boolean;
+  /** Set for methods that need a linear problem x' = A x + B u (exact discretisations). */
+  readonly needsLinear?: boolean;
   /** Order of the embedded error estimate, for adaptive pairs. */
   readonly embeddedOrder?: number;
   /**

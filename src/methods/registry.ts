@@ -3,9 +3,10 @@ import type { Method } from '../core/types.js';
 import { explicitMethods } from './explicit/index.js';
 import { implicitMethods } from './implicit/index.js';
 import { externalMethods } from './external/index.js';
+import { discreteMethods } from './discrete/hold.js';
 
 export function builtinMethods(): Method[] {
-  return [...explicitMethods, ...implicitMethods, ...externalMethods];
+  return [...explicitMethods, ...implicitMethods, ...discreteMethods, ...externalMethods];
 }
 
 export function findMethod(id: string): Method | undefined {

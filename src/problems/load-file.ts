@@ -11,6 +11,7 @@ import { validateShape } from './file/validate-shape.js';
 import { fail } from './file/fail.js';
 import { buildLinearProblem } from './linear/build.js';
 import type { UserProblem } from './user-problem.js';
+import { readTables } from './tables/file-tables.js';
 
 /** The problem of a file, nominal values only (a dispersion block is checked, not expanded). */
 export async function loadProblemFile(path: string): Promise<UserProblem> {
@@ -50,7 +51,7 @@ async function loadChecked(path: string): Promise<LoadedProblemFile> {
     build = (s) => buildLinearProblem(file, s as LinearFile, resolve(path));
   } else {
     spec = validateShape(equationFileSchema, file);
-    build = async (s) => buildEquationProblem(file, s as EquationFile);
+    build = async (s) => buildEquationProblem(file, s as EquationFile, await readTables(file, s as EquationFile, resolve(path)));
   }
   const nominal = await build(spec);
   if (!spec.dispersion) return { nominal };

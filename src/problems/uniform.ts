@@ -54,6 +54,7 @@ export function uniformProblem(p: Problem): Problem {
     errorOn: p.errorOn,
     orbit: p.orbit,
     events: p.events,
+    linear: p.linear,
     separableReason: p.separableReason,
     definition: p.definition,
     exactFromState: p.exactFromState,

@@ -170,7 +170,7 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
   const candidates: Candidate[] = [];
   for (const m of methods) {
     const gap = pairingGap(problem, m);
-    if (gap && (m.needsSeparable || problem.stiff)) {
+    if (gap && (m.needsSeparable || m.needsLinear || problem.stiff)) {
       candidates.push({ method: m.id, family: m.family, met: false, run: null, achieved: null, margin: null, cost: null, trials: 0, note: gap });
       continue;
     }

@@ -57,6 +57,7 @@ export function pairingGap(problem: Problem, method: Method): string | null {
     const why = problem.separableReason;
     return `${method.id} needs a separable problem (positions driven only by velocities, velocities only by positions and t)${why ? `: ${why}` : ''}`;
   }
+  if (method.needsLinear && !problem.linear) return `${method.id} needs a linear problem x' = A x + B u (a linear model file or a catalogue linear problem)`;
   if (problem.stiff && !method.stiff) return `${problem.id} is stiff and ${method.id} is not meant for stiff problems`;
   return null;
 }
@@ -77,7 +78,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
       const gap = pairingGap(problem, method);
       // A named explicit method still runs on a stiff problem (its step limit is the result),
       // but a symplectic method cannot run at all without a separable split.
-      const hardGap = method.needsSeparable && !problem.separable;
+      const hardGap = (method.needsSeparable && !problem.separable) || (method.needsLinear && !problem.linear);
       if (gap && (hardGap || !req.methodsNamed)) {
         skipped.push({ problem: problem.id, method: method.id, reason: gap });
         continue;

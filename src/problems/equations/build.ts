@@ -3,7 +3,7 @@
 // Jacobian and finds (or checks) the separable split.
 import { basename } from 'node:path';
 import type { Reference, SeparableSplit } from '../../core/types.js';
-import { DERIVATIVE_FUNCTIONS } from '../expression/functions.js';
+import { DERIVATIVE_FUNCTIONS, USER_FUNCTIONS } from '../expression/functions.js';
 import { ExpressionRejected, symbolsOf, type AstNode } from '../expression/emit.js';
 import { parseExpression } from '../expression/parse.js';
 import { canonicalJson } from '../file/canonical.js';
@@ -18,6 +18,7 @@ import { definitionOrderProblem } from './definition-order.js';
 import { dependencyGraph } from './dependency-graph.js';
 import { symbolicJacobian } from './jacobian.js';
 import { expandVectors } from './vectors.js';
+import { isolateTableCalls, type FileTables } from '../tables/file-tables.js';
 import { checkName, makeScope } from './names.js';
 import { checkSeparableSplit, findSeparableSplit, type Dependencies } from './separable.js';
 
@@ -31,9 +32,13 @@ function keysMatchStates(site: StructuredFile, path: FieldPath, given: Record<st
   if (missing !== undefined) fail(site, path, `state '${missing}' has no ${what}`);
 }
 
-export function buildEquationProblem(site: StructuredFile, given: EquationFile): UserProblem {
-  const spec = expandVectors(site, given);
+export function buildEquationProblem(site: StructuredFile, given: EquationFile, tables?: FileTables): UserProblem {
+  const tableNames = new Set(tables ? tables.tables.keys() : []);
+  const spec = isolateTableCalls(site, expandVectors(site, given), tableNames);
+  const bindings = tables?.bindings;
+  const functions = new Map([...USER_FUNCTIONS, ...(tables?.valueRules ?? [])]);
   const taken = new Map<string, string>();
+  for (const name of tableNames) checkName(site, ['tables', name], name, taken, 'table');
   const states = spec.states;
   states.forEach((s, i) => checkName(site, ['states', i], s, taken, 'state'));
   const n = states.length;
@@ -59,26 +64,29 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile):
   const definitions: DefinitionCode[] = [];
   const visibleDefs = new Map<string, number>();
   defNames.forEach((d, index) => {
-    const scope = makeScope({ time: true, states, parameters, definitions: visibleDefs });
+    const scope = makeScope({ time: true, states, parameters, definitions: visibleDefs, functions });
     const { js, node } = emitField(site, ['definitions', d], defSpecs[d]!, scope);
     definitions.push({ index, name: d, js, uses: symbolsOf(node) });
     visibleDefs.set(d, index);
   });
-  const fullScope = makeScope({ time: true, states, parameters, definitions: visibleDefs });
+  const fullScope = makeScope({ time: true, states, parameters, definitions: visibleDefs, functions });
 
   keysMatchStates(site, ['equations'], spec.equations, states, 'equation');
   const equations = states.map((s) => emitField(site, ['equations', s], spec.equations[s]!, fullScope));
   const eqSymbols = equations.flatMap((e) => [...symbolsOf(e.node)]);
-  const f = compileVectorFunction(n, equations.map((e) => e.js), neededDefinitions(eqSymbols, definitions));
+  const f = compileVectorFunction(n, equations.map((e) => e.js), neededDefinitions(eqSymbols, definitions), bindings);
 
   keysMatchStates(site, ['initial'], spec.initial, states, 'initial value');
   const y0 = states.map((s) => constantValue(site, ['initial', s], spec.initial[s]!, parameters));
   const { t0, tEnd } = readSpan(site, spec.span, parameters);
-  const checkTimes = readCheckTimes(site, spec.checkTimes, t0, tEnd, parameters);
+  const listed = readCheckTimes(site, spec.checkTimes, t0, tEnd, parameters);
+  // Breakpoints of tables of t: adaptive methods land on them instead of stepping over a kink.
+  const kinks = (tables?.nonSmoothTimes ?? []).filter((x) => x > t0 && x < tEnd);
+  const checkTimes = kinks.length ? [...new Set([...listed, ...kinks])].sort((a, b) => a - b) : listed;
 
   const invariants = Object.entries(spec.invariants ?? {}).map(([name, text]) => {
     const { js, node } = emitField(site, ['invariants', name], text, fullScope);
-    return { name, fn: compileScalarFunction(n, js, neededDefinitions(symbolsOf(node), definitions)) };
+    return { name, fn: compileScalarFunction(n, js, neededDefinitions(symbolsOf(node), definitions), bindings) };
   });
 
   const outputNames = Object.keys(spec.outputs ?? {});
@@ -86,7 +94,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile):
     ? (() => {
         const code = outputNames.map((o) => emitField(site, ['outputs', o], spec.outputs![o]!, fullScope));
         const defs = neededDefinitions(code.flatMap((c) => [...symbolsOf(c.node)]), definitions);
-        return { names: outputNames, fn: compileVectorFunction(n, code.map((c) => c.js), defs) };
+        return { names: outputNames, fn: compileVectorFunction(n, code.map((c) => c.js), defs, bindings) };
       })()
     : undefined;
 
@@ -104,9 +112,9 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile):
   };
   const { separable, separableReason } = separability(site, spec, dependencies);
 
-  const derivativeScope = makeScope({ time: true, states, parameters, definitions: visibleDefs, functions: DERIVATIVE_FUNCTIONS });
-  const jac = symbolicJacobian(graph, equations.map((e) => e.node), derivativeScope);
-  const jacobian = 'entries' in jac ? compileJacobian(n, jac.entries, neededDefinitions(eqSymbols, definitions), jac.temporaries) : undefined;
+  const derivativeScope = makeScope({ time: true, states, parameters, definitions: visibleDefs, functions: new Map([...DERIVATIVE_FUNCTIONS, ...(tables?.valueRules ?? [])]) });
+  const jac = symbolicJacobian(graph, equations.map((e) => e.node), derivativeScope, tables?.slopeRules);
+  const jacobian = 'entries' in jac ? compileJacobian(n, jac.entries, neededDefinitions(eqSymbols, definitions), jac.temporaries, bindings) : undefined;
 
   return {
     id: spec.id,
@@ -132,7 +140,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile):
     ...(separable ? { separable } : {}),
     ...(separableReason ? { separableReason } : {}),
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
-    definition: canonicalJson(site.data),
+    definition: canonicalJson(tables ? { file: site.data, tableValues: tables.canonical } : site.data),
     origin: site.file,
   };
 }

@@ -1,7 +1,7 @@
 // Assembles function bodies from emitted expression code: state reads, the definitions an
 // expression needs (in file order), then the writes. Buffers come from the caller; nothing here
 // allocates at run time.
-import { compileFunction } from '../expression/compile.js';
+import { compileFunction, type Bindings } from '../expression/compile.js';
 
 export interface DefinitionCode {
   readonly index: number;
@@ -39,14 +39,15 @@ export function compileVectorFunction(
   n: number,
   exprs: readonly string[],
   defs: readonly DefinitionCode[],
+  bindings?: Bindings,
 ): (t: number, y: Float64Array, out: Float64Array) => void {
   const writes = exprs.map((js, k) => `out[${k}] = ${js};`).join('\n');
-  return compileFunction(['t', 'y', 'out'], `${prologue(n, defs)}\n${writes}`);
+  return compileFunction(['t', 'y', 'out'], `${prologue(n, defs)}\n${writes}`, bindings);
 }
 
 /** function (t, y) { return expr } */
-export function compileScalarFunction(n: number, expr: string, defs: readonly DefinitionCode[]): (t: number, y: Float64Array) => number {
-  return compileFunction(['t', 'y'], `${prologue(n, defs)}\nreturn ${expr};`);
+export function compileScalarFunction(n: number, expr: string, defs: readonly DefinitionCode[], bindings?: Bindings): (t: number, y: Float64Array) => number {
+  return compileFunction(['t', 'y'], `${prologue(n, defs)}\nreturn ${expr};`, bindings);
 }
 
 /**
@@ -58,10 +59,11 @@ export function compileJacobian(
   entries: readonly { row: number; col: number; js: string }[],
   defs: readonly DefinitionCode[] = [],
   temporaries: readonly string[] = [],
+  bindings?: Bindings,
 ): (t: number, y: Float64Array, jac: Float64Array) => void {
   const writes = entries.map((e) => `jac[${e.row * n + e.col}] = ${e.js};`).join('\n');
   const temps = temporaries.length ? `${temporaries.join('\n')}\n` : '';
-  return compileFunction(['t', 'y', 'jac'], `${prologue(n, defs)}\n${temps}jac.fill(0);\n${writes}`);
+  return compileFunction(['t', 'y', 'jac'], `${prologue(n, defs)}\n${temps}jac.fill(0);\n${writes}`, bindings);
 }
 
 /** function (t, out) { out[k] = expr_k(t) } for exact solutions. */

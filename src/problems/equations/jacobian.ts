@@ -15,6 +15,7 @@ import { derivative, type MathNode } from 'mathjs';
 import { emitExpression, type AstNode, type EmitScope } from '../expression/emit.js';
 import { treeSize, type Walkable } from '../expression/parse.js';
 import type { DependencyGraph, Reach } from './dependency-graph.js';
+import type { FunctionRule } from '../expression/functions.js';
 
 export interface JacobianEntry {
   readonly row: number;
@@ -42,7 +43,12 @@ export type JacobianResult =
   | { readonly reason: string };
 
 /** Expressions to differentiate: the equations, one per state, in state order. */
-export function symbolicJacobian(graph: DependencyGraph, equations: readonly AstNode[], scope: EmitScope): JacobianResult {
+export function symbolicJacobian(
+  graph: DependencyGraph,
+  equations: readonly AstNode[],
+  scope: EmitScope,
+  tableSlopes?: ReadonlyMap<string, FunctionRule>,
+): JacobianResult {
   const { states, definitions, definitionReach } = graph;
   const equationReach = equations.map((e) => graph.reachOf(e));
   const needed = neededWithReach(equationReach, definitionReach);
@@ -122,6 +128,14 @@ export function symbolicJacobian(graph: DependencyGraph, equations: readonly Ast
 
   /** JavaScript of d(node)/d(symbol) with other symbols held fixed; undefined when it is 0. */
   function localPartial(node: AstNode, symbol: string, what: string): string | undefined {
+    const table = tableCall(node);
+    if (table) {
+      // A table call (its own definition, file-tables.ts): the interpolant's exact slope at the
+      // argument times the argument's partial.
+      const inner = localPartial(table.arg, symbol, what);
+      if (inner === undefined) return undefined;
+      return `(${table.slope.emit([emitExpression(table.arg, scope)])} * ${inner})`;
+    }
     let d: AstNode;
     try {
       d = derivative(node as unknown as MathNode, symbol, { simplify: false }) as unknown as AstNode;
@@ -138,6 +152,14 @@ export function symbolicJacobian(graph: DependencyGraph, equations: readonly Ast
     } catch (e) {
       throw new NoJacobian(`the derivative of ${what} by ${symbol} uses a construct outside the whitelist (${e instanceof Error ? e.message : String(e)})`);
     }
+  }
+
+  function tableCall(node: AstNode): { arg: AstNode; slope: FunctionRule } | undefined {
+    if (!tableSlopes || node.type !== 'FunctionNode') return undefined;
+    const fn = node['fn'] as AstNode;
+    const slope = fn.type === 'SymbolNode' ? tableSlopes.get(fn['name'] as string) : undefined;
+    const args = node['args'] as AstNode[];
+    return slope && args.length === 1 ? { arg: args[0]!, slope } : undefined;
   }
 }
 

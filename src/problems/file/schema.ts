@@ -33,11 +33,23 @@ const common = {
   dispersion: dispersionSpec.optional(),
 };
 
+/** A 1-D table: inline x and y, or a two-column CSV beside the problem file. */
+const tableSpec = z.strictObject({
+  x: z.array(z.number()).optional(),
+  y: z.array(z.number()).optional(),
+  csv: z.string().optional(),
+  interpolation: z.enum(['linear', 'log-linear', 'monotone-cubic']).optional(),
+  /** The table is of t: its breakpoints are times where the model is not smooth (added to checkTimes). */
+  nonSmoothTimes: z.boolean().optional(),
+});
+
 export const equationFileSchema = z.strictObject({
   ...common,
   states: z.array(z.string()).min(1),
   /** Named groups of states (or other scalar names), usable as vectors in expressions. */
   vectors: z.record(z.string(), z.array(z.string()).min(2)).optional(),
+  /** Tables callable in expressions by name: rho(h). */
+  tables: z.record(z.string(), tableSpec).optional(),
   definitions: namedExpressions.optional(),
   equations: namedExpressions,
   initial: namedExpressions,

@@ -131,6 +131,14 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
     f,
     jacobian,
     jacobianSource: 'symbolic',
+    linear: {
+      A: a,
+      B: b,
+      inputs: m,
+      input: (t: number, out: Float64Array) => {
+        for (let c = 0; c < m; c++) out[c] = inputFns[c]!(t);
+      },
+    },
     stiff: spec.stiff ?? false,
     invariants,
     errorScale,

@@ -37,7 +37,8 @@ function inlineRows(site: Site, path: FieldPath, spec: readonly (readonly (strin
   });
 }
 
-async function readCsvRows(site: Site, path: FieldPath, relative: string, problemFile: string): Promise<number[][]> {
+/** Rows of numbers from a CSV file beside the problem file (shared by matrices and tables). */
+export async function readCsvRows(site: Site, path: FieldPath, relative: string, problemFile: string): Promise<number[][]> {
   const csvPath = resolve(dirname(problemFile), relative);
   let text: string;
   try {
