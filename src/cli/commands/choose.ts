@@ -15,12 +15,9 @@ interface ChooseFlags {
   cost: string;
   json?: boolean;
   maxSteps: string;
-<<<<<<< HEAD
   quantile?: string;
-=======
   rates?: string;
   stepSizes?: string;
->>>>>>> d628e48 (Fixed rates, vector expressions, orbit-error plots, module orbit/events: choose --rates (Hz) / --step-sizes gives fixed-step methods those candidates and answers with the lowest rate that meets the target and the most evaluations any one step took (rk4 on leo-j2, 100 m position target: lowest rate met among 0.0025..0.1 Hz, the next lower fails); problem files take vectors: { r: [x, y, z] } with +, -, scalar *, /, norm, dot, cross, expanded into scalar definitions before compilation (the J2 file written with vectors gives the catalogue leo-j2's f and Jacobian to 1e-14 / 1e-13 relative); defineProblem takes orbit and events; the report draws radial, in-track and cross-track error over time; README: catalogue rows, choose measures and rates, results fields, a guide to reading RIC error and event timing)
 }
 
 function settingText(c: Candidate): string {
