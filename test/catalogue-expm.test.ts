@@ -1,7 +1,7 @@
 // The Pade scaling-and-squaring matrix exponential against mathjs and closed forms.
 import { describe, expect, it } from 'vitest';
 import { expm as mathExpm, matrix, type Matrix } from 'mathjs';
-import { expm, expmApply } from '../src/problems/expm.js';
+import { expm, expmApply } from '../src/core/expm.js';
 import { expmTrajectory } from '../src/problems/expm-trajectory.js';
 import { augmentedInitial, augmentedMatrix, AUGMENTED_DIMENSION } from '../problems/linear-oscillator-chain.js';
 

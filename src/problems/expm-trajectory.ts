@@ -13,7 +13,7 @@
 // later", SIAM Rev. 45 (2003), method 1), far below one rounding of the result. No error is
 // carried from one grid point to the next. A system whose grid would pass MAX_GRID points (a
 // large ||M|| over a long span) is evaluated directly at every time instead.
-import { expmApply, norm1 } from './expm.js';
+import { expmApply, norm1 } from '../core/expm.js';
 
 /** Bound on ||M tau||_1 within one grid interval. */
 const GRID_NORM = 0.25;

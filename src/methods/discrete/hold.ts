@@ -12,7 +12,7 @@
 // side evaluations (nfev 0), one accepted step per sample.
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
-import { expm } from '../../problems/expm.js';
+import { expm } from '../../core/expm.js';
 import { fixedSteps } from '../explicit/validate.js';
 
 type Hold = 'zero' | 'first';
