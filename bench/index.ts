@@ -182,6 +182,21 @@ async function main(): Promise<void> {
     }
   }
 
+  const dispersion = await optional<Row[]>('dispersion.js', 'runDispersionBench');
+  if (dispersion) {
+    const rows = await dispersion();
+    out.dispersion = rows;
+    show(table('dispersion: 100,000 runs whole and in 8 shards, then merged', rows, Object.keys(rows[0] ?? {})));
+    const whole = rows[0]!;
+    const merge = rows.at(-1)!;
+    const targets: Row[] = [
+      { target: `${whole.runs}-run dispersion sweep: peak resident memory, process tree, MB`, measured: whole.peakTreeRssMB, limit: 500, met: Number(whole.peakTreeRssMB) < 500 },
+      { target: 'merge of 8 shards of 12,500 runs: wall seconds', measured: merge.seconds, limit: 60, met: Number(merge.seconds) < 60 },
+    ];
+    (out.targets as Row[]).push(...targets);
+    show(table('dispersion targets', targets, ['target', 'measured', 'limit', 'met']));
+  }
+
   const env = machine(loadStart);
   show(`machine: ${env.cpu}, ${env.cores} cores, node ${env.node}, ${env.date}, load average ${env.loadAverageStart.map((v) => v.toFixed(2)).join(' ')} (start) / ${env.loadAverageEnd.map((v) => v.toFixed(2)).join(' ')} (end)`);
   const doc = { format: 'stepgauge-bench', version: 1, machine: env, ...out };

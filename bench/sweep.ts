@@ -62,7 +62,7 @@ export interface SweepBenchRow {
 }
 
 /** Resident kilobytes of pid and every descendant, from /proc (0 for processes already gone). */
-function treeRssKB(root: number): number {
+export function treeRssKB(root: number): number {
   const parent = new Map<number, number>();
   const rss = new Map<number, number>();
   for (const entry of readdirSync('/proc')) {
