@@ -1,7 +1,7 @@
 // Dispersions: reproducible draws with the stated distributions, a two-body closed form from any
 // bound state, samples as ordinary problems, distributions over samples, and a sharded dispersion
 // sweep (index from the batch engine's variable) that merges into the unsharded one run for run.
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -248,4 +248,25 @@ describe('choose over a dispersion', () => {
     expect(meeting / samples.length).toBeGreaterThanOrEqual(0.95);
     expect(rec.failing.length).toBe(samples.length - meeting);
   }, 300_000);
+});
+
+describe('the report of a dispersion', () => {
+  it('collapses the samples into one section of 95th-percentile errors against mean work', async () => {
+    const dir = freshDir();
+    const file = writeDispersion(dir, 'orbit.yaml', 'base: kepler-eccentric\ndispersion:\n  samples: 40\n  seed: 8\n  initial:\n    vy: { normal: 0.005 }\n');
+    const r = await runCli(['run', '-p', file, '-m', 'rk4', '-s', '1000,2000', '--no-timing', '-q', '-o', join(dir, 'out')]);
+    expect(r.code, r.stderr).toBe(0);
+    const results = JSON.parse(readFileSync(join(dir, 'out', 'results.json'), 'utf8')) as ResultsFile;
+    const { withDispersionsCollapsed } = await import('../src/report/dispersion-view.js');
+    const view = withDispersionsCollapsed(results);
+    expect(view.problems.map((p) => p.id)).toEqual(['kepler-eccentric-dispersion']);
+    expect(view.runs).toHaveLength(2);
+    for (const run of view.runs) {
+      const steps = (run.setting as { steps: number }).steps;
+      const errors = results.runs.filter((x) => (x.setting as { steps: number }).steps === steps).map((x) => x.error.final!).sort((a, b) => a - b);
+      expect(run.error.final).toBe(errors[37]); // ceil(0.95 * 40) = 38th smallest
+    }
+    const plots = readdirSync(join(dir, 'out', 'plots'));
+    expect(plots.every((p) => p.startsWith('kepler-eccentric-dispersion-'))).toBe(true);
+  }, 120_000);
 });

@@ -6,6 +6,7 @@ import type { ResultsFile } from '../results/contract.js';
 import { renderHtml } from './html.js';
 import { renderMarkdown } from './markdown.js';
 import { buildModel } from './model.js';
+import { withDispersionsCollapsed } from './dispersion-view.js';
 import { plotContext, renderAllPlots } from './plots/index.js';
 
 export const DEFAULT_REPORT_TITLE = 'stepgauge report';
@@ -14,7 +15,8 @@ export const DEFAULT_REPORT_TITLE = 'stepgauge report';
  * Writes plots/*.png, report.html and report.md into outDir. Returns the written files as paths
  * relative to outDir, because the caller renames the folder afterwards.
  */
-export async function writeReport(results: ResultsFile, outDir: string, options: { title?: string } = {}): Promise<{ files: string[] }> {
+export async function writeReport(full: ResultsFile, outDir: string, options: { title?: string } = {}): Promise<{ files: string[] }> {
+  const results = withDispersionsCollapsed(full);
   const ctx = plotContext(results);
   const plots = renderAllPlots(results, ctx);
   const model = buildModel(ctx, plots, options.title ?? DEFAULT_REPORT_TITLE);
