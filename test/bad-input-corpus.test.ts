@@ -9,7 +9,9 @@ import fs from 'node:fs';
 import fsp from 'node:fs/promises';
 import { syncBuiltinESMExports } from 'node:module';
 import { tmpdir } from 'node:os';
-import { spawn } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { hostname } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runCli, type CliResult } from './helpers/cli.js';
@@ -464,5 +466,101 @@ describe('exit codes through the launcher: a closed stdout, an exit from a timer
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatch(/^stepgauge: user code called process\.exit\(0\); .*from a timer or callback outside any run; the command stopped without writing results/);
     expect(existsSync(out)).toBe(false);
+  });
+});
+
+describe('resume and locks: a changed input is refused, one sweep per folder', () => {
+  /** A finished sweep of a copied problem file and method module, turned back into an interrupted one: its journal holds the first run only. */
+  async function interruptedSweep(withModule = false): Promise<{ dir: string; out: string; problem: string; method: string }> {
+    const dir = freshDir();
+    const problem = join(dir, 'decay.yaml');
+    const method = join(dir, 'method.ts');
+    writeFileSync(problem, 'id: decay\ntitle: Decay\nstates: [x]\nequations: { x: -x }\ninitial: { x: 1 }\nspan: [0, 1]\nreference: { exact: { x: exp(-t) } }\n');
+    copyFileSync('test/fixtures/exits/copied-rk4.ts', method);
+    const out = join(dir, 'out');
+    // A module costs seconds to load (esbuild), so only the tests that need one use it.
+    const r = await runCli(['run', '-p', `${problem},harmonic-oscillator`, '-m', withModule ? method : 'rk4', '-s', '10,20', '--no-timing', '-q', '--no-report', '--out', out]);
+    expect(r.code, r.stderr).toBe(0);
+    const results = JSON.parse(readFileSync(join(out, 'results.json'), 'utf8')) as { request: Record<string, unknown>; plan: { sha256: string }; runs: unknown[] };
+    const header = { kind: 'stepgauge-journal', version: 1, planSha256: results.plan.sha256, request: results.request };
+    writeFileSync(join(dir, '.out.journal.jsonl'), `${JSON.stringify(header)}\n${JSON.stringify(results.runs[0])}\n`);
+    return { dir, out, problem, method };
+  }
+  it('the recorded inputs: stepgauge version and the SHA-256 of each file', async () => {
+    const s = await interruptedSweep(true);
+    const header = JSON.parse(readFileSync(join(s.dir, '.out.journal.jsonl'), 'utf8').split('\n')[0]!) as { request: { inputs: { stepgauge: string; files: Record<string, string> } } };
+    // SHA-256 of the file bytes as node:crypto computes it (FIPS 180-4).
+    const sha = (p: string) => createHash('sha256').update(readFileSync(p)).digest('hex');
+    expect(header.request.inputs.files).toEqual({ [s.problem]: sha(s.problem), [s.method]: sha(s.method) });
+    expect(header.request.inputs.stepgauge).toBe(JSON.parse(readFileSync('package.json', 'utf8')).version);
+    // Unchanged: the resume finishes (exit 0) with every planned run.
+    const r = await runCli(['run', '--resume', s.out, '-q', '--no-report']);
+    expect(r.code, r.stderr).toBe(0);
+  });
+  it.each([
+    ['the problem file', (s: { problem: string }) => writeFileSync(s.problem, readFileSync(s.problem, 'utf8').replace('x: -x', 'x: -2 * x')), 'decay.yaml (SHA-256'],
+    ['the method module', (s: { method: string }) => writeFileSync(s.method, `${readFileSync(s.method, 'utf8')}\n// edited\n`), 'method.ts (SHA-256'],
+  ] as const)('--resume after %s changed: exit 2 naming it, nothing written', async (what, change, names) => {
+    const s = await interruptedSweep(what === 'the method module');
+    change(s);
+    const before = readFileSync(join(s.out, 'results.json'), 'utf8');
+    const r = await runCli(['run', '--resume', s.out, '-q', '--no-report']);
+    expectRefused(r, undefined, join(s.dir, '.out.journal.jsonl'), /cannot resume: changed since the sweep started: .*; run the sweep again/);
+    expect(r.stderr).toContain(names);
+    expect(readFileSync(join(s.out, 'results.json'), 'utf8')).toBe(before);
+    expect(readdirSync(s.dir).sort()).toEqual(['.out.journal.jsonl', 'decay.yaml', 'method.ts', 'out']);
+  });
+  it('--resume of a journal that recorded no input hashes (an older stepgauge): exit 2, says why', async () => {
+    const s = await interruptedSweep();
+    const path = join(s.dir, '.out.journal.jsonl');
+    const [head, ...rest] = readFileSync(path, 'utf8').split('\n');
+    const header = JSON.parse(head!) as { request: Record<string, unknown> };
+    delete header.request.inputs;
+    writeFileSync(path, [JSON.stringify(header), ...rest].join('\n'));
+    const r = await runCli(['run', '--resume', s.out, '-q', '--no-report']);
+    expectRefused(r, undefined, path, /did not record the hashes of its inputs/);
+  });
+  it('--resume after a problem\'s definition changed under the same file hashes (plan changed): exit 2', async () => {
+    const s = await interruptedSweep();
+    const path = join(s.dir, '.out.journal.jsonl');
+    const lines = readFileSync(path, 'utf8').split('\n');
+    const header = JSON.parse(lines[0]!) as { planSha256: string };
+    header.planSha256 = '0'.repeat(64);
+    writeFileSync(path, [JSON.stringify(header), ...lines.slice(1)].join('\n'));
+    const r = await runCli(['run', '--resume', s.out, '-q', '--no-report']);
+    expectRefused(r, undefined, path, /the sweep's plan changed since it started/);
+  });
+  it('a folder locked by a live process is refused (exit 2 naming it and the pid); the lock stays', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    const lock = join(dir, '.out.lock');
+    // This process is alive; the lock says it is writing the folder.
+    writeFileSync(lock, JSON.stringify({ pid: process.pid, host: hostname(), startedAt: '2026-01-01T00:00:00Z' }));
+    const r = await runCli(['run', '-p', 'harmonic-oscillator', '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report', '--out', out]);
+    expectRefused(r, undefined, `--out ${out}`, new RegExp(`another stepgauge sweep \\(pid ${process.pid}, started .*\\) is writing this folder`));
+    expect(readdirSync(dir)).toEqual(['.out.lock']);
+  });
+  it('a lock left by a dead process is taken over, and released after the sweep', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    const dead = spawnSync(process.execPath, ['-e', '0']).pid!; // a process that has ended
+    writeFileSync(join(dir, '.out.lock'), JSON.stringify({ pid: dead, host: hostname(), startedAt: '2026-01-01T00:00:00Z' }));
+    const r = await runCli(['run', '-p', 'harmonic-oscillator', '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report', '--out', out]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(readdirSync(dir)).toEqual(['out']);
+  });
+  it('two real sweeps into one folder: the second is refused while the first runs, the first completes', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    const bin = join(import.meta.dirname, '..', 'bin', 'stepgauge.js');
+    const first = spawn(process.execPath, [bin, 'run', '-p', 'van-der-pol,harmonic-oscillator', '-m', 'rk4,dormand-prince-54', '-t', '1e-3..1e-8', '--jobs', '1', '--no-timing', '-q', '--no-report', '--out', out], { stdio: 'ignore' });
+    const ended = new Promise<number | null>((done) => first.on('close', done));
+    while (!existsSync(join(dir, '.out.lock'))) await new Promise((w) => setTimeout(w, 20));
+    const second = await runCli(['run', '-p', 'harmonic-oscillator', '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report', '--out', out]);
+    expectRefused(second, undefined, `--out ${out}`, new RegExp(`another stepgauge sweep \\(pid ${first.pid}, `));
+    expect(await ended).toBe(0);
+    const results = JSON.parse(readFileSync(join(out, 'results.json'), 'utf8')) as { runs: unknown[]; plan: { runs: number } };
+    expect(results.runs).toHaveLength(results.plan.runs);
+    expect(readdirSync(dir)).toEqual(['out']);
   });
 });

@@ -9,6 +9,7 @@ import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 import { resolve as resolvePath } from 'node:path';
 import { executeRun, type SweepOptions } from './execute.js';
 import { failedRun } from '../measure/run-one.js';
+import type { SweepInputs } from './inputs.js';
 import { messageOf } from '../core/errors.js';
 import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
@@ -109,6 +110,8 @@ export async function assembleResults(input: AssembleInput): Promise<ResultsFile
 }
 
 export interface SweepRequest {
+  /** The version and file hashes the sweep started from, recorded for `run --resume` (sweep/inputs.ts). */
+  inputs?: SweepInputs;
   /** Comma list of problem ids or files (undefined: the catalogue). */
   problem?: string;
   /** Comma list of method ids or module files (undefined: all that apply). */
@@ -240,7 +243,7 @@ function absoluteEntries(entries: ReadonlyMap<string, string>): Map<string, stri
 /** The serialisable part of a request, stored so an interrupted sweep can be resumed as asked. */
 export function sweepRequestRecord(req: SweepRequest): Record<string, unknown> {
   const rec: Record<string, unknown> = {};
-  for (const k of ['problem', 'method', 'tolerances', 'steps', 'maxSteps', 'timing', 'controller', 'runTimeoutSeconds', 'shard'] as const) {
+  for (const k of ['problem', 'method', 'tolerances', 'steps', 'maxSteps', 'timing', 'controller', 'runTimeoutSeconds', 'shard', 'inputs'] as const) {
     if (req[k] !== undefined) rec[k] = req[k];
   }
   return rec;

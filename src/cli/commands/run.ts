@@ -19,21 +19,28 @@ import type { ResultsFile, RunResult } from '../../results/contract.js';
 import type { KnownRunLine } from '../../results/json.js';
 import { InputError } from '../../core/errors.js';
 import { exitProcess } from '../../core/exit-guard.js';
-import { Journal, readJournal } from '../../sweep/journal.js';
+import { Journal, journalPath, readJournal } from '../../sweep/journal.js';
+import { takeLock } from '../../sweep/lock.js';
 import { readResultsFile } from '../../results/read.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from '../../sweep/lanes.js';
 
-/** The request and finished runs of an interrupted sweep in `dir` (journal first, then results.json). */
-function resumeState(dir: string): { request: SweepRequest; finished: ResultsFile['runs'] } {
+/**
+ * The request and finished runs of an interrupted sweep in `dir` (journal first, then
+ * results.json), with the plan fingerprint it recorded and the file it came from.
+ */
+function resumeState(dir: string): { request: ResumableRequest; finished: ResultsFile['runs']; planSha256: unknown; where: string } {
   const journal = readJournal(dir);
-  if (journal) return { request: journal.header.request as SweepRequest, finished: journal.runs };
+  if (journal) return { request: journal.header.request as ResumableRequest, finished: journal.runs, planSha256: journal.header.planSha256, where: journalPath(dir) };
   const file = join(dir, 'results.json');
   if (!existsSync(file)) throw new InputError(`no interrupted sweep here (neither a journal nor results.json)`, `--resume ${dir}`);
   const old = readResultsFile(file);
   if (!old.interrupted) throw new InputError('that sweep finished; nothing to resume', `--resume ${dir}`);
   if (!old.request) throw new InputError('results.json has no request record to resume from', file);
-  return { request: old.request as SweepRequest, finished: old.runs };
+  return { request: old.request as ResumableRequest, finished: old.runs, planSha256: (old.plan as { sha256?: unknown } | undefined)?.sha256, where: file };
 }
+
+/** A recorded request: its inputs are whatever an older or newer stepgauge wrote, checked before use. */
+type ResumableRequest = Omit<SweepRequest, 'inputs'> & { inputs?: unknown };
 
 interface RunFlags {
   problem?: string;
@@ -112,26 +119,45 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('--resume <dir>', 'finish an interrupted sweep written to <dir>, without repeating its finished runs')
     .action(async (flags: RunFlags) => {
       let req = requestFromFlags(flags);
-      let outDir = flags.out ?? defaultOutDir();
-      if (flags.resume !== undefined) {
-        const state = resumeState(flags.resume);
-        req = { ...state.request, finished: state.finished, jobs: req.jobs ?? 1 };
-        outDir = flags.resume;
-      }
-      checkWritableTarget(outDir, flags.resume !== undefined ? '--resume' : '--out');
-      // Workers go first (see the header); only a sweep that will use them starts them.
-      const laneCount = workerLaneCount(req);
-      const lanes = laneCount > 0 ? prestartLanes(laneCount) : undefined;
+      const flag = flags.resume !== undefined ? '--resume' : '--out';
+      const outDir = flags.resume ?? flags.out ?? defaultOutDir();
+      checkWritableTarget(outDir, flag);
+      // One sweep per folder: taken before the journal is read or written, released however the
+      // command ends (a killed one leaves it to be taken over).
+      const lock = takeLock(outDir, `${flag} ${outDir}`);
       try {
-        await sweepAndWrite(req, flags, outDir, setExit, lanes);
+        const { sweepInputs, assertSameInputs, assertSamePlan } = await import('../../sweep/inputs.js');
+        let checkPlan: ((sha256: string) => void) | undefined;
+        if (flags.resume !== undefined) {
+          const state = resumeState(flags.resume);
+          const now = sweepInputs(state.request);
+          assertSameInputs(state.request.inputs, now, state.where);
+          req = { ...state.request, finished: state.finished, jobs: req.jobs ?? 1, inputs: now };
+          checkPlan = (sha256) => assertSamePlan(state.planSha256, sha256, state.where);
+        } else req.inputs = sweepInputs(req);
+        // Workers go first (see the header); only a sweep that will use them starts them.
+        const laneCount = workerLaneCount(req);
+        const lanes = laneCount > 0 ? prestartLanes(laneCount) : undefined;
+        try {
+          await sweepAndWrite(req, flags, outDir, setExit, lanes, checkPlan);
+        } finally {
+          await lanes?.release();
+        }
       } finally {
-        await lanes?.release();
+        lock.release();
       }
     });
 };
 
 /** The sweep itself: progress, journal, Ctrl-C handling, the output folder and the summary. */
-async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string, setExit: (code: number) => void, lanes: PrestartedLanes | undefined): Promise<void> {
+async function sweepAndWrite(
+  req: SweepRequest,
+  flags: RunFlags,
+  outDir: string,
+  setExit: (code: number) => void,
+  lanes: PrestartedLanes | undefined,
+  checkPlan?: (sha256: string) => void,
+): Promise<void> {
   const { runSweep, sweepRequestRecord } = await import('../../sweep/run.js');
   const { progressLine } = await import('../progress.js');
   const { summaryText } = await import('../summary.js');
@@ -141,6 +167,7 @@ async function sweepAndWrite(req: SweepRequest, flags: RunFlags, outDir: string,
   let progress: ProgressLine = { update() {}, stop() {} };
   let journal: Journal | undefined;
   req.onPlan = (plan, selected) => {
+    checkPlan?.(plan.sha256);
     // Pairs the user asked for by name deserve a reason; default pairings left out are expected.
     if (req.method !== undefined) for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
     else if (plan.skipped.length > 0 && !flags.quiet) {
