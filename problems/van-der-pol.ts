@@ -46,6 +46,7 @@ export const vanDerPol: Problem = {
     kind: 'certified',
     digits: 11,
     source: 'odex at rtol = atol = 1e-14 and RK4 (1000, 2000 steps per unit) with Richardson extrapolation',
+    certifiedBy: { methods: ['odex', 'rk4'] },
     points: POINTS,
   },
   checkTimes: [5, 10, 15],

@@ -9,7 +9,7 @@ import type { Choice } from '../src/sweep/choose.js';
 
 describe('choose on kepler-eccentric, target 1e-8', () => {
   it('recommends a confirmed method and finds rk4\'s fewest equal steps', async () => {
-    const r = await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-8', '-m', 'dormand-prince-853,dormand-prince-54,rk4,euler', '--cost', 'nfev', '--json']);
+    const r = await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-8', '-m', 'dormand-prince-853,dormand-prince-54,rk4,euler', '--cost', 'nfev', '--safety', '1', '--json']);
     expect(r.code, r.stderr).toBe(0);
     const choice = JSON.parse(r.stdout) as Choice;
     const rec = choice.recommended!;
@@ -30,7 +30,7 @@ describe('choose on kepler-eccentric, target 1e-8', () => {
     // Euler (order 1) cannot reach 1e-8 within the step limit: reported, not recommended.
     const euler = choice.candidates.find((c) => c.method === 'euler')!;
     expect(euler.met).toBe(false);
-    expect(euler.note).toMatch(/not reached/);
+    expect(euler.note).toMatch(/step limit: the largest step count allowed \(--max-steps 100000\)/);
   });
 
   it('rejects a missing or non-positive target with exit 2', async () => {
@@ -45,7 +45,7 @@ describe('choose for a target that needs a tolerance near round-off', () => {
   // needs rtol below 1e-13 with dormand-prince-853 (round-off grows with the step count), so the
   // search has to go past 1e-13; its grid ends at 1e-15, about 4.5 times the unit round-off.
   it('finds dormand-prince-853 below rtol 1e-13 and confirms it against the exact orbit', async () => {
-    const r = await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-10', '-m', 'dormand-prince-853', '--cost', 'nfev', '--max-steps', '1000000', '--json']);
+    const r = await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-10', '-m', 'dormand-prince-853', '--cost', 'nfev', '--safety', '1', '--max-steps', '1000000', '--json']);
     expect(r.code, r.stderr).toBe(0);
     const choice = JSON.parse(r.stdout) as Choice;
     const dp853 = choice.candidates[0]!;

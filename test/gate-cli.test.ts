@@ -56,7 +56,7 @@ describe('stepgauge baseline', () => {
     expect(r.out).toContain('3 runs over 2 problems');
     const text = readFileSync(p('base.json'), 'utf8');
     const b = JSON.parse(text);
-    expect(Object.keys(b)).toEqual(['format', 'version', 'source', 'problems', 'runs']);
+    expect(Object.keys(b)).toEqual(['format', 'version', 'source', 'problems', 'configuration', 'runs']);
     expect(Object.keys(b.runs[0])).toEqual(['problem', 'method', 'setting', 'status', 'error', 'drift', 'counts']);
     expect(b.runs.map((x: { method: string }) => x.method)).toEqual(['synthetic-fixed', 'synthetic-rk', 'synthetic-implicit']);
     expect(text).not.toContain('yFinal');

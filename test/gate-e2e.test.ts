@@ -48,12 +48,12 @@ describe('shards', () => {
     const dir = tmp();
     const args = ['run', '-p', 'harmonic-oscillator,van-der-pol,robertson', '-m', 'rk4,dormand-prince-54,radau-iia-5,bdf-variable', '-t', '1e-4..1e-7', '-s', '100,200', '--no-timing', '--no-report', '-q', '--jobs', '1'];
     const whole = join(dir, 'whole');
-    // Exit 3: rk4 with 100 equal steps over Robertson's 1e11 span fails, and that failure is a result too.
-    expect((await runCli([...args, '--out', whole])).code).toBe(3);
+    // Exit 0: rk4 with 100 equal steps over Robertson's 1e11 span fails, and that failure is a result.
+    expect((await runCli([...args, '--out', whole])).code).toBe(0);
     const parts: string[] = [];
     for (const k of [1, 2, 3]) {
       const out = join(dir, `shard-${k}`);
-      expect([0, 3]).toContain((await runCli([...args, '--shard', `${k}/3`, '--out', out])).code);
+      expect((await runCli([...args, '--shard', `${k}/3`, '--out', out])).code).toBe(0);
       parts.push(join(out, 'results.json'));
     }
     const sizes = parts.map((p) => read(p).runs.length);

@@ -133,7 +133,14 @@ describe('summary', () => {
         expect(l.byNfev?.run.counts.nfev ?? Infinity).toBe(min);
       }
     }
-    expect(s.levels).toEqual([1e-3, 1e-6, 1e-9]);
+    // Each problem's tightest level is the decade just above its smallest ok error (so some run
+    // reaches it), its loosest the decade at or below its largest.
+    for (const b of s.best) {
+      const errors = results.runs.filter((r) => r.problem === b.problem && r.status === 'ok' && r.error.final !== null && r.error.final > 0).map((r) => r.error.final!);
+      const levels = b.levels.map((l) => l.level);
+      expect(Math.min(...levels)).toBe(Number(`1e${Math.ceil(Math.log10(Math.min(...errors)))}`));
+      expect(Math.max(...levels)).toBe(Number(`1e${Math.floor(Math.log10(Math.max(...errors)))}`));
+    }
   });
 });
 

@@ -1,13 +1,16 @@
 // CLI entry: builds the command tree and maps failures to exit codes (src/cli/exit-codes.ts:
 // 0 success, 1 a check found regressions or nothing met a target, 2 bad input, 3 a sweep
-// completed with failed runs, 70 internal error, 74 an I/O failure, 130 interrupted).
+// completed with failed runs and --fail-on-failed-runs was given, 70 internal error, 74 an I/O
+// failure, 130 interrupted).
 import { Command, CommanderError } from 'commander';
 import { ExitCalledError, exitProcess, guardProcessExit } from '../core/exit-guard.js';
 import { EXIT, failureOutcome } from './exit-codes.js';
 import { commands } from './commands/index.js';
 import { packageVersion } from '../core/version.js';
+import { setCommandLine } from './command-line.js';
 
 export async function main(argv: string[]): Promise<number> {
+  setCommandLine(argv);
   const program = new Command('stepgauge')
     .description('Measure, compare and gate ODE integrators on problems with known solutions.')
     .version(packageVersion())

@@ -9,32 +9,34 @@ function positiveNumber(text: string, flag: string): number {
   return v;
 }
 
+/** The forms -t accepts, said with every error in it. */
+export const TOLERANCE_FORMS = 'a list like 1e-4,1e-8 or a range like 1e-3..1e-12 (one per decade, either direction)';
+
 /** "1e-4,1e-8" (a list) or "1e-3..1e-12" (one per decade, either direction). */
-export function parseTolerances(text: string): number[] {
-  const flag = '--tolerances';
+export function parseTolerances(text: string, flag = '--tolerances'): number[] {
+  const fail = (what: string): never => {
+    throw new InputError(`${what}; expected ${TOLERANCE_FORMS}`, flag);
+  };
+  const value = (part: string): number => {
+    const v = Number(part);
+    if (part.trim() === '' || !Number.isFinite(v)) fail(`'${part.trim()}'${part.trim() === text.trim() ? '' : ` in '${text}'`} is not a number`);
+    if (v <= 0) fail(`'${part.trim()}' must be positive`);
+    if (v >= 1) fail(`tolerance ${v} must be below 1`);
+    if (v < 1e-16) fail(`tolerance ${v} is below double precision (1e-16)`);
+    return v;
+  };
   const trimmed = text.trim();
-  if (trimmed === '') throw new InputError('expected a list like 1e-4,1e-8 or a range like 1e-3..1e-12', flag);
+  if (trimmed === '') fail('no tolerance given');
   if (trimmed.includes('..')) {
     const parts = trimmed.split('..');
-    if (parts.length !== 2) throw new InputError(`'${text}' is not a range like 1e-3..1e-12`, flag);
-    const a = positiveNumber(parts[0]!, flag);
-    const b = positiveNumber(parts[1]!, flag);
-    checkTolerance(a, flag);
-    checkTolerance(b, flag);
-    return decades(a, b);
+    if (parts.length !== 2) fail(`'${text}' is not a range`);
+    return decades(value(parts[0]!), value(parts[1]!));
   }
   const values = trimmed.split(',').map((p) => {
-    if (p.trim() === '') throw new InputError(`empty entry in '${text}'; expected a list like 1e-4,1e-8`, flag);
-    const v = positiveNumber(p, flag);
-    checkTolerance(v, flag);
-    return v;
+    if (p.trim() === '') fail(`empty entry in '${text}'`);
+    return value(p);
   });
   return [...new Set(values)];
-}
-
-function checkTolerance(v: number, flag: string): void {
-  if (v >= 1) throw new InputError(`tolerance ${v} must be below 1`, flag);
-  if (v < 1e-16) throw new InputError(`tolerance ${v} is below double precision (1e-16)`, flag);
 }
 
 /** A comma list of positive whole step counts. */
@@ -47,6 +49,18 @@ export function parseSteps(text: string): number[] {
     return v;
   });
   return [...new Set(values)];
+}
+
+/** --atol: one positive value for every state, or a comma list with one per state. */
+export function parseAtol(text: string): number | number[] {
+  const parts = text.split(',');
+  const values = parts.map((p) => positiveNumber(p, '--atol'));
+  return values.length === 1 ? values[0]! : values;
+}
+
+/** --summary-levels: a comma list of positive error levels. */
+export function parseLevels(text: string): number[] {
+  return [...new Set(text.split(',').map((p) => positiveNumber(p, '--summary-levels')))];
 }
 
 export function parsePositiveInt(text: string, flag: string): number {

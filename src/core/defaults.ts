@@ -13,3 +13,6 @@ export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 0.1, minSamples: 3
 
 /** Step limit per run (accepted + rejected steps). */
 export const DEFAULT_MAX_STEPS = 100_000;
+
+/** `choose`: candidates must reach target / safety (why 2: see SAFETY_NOTE in src/cli/decision-record.ts). */
+export const DEFAULT_SAFETY = 2;

@@ -70,6 +70,8 @@ export interface Reference {
   readonly exact?: (t: number, out: Float64Array) => void;
   /** Reference states at given times (published tables, certified runs). Sorted by t. */
   readonly points?: readonly ReferencePoint[];
+  /** For a certified reference: the methods whose agreement made it, and their tolerance. */
+  readonly certifiedBy?: { readonly methods: readonly string[]; readonly rtol?: number };
   /** Why no reference could be had (a certification that failed): every run says so. */
   readonly unavailable?: string;
   /** Reference times of each event (by event name), sorted; analytic where the problem has them. */
@@ -239,6 +241,11 @@ export interface Method {
    */
   readonly stepGrowth?: number;
   readonly notes?: string;
+  /**
+   * For a method that maps the requested tolerance internally (as RADAU5 does): the rtol it
+   * actually controls to; atol is scaled by the same ratio. Recorded with every run.
+   */
+  readonly effectiveRtol?: (rtol: number) => number;
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult;
 }
 

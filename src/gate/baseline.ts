@@ -8,6 +8,7 @@ import { InputError } from '../core/errors.js';
 import { runKey, type ResultsFile, type RunResult, type RunSetting } from '../results/contract.js';
 import type { Counts, Status } from '../core/types.js';
 import { Validator } from '../results/validate.js';
+import { resultsConfiguration, type Configuration } from './configuration.js';
 
 export const BASELINE_FORMAT = 'stepgauge-baseline';
 export const BASELINE_VERSION = 1;
@@ -38,6 +39,8 @@ export interface Baseline {
   /** Kept only with --keep-time. */
   calibrationSeconds?: number;
   problems: { id: string; sha256: string }[];
+  /** What the numbers depend on besides the code under test (absent in older baselines). */
+  configuration?: Configuration;
   runs: BaselineRun[];
 }
 
@@ -49,6 +52,7 @@ export function makeBaseline(results: ResultsFile, options: { keepTime?: boolean
   const b: Baseline = { format: BASELINE_FORMAT, version: BASELINE_VERSION, source, problems: [], runs: [] };
   if (options.keepTime && calibration !== undefined) b.calibrationSeconds = calibration;
   b.problems = results.problems.map((p) => ({ id: p.id, sha256: p.sha256 }));
+  b.configuration = resultsConfiguration(results);
   b.runs = results.runs.map((r) => baselineRun(r, options.keepTime ? calibration : undefined, options.keepTime ?? false));
   return normalizeBaseline(b);
 }
@@ -79,11 +83,23 @@ export function normalizeBaseline(b: Baseline): Baseline {
   const out: Baseline = { format: BASELINE_FORMAT, version: BASELINE_VERSION, source, problems: [], runs: [] };
   if (b.calibrationSeconds !== undefined) out.calibrationSeconds = b.calibrationSeconds;
   out.problems = b.problems.map((p) => ({ id: p.id, sha256: p.sha256 })).sort((x, y) => compareText(x.id, y.id));
-  out.runs = b.runs
+  if (b.configuration) {
+    const c = b.configuration;
+    out.configuration = {
+      controller: c.controller,
+      maxSteps: c.maxSteps,
+      atol: c.atol === null ? null : Array.isArray(c.atol) ? [...c.atol] : c.atol,
+      stepgauge: c.stepgauge,
+      methods: c.methods.map((m) => ({ id: m.id, family: m.family, sha256: m.sha256 })).sort((x, y) => compareText(x.id, y.id)),
+    };
+  }
+  // Runs last (re-inserted), so the short configuration is read before the long list.
+  const runs = b.runs
     .map((r) => ({ key: runKey(r), run: normalizeRun(r) }))
     .sort((x, y) => compareText(x.key, y.key))
     .map((x) => x.run);
-  return out;
+  const { runs: _placeholder, ...head } = out;
+  return { ...head, runs };
 }
 
 function normalizeRun(r: BaselineRun): BaselineRun {
@@ -152,8 +168,24 @@ export function validateBaseline(value: unknown, where: string): Baseline {
     const p = v.object(x, `problems[${i}]`);
     return { id: v.string(p.id, `problems[${i}].id`), sha256: v.string(p.sha256, `problems[${i}].sha256`) };
   });
+  if (root.configuration !== undefined) b.configuration = validateConfiguration(v, root.configuration);
   b.runs = v.array(root.runs, 'runs').map((x, i) => validateRun(v, x, `runs[${i}]`));
   return b;
+}
+
+function validateConfiguration(v: Validator, value: unknown): Configuration {
+  const c = v.object(value, 'configuration');
+  const atol = c.atol === null ? null : Array.isArray(c.atol) ? c.atol.map((a, i) => v.number(a, `configuration.atol[${i}]`)) : v.number(c.atol, 'configuration.atol');
+  return {
+    controller: v.string(c.controller, 'configuration.controller'),
+    maxSteps: c.maxSteps === null ? null : v.integer(c.maxSteps, 'configuration.maxSteps', 1),
+    atol,
+    stepgauge: v.string(c.stepgauge, 'configuration.stepgauge'),
+    methods: v.array(c.methods, 'configuration.methods').map((x, i) => {
+      const m = v.object(x, `configuration.methods[${i}]`);
+      return { id: v.string(m.id, `configuration.methods[${i}].id`), family: v.string(m.family, `configuration.methods[${i}].family`), sha256: m.sha256 === null ? null : v.string(m.sha256, `configuration.methods[${i}].sha256`) };
+    }),
+  };
 }
 
 function validateRun(v: Validator, x: unknown, at: string): BaselineRun {

@@ -15,6 +15,7 @@
 // - time, only when asked: each run's time as a multiple of the calibration workload timed in
 //   the same process, so a uniformly slower machine compares equal.
 // - A baseline run absent now is a regression unless allowMissing; new runs are listed only.
+import { diffConfigurations, resultsConfiguration, type Configuration } from './configuration.js';
 import { InputError } from '../core/errors.js';
 import { runKey, type ResultsFile, type RunSetting } from '../results/contract.js';
 import type { Counts } from '../core/types.js';
@@ -75,7 +76,8 @@ export interface RunComparison {
   problem: string;
   method: string;
   setting: RunSetting;
-  state: 'compared' | 'missing' | 'new';
+  /** not-comparable: in both, but the configurations differ in a way that touches this run. */
+  state: 'compared' | 'missing' | 'new' | 'not-comparable';
   regressions: Finding[];
   improvements: Finding[];
   notes: string[];
@@ -84,7 +86,9 @@ export interface RunComparison {
 export interface Comparison {
   ok: boolean;
   options: ResolvedOptions;
-  summary: { baselineRuns: number; currentRuns: number; compared: number; missing: number; added: number; regressions: number; improvements: number };
+  summary: { baselineRuns: number; currentRuns: number; compared: number; missing: number; added: number; regressions: number; improvements: number; notComparable: number };
+  /** How the configurations differ (controller, step limit, --atol, version, method code); empty when they agree. */
+  configuration: string[];
   /** Baseline runs and new runs: by problem, method, then loose to tight setting. */
   runs: RunComparison[];
   regressions: Finding[];
@@ -106,6 +110,10 @@ function toGateSet(x: Baseline | ResultsFile, label: string): GateSet {
     return { runs: x.runs, problems: x.problems, calibrationSeconds: x.environment.calibrationSeconds, interrupted: x.interrupted === true, label };
   }
   return { runs: x.runs, problems: x.problems, calibrationSeconds: x.calibrationSeconds, interrupted: false, label };
+}
+
+function configurationOf(x: Baseline | ResultsFile): Configuration | null {
+  return 'environment' in x ? resultsConfiguration(x) : (x.configuration ?? null);
 }
 
 export function resolveOptions(o: CompareOptions = {}): ResolvedOptions {
@@ -154,9 +162,17 @@ export function compareResults(baseline: Baseline | ResultsFile, current: Baseli
     }
   }
 
+  const config = diffConfigurations(configurationOf(baseline), configurationOf(current));
   const runs: RunComparison[] = [];
   for (const [key, b] of baseRuns) {
     const c = curRuns.get(key);
+    const unlike = c ? config.comparable(b, c) : null;
+    if (c && unlike) {
+      const rc = emptyRun(key, b, 'not-comparable');
+      rc.notes.push(`not compared: ${unlike}`);
+      runs.push(rc);
+      continue;
+    }
     const rc = emptyRun(key, b, c ? 'compared' : 'missing');
     if (!c) {
       if (opt.allowMissing) {
@@ -181,8 +197,11 @@ export function compareResults(baseline: Baseline | ResultsFile, current: Baseli
   if (opt.allowMissing && missingAllowed > 0) warnings.push(`${missingAllowed} baseline run(s) missing from ${cur.label} (allowed)`);
   const regressions = runs.flatMap((r) => r.regressions);
   const improvements = runs.flatMap((r) => r.improvements);
+  const notComparable = runs.filter((r) => r.state === 'not-comparable').length;
+  // Runs the gate could not check like for like fail it, as missing runs do, unless allowed.
   return {
-    ok: regressions.length === 0,
+    configuration: config.differences,
+    ok: regressions.length === 0 && (notComparable === 0 || opt.allowMissing),
     options: opt,
     summary: {
       baselineRuns: baseRuns.size,
@@ -192,6 +211,7 @@ export function compareResults(baseline: Baseline | ResultsFile, current: Baseli
       added: runs.filter((r) => r.state === 'new').length,
       regressions: regressions.length,
       improvements: improvements.length,
+      notComparable,
     },
     runs,
     regressions,

@@ -30,7 +30,7 @@ export function junitXml(c: Comparison, options: { suiteName?: string; timestamp
     byProblem.set(r.problem, list);
   }
   const failures = (rs: RunComparison[]) => rs.filter((r) => r.regressions.length > 0).length;
-  const skipped = (rs: RunComparison[]) => rs.filter((r) => r.state === 'missing' && r.regressions.length === 0).length;
+  const skipped = (rs: RunComparison[]) => rs.filter((r) => (r.state === 'missing' || r.state === 'not-comparable') && r.regressions.length === 0).length;
   const lines: string[] = ['<?xml version="1.0" encoding="UTF-8"?>'];
   lines.push(
     `<testsuites name="${xmlAttr(name)}" tests="${c.runs.length}" failures="${failures(c.runs)}" errors="0" skipped="${skipped(c.runs)}" time="0">`,
@@ -50,7 +50,7 @@ export function junitXml(c: Comparison, options: { suiteName?: string; timestamp
         const detail = [f.text, `run: ${r.key}`, `old: ${String(f.old)}`, `new: ${String(f.new)}`, `factor: ${f.factor === null ? 'n/a' : String(f.factor)}`, `limit: ${f.limit}`].join('\n');
         body.push(`      <failure message="${xmlAttr(f.text)}" type="${xmlAttr(f.kind)}">${xmlText(detail)}</failure>`);
       }
-      if (r.state === 'missing' && r.regressions.length === 0) body.push(`      <skipped message="${xmlAttr(r.notes.join('; '))}"/>`);
+      if ((r.state === 'missing' || r.state === 'not-comparable') && r.regressions.length === 0) body.push(`      <skipped message="${xmlAttr(r.notes.join('; '))}"/>`);
       const notes = [...r.improvements.map((f) => `improved: ${f.text}`), ...r.notes];
       if (notes.length > 0) body.push(`      <system-out>${xmlText(notes.join('\n'))}</system-out>`);
       lines.push(body.length === 0 ? `${open}/>` : `${open}>\n${body.join('\n')}\n    </testcase>`);

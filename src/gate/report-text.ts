@@ -33,6 +33,15 @@ export function regressionsText(c: Comparison): string {
 export function formatComparison(c: Comparison, options: { verbose?: boolean } = {}): string {
   const s = c.summary;
   const out: string[] = [];
+  // A different configuration is said first: it decides how every other line is to be read.
+  if (c.configuration.length > 0) {
+    out.push(
+      `Configuration differs from the baseline: ${c.configuration.join('; ')}. ` +
+        (s.notComparable > 0
+          ? `${s.notComparable} run(s) it touches were not compared (not like for like)${c.options.allowMissing ? '' : ' and fail the check; make a new baseline with this configuration, or pass --allow-missing'}.`
+          : 'No run it touches was compared differently.'),
+    );
+  }
   out.push(
     `Compared ${s.compared} of ${s.baselineRuns} baseline runs (${s.missing} missing, ${s.added} new): ` +
       `${s.regressions} regression(s), ${s.improvements} improvement(s).`,

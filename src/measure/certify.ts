@@ -112,10 +112,25 @@ export function withoutReference(p: Problem, why: string): Problem {
   return { ...p, reference: { kind: 'certified', points: [], unavailable: why } };
 }
 
+function certificateFile(p: Problem): string {
+  return join(cacheDir(), `certified-${sha256(p.definition)}.json`);
+}
+
+/** Whether a certificate for this exact definition is already in the cache. */
+export function certificateCached(p: Problem): boolean {
+  return existsSync(certificateFile(p));
+}
+
+/** What certifying `p` will do, in words (for the note said before it starts). */
+export function certificationPlan(p: Problem): string {
+  const [a, b] = p.stiff ? PAIRS.stiff : PAIRS.nonstiff;
+  const rtol = p.stiff ? CERTIFY_RTOL_STIFF : CERTIFY_RTOL_NONSTIFF;
+  return `${a} and ${b} at rtol ${rtol}; the digits on which they agree become its trust; cached in ${cacheDir()}`;
+}
+
 function certified(p: Problem): Problem {
-  const key = sha256(p.definition);
   const dir = cacheDir();
-  const file = join(dir, `certified-${key}.json`);
+  const file = certificateFile(p);
   let cert: Certificate | undefined;
   if (existsSync(file)) {
     try {
@@ -139,6 +154,7 @@ function certified(p: Problem): Problem {
       kind: 'certified',
       digits: cert.digits,
       points: cert.points,
+      certifiedBy: { methods: [...cert.methods], rtol: cert.rtol },
       source: `certified by stepgauge: ${cert.methods[0]} and ${cert.methods[1]} at rtol ${cert.rtol} agree to ${cert.digits} digits`,
     },
   };

@@ -56,6 +56,8 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
     yFinal: Array.from(result.yFinal),
   };
   if (result.message) run.message = result.message;
+  const effective = effectiveTolerance(method, setting);
+  if (effective) run.effectiveTolerance = effective;
   const trace = watch.trace();
   if (trace) run.trace = trace;
   const found = watch.eventsFound();
@@ -102,6 +104,16 @@ function orbitRecord(unit: string, y: Float64Array, ref: Float64Array, problem: 
 }
 
 type RunWatchLike = ReturnType<typeof watchRun>;
+
+
+/** The tolerance after the method's internal map, when it has one (see Method.effectiveRtol). */
+export function effectiveTolerance(method: Pick<Method, 'effectiveRtol'>, setting: Setting): { rtol: number; atol: number | number[] } | undefined {
+  if (!method.effectiveRtol || !isAdaptiveSetting(setting)) return undefined;
+  const rtol = method.effectiveRtol(setting.rtol);
+  if (rtol === setting.rtol) return undefined;
+  const ratio = rtol / setting.rtol;
+  return { rtol, atol: typeof setting.atol === 'number' ? setting.atol * ratio : setting.atol.map((a) => a * ratio) };
+}
 
 export function failedRun(problem: Problem, method: Method | { id: string }, setting: Setting, message: string): RunResult {
   return {

@@ -15,6 +15,7 @@ function uniformReference(r: Reference): Reference {
     source: r.source,
     exact: r.exact,
     points: r.points,
+    certifiedBy: r.certifiedBy,
     unavailable: r.unavailable,
     eventTimes: r.eventTimes,
   };

@@ -4,8 +4,8 @@ import { CAUTION_TEXT, CAUTION_TITLE } from './caution.js';
 import { escapeHtml as h } from './escape.js';
 import { integer, settingLabel, sig3 } from './format.js';
 import { decadeLabel } from './plots/axes.js';
-import type { ProblemSection, ReportModel } from './model.js';
-import type { BestAtLevel } from './summary.js';
+import { referenceIndependence, type ProblemSection, type ReportModel } from './model.js';
+import { levelsNote, type BestAtLevel } from './summary.js';
 import { COLUMNS, tableRows } from './table.js';
 
 const STYLE = `
@@ -88,26 +88,29 @@ function summaryHtml(m: ReportModel): string {
     const sh = m.results.shard;
     flags.push(`<p class="flag">This file is shard ${sh.index} of ${sh.count} of a sweep, not the whole sweep.</p>`);
   }
-  let best = '<p>No ok run reached any of the summary error levels.</p>';
+  let best = '<p>No ok run has a measured error, so there is no level to summarise.</p>';
   if (s.levels.length > 0) {
-    const head = s.levels
-      .map((l) => {
-        const level = h(decadeLabel(l) ?? sig3(l));
-        return `<th>error ≤ ${level}: fewest evaluations</th><th>error ≤ ${level}: least time</th>`;
-      })
-      .join('');
     const rows = s.best
-      .map((b) => {
+      .flatMap((b) => {
         const title = m.sections.find((x) => x.id === b.problem)?.title ?? b.problem;
-        return `<tr><td>${h(title)}</td>${b.levels.map((l) => bestCell(l.byNfev, 'nfev', m) + bestCell(l.byTime, 'time', m)).join('')}</tr>`;
+        return b.levels.map(
+          (l, i) =>
+            `<tr>${i === 0 ? `<td rowspan="${b.levels.length}">${h(title)}</td>` : ''}<td class="num">≤ ${h(decadeLabel(l.level) ?? sig3(l.level))}</td>${bestCell(l.byNfev, 'nfev', m)}${bestCell(l.byTime, 'time', m)}</tr>`,
+        );
       })
       .join('\n');
-    best = `<div class="scroll"><table><thead><tr><th>problem</th>${head}</tr></thead><tbody>${rows}</tbody></table></div>
-<p class="sub">Among runs with status ok whose final error is at or below the level; ties go to the method listed first in the results file. Time is median wall time and carries timing noise; evaluation counts are exact.</p>`;
+    best = `<div class="scroll"><table id="summary-levels"><thead><tr><th>problem</th><th class="num">final error</th><th>fewest evaluations</th><th>least time</th></tr></thead><tbody>${rows}</tbody></table></div>
+<p class="sub">${h(levelsNote(s))} Among runs with status ok whose final error is at or below the level; ties go to the method listed first in the results file. Time is median wall time and carries timing noise; evaluation counts are exact.</p>`;
   }
   return `<section id="summary"><h2>Summary</h2>${flags.join('')}
 <div class="facts"><div class="fact"><b>${s.problems}</b>problems</div><div class="fact"><b>${s.methods}</b>methods</div><div class="fact"><b>${s.runs}</b>runs</div><div class="fact"><b>${s.ok}</b>ok</div><div class="fact"><b>${s.runs - s.ok}</b>failed (${failures})</div></div>
 <h3>Cheapest method reaching each error level</h3>${best}</section>`;
+}
+
+function requestHtml(m: ReportModel): string {
+  const rows = m.request.map(([k, v]) => `<tr><th>${h(k)}</th><td>${h(v)}</td></tr>`).join('');
+  const cmd = m.commandLine ? `<pre class="mono" id="command-line">${h(m.commandLine)}</pre>` : '<p class="sub">The command line was not recorded.</p>';
+  return `<section id="request"><h2>The request</h2>${cmd}<table><tbody>${rows}</tbody></table></section>`;
 }
 
 function environmentHtml(m: ReportModel): string {
@@ -127,8 +130,11 @@ function environmentHtml(m: ReportModel): string {
 function sectionHtml(sec: ProblemSection, m: ReportModel): string {
   const ref = sec.record?.reference;
   const refLine = ref
-    ? `Reference: ${h(String(ref.kind))}${ref.digits !== undefined ? `, ${h(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${h(ref.source)}` : ''}.`
+    ? `Reference: ${h(String(ref.kind))}${ref.digits !== undefined ? `, ${h(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${h(ref.source)}` : ''}. ${h(referenceIndependence(sec.record, sec.runs.map((r) => r.method)))}`
     : 'No problem record in the results file.';
+  const def = typeof sec.record?.definition === 'string'
+    ? `<details class="definition"><summary>Definition (its SHA-256 is ${h(sec.record.sha256)})</summary><pre class="mono">${h(sec.record.definition)}</pre></details>`
+    : '';
   const figs = sec.plots
     .map((it) => {
       if ('omitted' in it) return `<p class="omitted"><b>${h(it.omitted.title)}</b><br>${h(it.omitted.note)}</p>`;
@@ -148,6 +154,7 @@ function sectionHtml(sec: ProblemSection, m: ReportModel): string {
     .join('\n');
   return `<section id="p-${h(sec.slug)}"><h2>${h(sec.title)} <code>${h(sec.id)}</code></h2>
 <p class="sub">${refLine}${sec.record ? ` ${sec.record.stiff ? 'Stiff problem.' : 'Non-stiff problem.'}` : ''} ${sec.runs.length} runs.</p>
+${def}
 ${figs}
 <h3>Runs</h3>
 <p class="sub">Click a column header to sort. Measured values to 3 significant digits, work counts exact; results.json keeps full precision.</p>
@@ -165,8 +172,9 @@ export function renderHtml(m: ReportModel): string {
 <h1>${h(m.title)}</h1>
 <p class="sub">stepgauge ${h(String(m.results.environment.stepgauge))}, results created ${h(m.results.createdAt)}. Every figure below is computed from the results file.</p>
 <div class="caution" role="note"><strong>${h(CAUTION_TITLE)}</strong>${h(CAUTION_TEXT)}</div>
-<nav><b>Problems</b><ul>${toc}</ul><a href="#environment">Environment fingerprint</a></nav>
+<nav><a href="#request">The request</a> · <b>Problems</b><ul>${toc}</ul><a href="#environment">Environment fingerprint</a></nav>
 ${summaryHtml(m)}
+${requestHtml(m)}
 ${m.sections.map((s) => sectionHtml(s, m)).join('\n')}
 ${environmentHtml(m)}
 </main>

@@ -15,11 +15,11 @@ export const DEFAULT_REPORT_TITLE = 'stepgauge report';
  * Writes plots/*.png, report.html and report.md into outDir. Returns the written files as paths
  * relative to outDir, because the caller renames the folder afterwards.
  */
-export async function writeReport(full: ResultsFile, outDir: string, options: { title?: string } = {}): Promise<{ files: string[] }> {
+export async function writeReport(full: ResultsFile, outDir: string, options: { title?: string; levels?: readonly number[] } = {}): Promise<{ files: string[] }> {
   const results = withDispersionsCollapsed(full);
   const ctx = plotContext(results);
   const plots = renderAllPlots(results, ctx);
-  const model = buildModel(ctx, plots, options.title ?? DEFAULT_REPORT_TITLE);
+  const model = buildModel(ctx, plots, options.title ?? DEFAULT_REPORT_TITLE, options.levels);
   const files: string[] = [];
   await mkdir(join(outDir, 'plots'), { recursive: true });
   for (const p of plots) {
@@ -40,7 +40,7 @@ export async function writeReport(full: ResultsFile, outDir: string, options: { 
 export { renderHtml } from './html.js';
 export { renderMarkdown } from './markdown.js';
 export { buildModel, type ReportModel } from './model.js';
-export { summarize, ERROR_LEVELS, type Summary } from './summary.js';
+export { summarize, derivedLevels, type Summary } from './summary.js';
 export { escapeHtml, escapeMarkdown } from './escape.js';
 export { CAUTION_TEXT } from './caution.js';
 export { plotContext, renderAllPlots, renderPlot, PLOT_WIDTH, PLOT_HEIGHT } from './plots/index.js';

@@ -14,7 +14,7 @@ import { assertReplaceableFolder, OUTPUT_MARKER, OUTPUT_MARKER_TEXT } from '../r
 
 
 /** Writes the report for `results` into `target` (created if missing); returns absolute paths. */
-export async function installReport(results: ResultsFile, target: string, options: { title?: string; flag?: string } = {}): Promise<string[]> {
+export async function installReport(results: ResultsFile, target: string, options: { title?: string; flag?: string; levels?: readonly number[] } = {}): Promise<string[]> {
   const flag = options.flag ?? '--out';
   try {
     return await install(results, target, options, flag);
@@ -23,7 +23,7 @@ export async function installReport(results: ResultsFile, target: string, option
   }
 }
 
-async function install(results: ResultsFile, target: string, options: { title?: string }, flag: string): Promise<string[]> {
+async function install(results: ResultsFile, target: string, options: { title?: string; levels?: readonly number[] }, flag: string): Promise<string[]> {
   assertReplaceableFolder(target, flag, false);
   const dir = resolve(target);
   await mkdir(dir, { recursive: true });

@@ -4,8 +4,8 @@ import { CAUTION_TEXT, CAUTION_TITLE } from './caution.js';
 import { escapeMarkdown as e } from './escape.js';
 import { integer, settingLabel, sig3 } from './format.js';
 import { decadeLabel } from './plots/axes.js';
-import type { ReportModel } from './model.js';
-import type { BestAtLevel } from './summary.js';
+import { referenceIndependence, type ReportModel } from './model.js';
+import { levelsNote, type BestAtLevel } from './summary.js';
 import { COLUMNS, tableRows } from './table.js';
 
 function row(cells: string[]): string {
@@ -35,27 +35,34 @@ export function renderMarkdown(m: ReportModel): string {
   const failures = s.failures.length === 0 ? 'none' : s.failures.map(([st, n]) => `${e(st)}: ${n}`).join(', ');
   out.push(`- problems: ${s.problems}`, `- methods: ${s.methods}`, `- runs: ${s.runs} (ok: ${s.ok})`, `- failed: ${s.runs - s.ok} (${failures})`, '');
   out.push('### Cheapest method reaching each error level', '');
-  if (s.levels.length === 0) out.push('No ok run reached any of the summary error levels.', '');
+  if (s.levels.length === 0) out.push('No ok run has a measured error, so there is no level to summarise.', '');
   else {
     const level = (l: number) => decadeLabel(l) ?? sig3(l);
-    const header = ['problem', ...s.levels.flatMap((l) => [`error ≤ ${level(l)}: fewest evaluations`, `error ≤ ${level(l)}: least time`])];
-    const rows = s.best.map((b) => [
-      e(m.sections.find((x) => x.id === b.problem)?.title ?? b.problem),
-      ...b.levels.flatMap((l) => [best(l.byNfev, 'nfev', m), best(l.byTime, 'time', m)]),
-    ]);
-    out.push(table(header, rows), '');
-    out.push('Among runs with status ok whose final error is at or below the level; ties go to the method listed first in the results file. Time is median wall time and carries timing noise; evaluation counts are exact.', '');
+    const header = ['problem', 'final error', 'fewest evaluations', 'least time'];
+    const rows = s.best.flatMap((b) =>
+      b.levels.map((l) => [e(m.sections.find((x) => x.id === b.problem)?.title ?? b.problem), `≤ ${level(l.level)}`, best(l.byNfev, 'nfev', m), best(l.byTime, 'time', m)]),
+    );
+    out.push(table(header, rows, [false, true, false, false]), '');
+    out.push(`${levelsNote(s)} Among runs with status ok whose final error is at or below the level; ties go to the method listed first in the results file. Time is median wall time and carries timing noise; evaluation counts are exact.`, '');
   }
+
+  out.push('## The request', '');
+  if (m.commandLine) out.push('```sh', m.commandLine, '```', '');
+  else out.push('The command line was not recorded.', '');
+  out.push(table(['setting', 'value'], m.request.map(([k, v]) => [e(k), e(v)])), '');
 
   for (const sec of m.sections) {
     out.push(`## ${e(sec.title)} (\`${sec.id.replace(/`/g, "'")}\`)`, '');
     const ref = sec.record?.reference;
     out.push(
       ref
-        ? `Reference: ${e(String(ref.kind))}${ref.digits !== undefined ? `, ${e(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${e(ref.source)}` : ''}.${sec.record!.stiff ? ' Stiff problem.' : ' Non-stiff problem.'} ${sec.runs.length} runs.`
+        ? `Reference: ${e(String(ref.kind))}${ref.digits !== undefined ? `, ${e(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${e(ref.source)}` : ''}. ${e(referenceIndependence(sec.record, sec.runs.map((r) => r.method)))}${sec.record!.stiff ? ' Stiff problem.' : ' Non-stiff problem.'} ${sec.runs.length} runs.`
         : `No problem record in the results file. ${sec.runs.length} runs.`,
       '',
     );
+    if (typeof sec.record?.definition === 'string') {
+      out.push(`Definition (SHA-256 \`${sec.record.sha256}\`):`, '', '```text', sec.record.definition.replace(/```/g, '`\u200b``'), '```', '');
+    }
     for (const it of sec.plots) {
       if ('omitted' in it) out.push(`*${e(it.omitted.title)}:* ${e(it.omitted.note)}`, '');
       else out.push(`![${e(it.drawn.spec.title)}](plots/${it.drawn.spec.file})`, '', `${e(it.drawn.spec.notes.join(' '))}`, '');

@@ -1,12 +1,25 @@
 // Summary figures computed from the runs: counts, failures by status, and the cheapest method
-// per problem that reached each of a few error levels.
+// per problem that reached each of a few error levels. The levels come from the errors each
+// problem's runs actually reached (or from the user), so a model measured in metres or in
+// micro-units gets a table as a unit-free catalogue problem does.
 import type { ResultsFile, RunResult } from '../results/contract.js';
 import type { Status } from '../core/types.js';
 import { problemOrder } from './plots/context.js';
 import { methodOrder } from './plots/palette.js';
 
-/** Error levels the summary asks about, every 3 decades; only levels some run reached are shown. */
-export const ERROR_LEVELS: readonly number[] = [1e-3, 1e-6, 1e-9, 1e-12];
+/**
+ * Error levels for one problem from the final errors its ok runs reached: the decade of the
+ * smallest error (rounded up, so some run reaches it), the decade at or below the largest, and
+ * the decade halfway between; fewer when the errors span fewer decades.
+ */
+export function derivedLevels(errors: readonly number[]): number[] {
+  const e = errors.filter((x) => Number.isFinite(x) && x > 0);
+  if (e.length === 0) return [];
+  const tight = Math.ceil(Math.log10(Math.min(...e)));
+  const loose = Math.max(tight, Math.floor(Math.log10(Math.max(...e))));
+  const picks = loose === tight ? [tight] : [loose, Math.round((loose + tight) / 2), tight];
+  return [...new Set(picks)].map((k) => Number(`1e${k}`));
+}
 
 const FAILURE_ORDER: readonly Status[] = ['diverged', 'step-underflow', 'step-limit', 'timeout', 'error'];
 
@@ -24,8 +37,12 @@ export interface Summary {
   runs: number;
   ok: number;
   failures: [Status, number][];
+  /** Every level used for some problem, loosest first. */
   levels: number[];
+  /** Per problem, its own levels (derived from its errors, or the user's). */
   best: { problem: string; levels: BestAtLevel[] }[];
+  /** True when the levels are the user's, not derived. */
+  userLevels: boolean;
 }
 
 function reaches(r: RunResult, level: number): boolean {
@@ -48,18 +65,19 @@ function argmin(runs: readonly RunResult[], key: (r: RunResult) => number | null
   return best;
 }
 
-export function summarize(results: ResultsFile): Summary {
+/** `levels`: the user's error levels (e.g. a target); without them each problem's are derived. */
+export function summarize(results: ResultsFile, levels?: readonly number[]): Summary {
   const methods = methodOrder(results);
   const rank = new Map(methods.map((m, i) => [m, i]));
   const failures = FAILURE_ORDER.map((s) => [s, results.runs.filter((r) => r.status === s).length] as [Status, number]).filter(
     ([, n]) => n > 0,
   );
-  const levels = ERROR_LEVELS.filter((l) => results.runs.some((r) => reaches(r, l)));
   const best = problemOrder(results).map((problem) => {
     const runs = results.runs.filter((r) => r.problem === problem);
+    const own = levels ? [...levels].sort((a, b) => b - a) : derivedLevels(runs.filter((r) => r.status === 'ok').map((r) => r.error.final ?? NaN));
     return {
       problem,
-      levels: levels.map((level) => {
+      levels: own.map((level) => {
         const hit = runs.filter((r) => reaches(r, level));
         const byNfev = argmin(hit, (r) => r.counts.nfev, rank);
         const byTime = argmin(hit, (r) => r.time.medianSeconds, rank);
@@ -73,7 +91,15 @@ export function summarize(results: ResultsFile): Summary {
     runs: results.runs.length,
     ok: results.runs.filter((r) => r.status === 'ok').length,
     failures,
-    levels,
+    levels: [...new Set(best.flatMap((b) => b.levels.map((l) => l.level)))].sort((a, b) => b - a),
     best,
+    userLevels: levels !== undefined,
   };
+}
+
+/** Where the summary's levels come from, in one sentence. */
+export function levelsNote(s: Pick<Summary, 'userLevels'>): string {
+  return s.userLevels
+    ? 'Error levels as given (--summary-levels).'
+    : "Error levels per problem from the errors its runs reached: the decade of the smallest, the decade of the largest and one between, in the problem's own error scale.";
 }

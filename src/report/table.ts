@@ -31,7 +31,7 @@ export function maxDrift(run: RunResult): number | null {
 
 export const COLUMNS: readonly Column[] = [
   { key: 'method', header: 'method', numeric: false, cell: (r, m) => ({ text: m.get(r.method)?.name ?? r.method, sort: m.get(r.method)?.name ?? r.method }) },
-  { key: 'setting', header: 'setting', numeric: true, cell: (r) => ({ text: settingLabel(r.setting), sort: tightness(r.setting) }) },
+  { key: 'setting', header: 'setting', numeric: true, cell: (r) => ({ text: settingLabel(r.setting) + (r.effectiveTolerance ? ` (controls to rtol ${sig3(r.effectiveTolerance.rtol)})` : ''), sort: tightness(r.setting) }) },
   { key: 'status', header: 'status', numeric: false, cell: (r) => ({ text: r.status, sort: r.status }) },
   { key: 'errorFinal', header: 'error.final', numeric: true, cell: (r) => num(r.error.final) },
   { key: 'errorMax', header: 'error.max', numeric: true, cell: (r) => num(r.error.max) },

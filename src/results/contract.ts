@@ -61,6 +61,11 @@ export interface RunResult {
   yFinal: number[];
   /** True when the error is below what the reference can resolve (certified references). */
   errorBelowReference?: boolean;
+  /**
+   * Tolerance the method actually controlled to, for methods that map the requested one
+   * internally (Radau IIA as in the authors' code, TR-BDF2); absent when it is the requested one.
+   */
+  effectiveTolerance?: { rtol: number; atol: number | number[] };
   /** Reference-free indicator: error after integrating to the end and back (null: not measured). */
   roundTrip?: number | null;
   /** Position of this run in the sweep plan (keeps merged shards in plan order). */
@@ -77,7 +82,7 @@ export interface ProblemRecord {
   title: string;
   sha256: string;
   stiff: boolean;
-  reference: { kind: ReferenceKind; digits?: number; source?: string };
+  reference: { kind: ReferenceKind; digits?: number; source?: string; certifiedBy?: { methods: string[]; rtol?: number } };
   stiffnessRatio?: number | null;
   source?: string;
   dimension?: number;

@@ -13,7 +13,7 @@ export const CSV_COLUMNS = [
   'error_final', 'error_max', 'drift_max', 'nfev', 'njev', 'nlu', 'accepted', 'rejected', 'time_median_s',
   'time_samples', 'error_below_reference', 'round_trip', 'message',
   'orbit_position_final', 'orbit_radial_final', 'orbit_in_track_final', 'orbit_cross_track_final', 'orbit_position_max', 'orbit_in_track_max',
-  'event_time_error_max', 'events_missed', 'events_extra',
+  'event_time_error_max', 'events_missed', 'events_extra', 'effective_rtol',
 ] as const;
 
 function cell(v: number | null | undefined): string {
@@ -70,6 +70,7 @@ function row(run: RunResult): string[] {
     cell(eventTimeMax(run)),
     cell(eventCount(run, 'missed')),
     cell(eventCount(run, 'extra')),
+    cell(run.effectiveTolerance?.rtol),
   ];
 }
 

@@ -3,13 +3,17 @@
 // a decade grid and refined by bisection, then confirmed by a final measured (and timed) run.
 import type { Method, Problem, Setting } from '../core/types.js';
 import type { RunResult } from '../results/contract.js';
-import { measureRun, type RunOptions } from '../measure/run-one.js';
-import { timeRun, type TimingOptions } from '../measure/timing.js';
+import type { Candidate, Choice, ChooseOptions, ErrorMeasure, TrialPoint } from './choose-types.js';
+import type { FixedCandidate } from './fixed-rates.js';
+import { measureRun } from '../measure/run-one.js';
+import { timeRun } from '../measure/timing.js';
 import { pairingGap } from './plan.js';
 import { absoluteTolerance } from '../core/tolerance.js';
 import { InputError } from '../core/errors.js';
-import { measureGap, measureOf, type ErrorMeasure } from '../measure/run-measures.js';
-import { stepCost, type FixedCandidate, type StepCost } from './fixed-rates.js';
+import { measureGap, measureOf } from '../measure/run-measures.js';
+import { stepCost } from './fixed-rates.js';
+import { checkNeighbours } from './choose-neighbours.js';
+import { rankCandidates, recommendation } from './choose-rank.js';
 
 /**
  * Decade grid searched for adaptive methods, loosest first. It ends at 1e-15, about 4.5 times
@@ -24,45 +28,7 @@ const RTOL_BISECTIONS = 8;
 const MIN_STEPS = 4;
 const MAX_STEPS = 1 << 22;
 
-export type { ErrorMeasure } from '../measure/run-measures.js';
-export type CostMeasure = 'nfev' | 'time';
-
-export interface ChooseOptions extends RunOptions {
-  target: number;
-  measure: ErrorMeasure;
-  cost: CostMeasure;
-  timing: TimingOptions;
-  /** Fixed-step candidates (rates or step sizes), fewest steps first; tried in order instead of the doubling search. */
-  fixedCandidates?: readonly FixedCandidate[];
-}
-
-export interface Candidate {
-  method: string;
-  family: string;
-  met: boolean;
-  /** The confirmed run at the chosen setting (or the most accurate run tried when not met). */
-  run: RunResult | null;
-  achieved: number | null;
-  /** target / achieved: how far inside the target the confirmed error is. */
-  margin: number | null;
-  cost: number | null;
-  /** Solves spent searching (for the record). */
-  trials: number;
-  note?: string;
-  /** The rate of the chosen fixed-step candidate, Hz (when candidates were given as rates). */
-  rateHz?: number | null;
-  /** Cost of one step at the chosen fixed-step setting: the most and the mean evaluations, and mean seconds. */
-  stepCost?: (StepCost & { meanSeconds: number | null }) | null;
-}
-
-export interface Choice {
-  problem: string;
-  target: number;
-  measure: ErrorMeasure;
-  cost: CostMeasure;
-  candidates: Candidate[];
-  recommended: Candidate | null;
-}
+export type { Candidate, Choice, ChooseOptions, CostMeasure, ErrorMeasure, TrialPoint } from './choose-types.js';
 
 function errorOf(run: RunResult, measure: ErrorMeasure): number | null {
   return measureOf(run, measure);
@@ -78,13 +44,21 @@ interface Search {
   setting: Setting | null;
   trials: number;
   closest: RunResult | null;
+  tried: TrialPoint[];
+}
+
+function trialPoint(run: RunResult, o: ChooseOptions): TrialPoint {
+  return { setting: run.setting, status: run.status, error: errorOf(run, o.measure), nfev: run.counts.nfev };
 }
 
 function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
   let trials = 0;
+  const tried: TrialPoint[] = [];
   const at = (rtol: number) => {
     trials++;
-    return measureRun(p, m, { rtol, atol: absoluteTolerance(p, rtol) }, o);
+    const run = measureRun(p, m, { rtol, atol: absoluteTolerance(p, rtol, o.atol) }, o);
+    tried.push(trialPoint(run, o));
+    return run;
   };
   let failing: number | null = null;
   let closest: RunResult | null = null;
@@ -105,35 +79,40 @@ function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
         }
       }
       const rt = 10 ** hi;
-      return { best, setting: { rtol: rt, atol: absoluteTolerance(p, rt) }, trials, closest: best };
+      return { best, setting: { rtol: rt, atol: absoluteTolerance(p, rt, o.atol) }, trials, closest: best, tried };
     }
     failing = rtol;
     const e = errorOf(run, o.measure);
     if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
   }
-  return { best: null, setting: null, trials, closest };
+  return { best: null, setting: null, trials, closest, tried };
 }
 
 /** The listed candidates, fewest steps first: the first that meets the target is the lowest rate that does. */
 function searchCandidates(p: Problem, m: Method, o: ChooseOptions, list: readonly FixedCandidate[]): Search {
   let trials = 0;
   let closest: RunResult | null = null;
+  const tried: TrialPoint[] = [];
   for (const c of list) {
     trials++;
     const run = measureRun(p, m, { steps: c.steps }, o);
-    if (meets(run, o)) return { best: run, setting: { steps: c.steps }, trials, closest: run };
+    tried.push(trialPoint(run, o));
+    if (meets(run, o)) return { best: run, setting: { steps: c.steps }, trials, closest: run, tried };
     const e = errorOf(run, o.measure);
     if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
   }
-  return { best: null, setting: null, trials, closest };
+  return { best: null, setting: null, trials, closest, tried };
 }
 
 function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
   if (o.fixedCandidates && o.fixedCandidates.length > 0) return searchCandidates(p, m, o, o.fixedCandidates);
   let trials = 0;
+  const tried: TrialPoint[] = [];
   const at = (steps: number) => {
     trials++;
-    return measureRun(p, m, { steps }, o);
+    const run = measureRun(p, m, { steps }, o);
+    tried.push(trialPoint(run, o));
+    return run;
   };
   let closest: RunResult | null = null;
   let lo = 0; // largest step count known to fail
@@ -155,47 +134,70 @@ function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
           best = r;
         } else lo = mid;
       }
-      return { best, setting: { steps: hi }, trials, closest: best };
+      return { best, setting: { steps: hi }, trials, closest: best, tried };
     }
     lo = n;
     const e = errorOf(run, o.measure);
     if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
   }
-  return { best: null, setting: null, trials, closest };
+  return { best: null, setting: null, trials, closest, tried };
+}
+
+/** Why a method did not reach the target, naming the step limit when that is what stopped it. */
+function missNote(search: Search, best: number | null, o: ChooseOptions): string {
+  const limited = search.tried.filter((t) => t.status === 'step-limit');
+  const bestText = best === null ? 'no run succeeded' : `best error ${best.toExponential(2)}`;
+  const last = search.tried.at(-1)?.setting;
+  if (last && 'steps' in last && last.steps === o.maxSteps) {
+    return `step limit: the largest step count allowed (--max-steps ${o.maxSteps}) was tried and did not reach the target; ${bestText}`;
+  }
+  if (limited.length > 0) {
+    return `step limit: ${limited.length} of ${search.tried.length} settings tried used up --max-steps ${o.maxSteps} before the end of the span; ${bestText}`;
+  }
+  return best === null ? 'no run succeeded' : `target not reached; ${bestText}`;
 }
 
 export async function chooseMethod(problem: Problem, methods: readonly Method[], o: ChooseOptions): Promise<Choice> {
   const gap = measureGap(problem, o.measure);
   if (gap) throw new InputError(gap, '--measure');
+  const safety = o.safety ?? 1;
+  // The search looks for target / safety; margins are stated against the user's own target.
+  const inner: ChooseOptions = { ...o, target: o.target / safety };
   const candidates: Candidate[] = [];
   for (const m of methods) {
     const gap = pairingGap(problem, m);
     if (gap && (m.needsSeparable || m.needsLinear || problem.stiff)) {
-      candidates.push({ method: m.id, family: m.family, met: false, run: null, achieved: null, margin: null, cost: null, trials: 0, note: gap });
+      candidates.push({ method: m.id, family: m.family, met: false, run: null, achieved: null, margin: null, cost: null, trials: 0, note: gap, tried: [] });
       continue;
     }
-    const search = m.adaptive ? searchAdaptive(problem, m, o) : searchFixed(problem, m, o);
+    const search = m.adaptive ? searchAdaptive(problem, m, inner) : searchFixed(problem, m, inner);
     if (!search.setting || !search.best) {
       const best = search.closest ? errorOf(search.closest, o.measure) : null;
       candidates.push({
         method: m.id, family: m.family, met: false, run: search.closest, achieved: best, margin: null, cost: null, trials: search.trials,
-        note: best === null ? 'no run succeeded' : `target not reached; best error ${best.toExponential(2)}`,
+        note: missNote(search, best, o), tried: search.tried,
       });
       continue;
     }
     // Confirmation: a fresh measured run at the chosen setting, then timing when time is the cost.
     const confirmed = measureRun(problem, m, search.setting, o);
     const achieved = errorOf(confirmed, o.measure);
-    const ok = meets(confirmed, o);
+    const ok = meets(confirmed, inner);
     let cost: number | null = confirmed.counts.nfev;
+    let timeMarginPercent: number | null = null;
     if (o.cost === 'time' && ok) {
       const t = await timeRun(problem, m, search.setting, o, o.timing);
-      if (t) confirmed.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds };
+      if (t) confirmed.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent };
       cost = t ? t.medianSeconds : null;
+      timeMarginPercent = t ? t.rmePercent : null;
     }
+    const neighbours = ok ? checkNeighbours(problem, m, search.setting, confirmed, inner, (r) => errorOf(r, o.measure)) : undefined;
     const candidate: Candidate = {
       method: m.id, family: m.family, met: ok, run: confirmed, achieved,
       margin: achieved && achieved > 0 ? o.target / achieved : null, cost, trials: search.trials + 1,
+      tried: search.tried, timeMarginPercent,
+      ...(neighbours ? { neighbours } : {}),
+      ...(neighbours?.fragile ? { note: `fragile: ${neighbours.summary}` } : {}),
     };
     if (!m.adaptive && o.fixedCandidates?.length && 'steps' in search.setting) {
       const steps = search.setting.steps;
@@ -206,10 +208,10 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
     }
     candidates.push(candidate);
   }
-  const ranked = [...candidates].sort((a, b) => {
-    if (a.met !== b.met) return a.met ? -1 : 1;
-    if (a.met && b.met) return (a.cost ?? Infinity) - (b.cost ?? Infinity);
-    return (a.achieved ?? Infinity) - (b.achieved ?? Infinity);
-  });
-  return { problem: problem.id, target: o.target, measure: o.measure, cost: o.cost, candidates: ranked, recommended: ranked[0]?.met ? ranked[0] : null };
+  const ranked = rankCandidates(candidates, o.cost);
+  const { recommended, why } = recommendation(ranked, { target: o.target, safety, cost: o.cost, measure: o.measure });
+  return {
+    problem: problem.id, target: o.target, safety, required: inner.target, measure: o.measure, cost: o.cost,
+    candidates: ranked, recommended, why,
+  };
 }

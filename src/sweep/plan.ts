@@ -2,7 +2,7 @@
 import type { Method, Problem, Setting } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { sha256 } from '../core/hash.js';
-import { absoluteTolerance } from '../core/tolerance.js';
+import { absoluteTolerance, type AtolOverride } from '../core/tolerance.js';
 
 export interface PlannedRun {
   problem: string;
@@ -35,6 +35,8 @@ export interface PlanRequest {
   steps: readonly number[] | undefined;
   /** Methods the user named: they run even where the default pairing would leave them out. */
   methodsNamed: boolean;
+  /** --atol: replaces the problem's own atol for every rtol. */
+  atol?: AtolOverride;
 }
 
 /** One tolerance per decade from `loose` down to `tight`: "1e-3..1e-12". */
@@ -84,7 +86,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
         continue;
       }
       const settings: Setting[] = method.adaptive
-        ? req.tolerances.map((rtol) => ({ rtol, atol: absoluteTolerance(problem, rtol) }))
+        ? req.tolerances.map((rtol) => ({ rtol, atol: absoluteTolerance(problem, rtol, req.atol) }))
         : (req.steps ?? problem.defaultSteps ?? DEFAULT_STEPS).map((steps) => ({ steps }));
       for (const setting of settings) {
         runs.push({ problem: problem.id, method: method.id, setting, planIndex: runs.length, expectedCost: costOf(method, setting) });

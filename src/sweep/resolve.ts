@@ -2,9 +2,11 @@
 import { resolve as resolvePath } from 'node:path';
 import type { Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
+import { closestNames } from '../core/names.js';
+import { METHOD_ALIASES } from '../methods/aliases.js';
 import { builtinMethods } from '../methods/registry.js';
 import { catalogue } from '../../problems/index.js';
-import { withCertifiedReference, withoutReference } from '../measure/certify.js';
+import { certificateCached, certificationPlan, needsCertificate, withCertifiedReference, withoutReference } from '../measure/certify.js';
 import { uniformProblem } from '../problems/uniform.js';
 
 /** The file entries of a comma list (built-in ids left out). */
@@ -25,8 +27,10 @@ function splitList(list: string | undefined): string[] {
     .filter((s) => s.length > 0);
 }
 
-function unknown(kind: string, flag: string, id: string, known: string[]): InputError {
-  return new InputError(`unknown ${kind} '${id}'; expected one of: ${known.join(', ')} (or a file path)`, flag);
+function unknown(kind: string, flag: string, id: string, known: string[], aliases: readonly string[] = []): InputError {
+  const near = closestNames(id, [...known, ...aliases]);
+  const hint = near.length > 0 ? `did you mean ${near.map((n) => `'${n}'`).join(' or ')}? ` : '';
+  return new InputError(`unknown ${kind} '${id}'; ${hint}expected one of: ${known.join(', ')} (or a file path)`, flag);
 }
 
 export interface Resolved<T> {
@@ -42,6 +46,8 @@ interface ListKind<T extends { id: string }> {
   noun: string;
   flag: string;
   builtins: readonly T[];
+  /** Other names (lower case) -> built-in id. */
+  aliases?: Readonly<Record<string, string>>;
   /** One item, or several (a dispersion yields one problem per sample). */
   load(path: string): Promise<T | T[]>;
 }
@@ -64,8 +70,11 @@ async function resolveList<T extends { id: string }>(list: string | undefined, k
       }
       continue;
     }
-    const item = kind.builtins.find((c) => c.id === entry);
-    if (!item) throw unknown(kind.noun, kind.flag, entry, kind.builtins.map((c) => c.id));
+    // Ids match whatever the case; a published alias stands for its method.
+    const typed = entry.toLowerCase();
+    const id = kind.aliases?.[typed] ?? typed;
+    const item = kind.builtins.find((c) => c.id.toLowerCase() === id);
+    if (!item) throw unknown(kind.noun, kind.flag, entry, kind.builtins.map((c) => c.id), Object.keys(kind.aliases ?? {}));
     items.push(item);
   }
   assertUnique(items.map((x) => x.id), kind.flag);
@@ -81,6 +90,7 @@ export async function resolveProblems(
   list: string | undefined,
   warn: (message: string) => void = () => {},
   uncertified?: ReadonlyMap<string, string>,
+  note: (message: string) => void = () => {},
 ): Promise<Resolved<Problem>> {
   return resolveList(list, {
     noun: 'problem',
@@ -91,7 +101,12 @@ export async function resolveProblems(
       const loaded = await loadUserProblem(entry);
       const skipped = uncertified?.get(resolvePath(entry));
       const one = (x: Problem): Problem => {
+        // Certification is two tight solves and can take a while: say what happens and how long it took.
+        const fresh = skipped === undefined && needsCertificate(x) && !certificateCached(x);
+        if (fresh) note(`${entry}${x.dispersion ? ` (${x.id})` : ''}: no reference given; certifying one (${certificationPlan(x)})`);
+        const started = performance.now();
         const p = skipped !== undefined ? withoutReference(x, skipped) : withCertifiedReference(x);
+        if (fresh && !p.reference.unavailable) note(`${entry}${x.dispersion ? ` (${x.id})` : ''}: certified in ${((performance.now() - started) / 1000).toFixed(1)} s: ${p.reference.source ?? ''}`);
         if (p.reference.unavailable) warn(`${entry}${x.dispersion ? ` (${x.id})` : ''}: ${p.reference.unavailable}`);
         return uniformProblem(p);
       };
@@ -105,6 +120,7 @@ export async function resolveMethods(list: string | undefined): Promise<Resolved
     noun: 'method',
     flag: '--method',
     builtins: builtinMethods(),
+    aliases: METHOD_ALIASES,
     async load(entry) {
       const { loadUserMethod } = await import('./user-files.js');
       return loadUserMethod(entry);

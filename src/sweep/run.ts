@@ -13,7 +13,7 @@ import type { SweepInputs } from './inputs.js';
 import { messageOf } from '../core/errors.js';
 import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
-import { certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
+import { CERTIFY_TIMEOUT_RUNS, certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
 import { executionOrder } from './dealer.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from './lanes.js';
 import { selectShard } from './shard.js';
@@ -27,6 +27,7 @@ export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number
   const ref: ProblemRecord['reference'] = { kind: p.reference.kind };
   if (p.reference.digits !== undefined) ref.digits = p.reference.digits;
   if (p.reference.source !== undefined) ref.source = p.reference.source;
+  if (p.reference.certifiedBy) ref.certifiedBy = { methods: [...p.reference.certifiedBy.methods], ...(p.reference.certifiedBy.rtol === undefined ? {} : { rtol: p.reference.certifiedBy.rtol }) };
   return {
     id: p.id,
     title: p.title,
@@ -37,12 +38,16 @@ export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number
     dimension: p.dimension,
     stiffnessRatio: stiffness?.has(p.id) ? stiffness.get(p.id)! : problemStiffnessRatio(p),
     ...(p.dispersion ? { dispersion: p.dispersion } : {}),
+    definition: p.definition,
   };
 }
 
 export function methodRecord(m: Method): Record<string, unknown> {
   const rec: Record<string, unknown> = { id: m.id, name: m.name, family: m.family, order: m.order, source: m.source, adaptive: m.adaptive, stiff: m.stiff };
   if (m.embeddedOrder !== undefined) rec.embeddedOrder = m.embeddedOrder;
+  // A fingerprint of what the method is and does: its record and its solve function's text
+  // (so a baseline can tell that a method's code changed between two sweeps).
+  rec.sha256 = sha256(`${JSON.stringify(rec)}\n${m.solve.toString()}`);
   return rec;
 }
 
@@ -117,6 +122,8 @@ export interface SweepRequest {
   /** Comma list of method ids or module files (undefined: all that apply). */
   method?: string;
   tolerances?: readonly number[];
+  /** --atol: one value, or one per state, used with every rtol instead of the problem's own. */
+  atol?: number | readonly number[];
   steps?: readonly number[];
   maxSteps?: number;
   /** null or undefined: no timing. */
@@ -126,11 +133,13 @@ export interface SweepRequest {
   jobs?: number;
   runTimeoutSeconds?: number;
   shard?: { index: number; count: number };
-  onPlan?: (plan: SweepPlan, selected: readonly PlannedRun[]) => void;
+  onPlan?: (plan: SweepPlan, selected: readonly PlannedRun[], methods: readonly Method[]) => void;
   onRun?: (p: SweepProgress) => void;
   shouldStop?: () => boolean;
   /** Said before the sweep starts, e.g. a reference that could not be certified. */
   onWarning?: (message: string) => void;
+  /** Said before the sweep starts: what is being done and how long it took (certification). */
+  onNote?: (message: string) => void;
   /** Runs already finished (resume): matched by plan index and not run again. */
   finished?: readonly RunResult[];
   /**
@@ -157,8 +166,15 @@ export async function runSweep(req: SweepRequest): Promise<ResultsFile> {
 async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   // With a run timeout, user models are not trusted to return: their references are certified on
   // a worker under a limit first, so a model that never returns cannot hang the sweep here.
-  const uncertified = req.runTimeoutSeconds ? await certifyOnPool(fileEntries(req.problem).map((e) => resolvePath(e)), req.runTimeoutSeconds) : undefined;
-  const problems = await resolveProblems(req.problem, req.onWarning, uncertified);
+  const files = fileEntries(req.problem);
+  let uncertified: Map<string, string> | undefined;
+  if (req.runTimeoutSeconds && files.length > 0) {
+    const started = performance.now();
+    req.onNote?.(`certifying the references of problem files that give none, on a worker (each within ${CERTIFY_TIMEOUT_RUNS} x --run-timeout)`);
+    uncertified = await certifyOnPool(files.map((e) => resolvePath(e)), req.runTimeoutSeconds);
+    req.onNote?.(`references of problem files ready in ${((performance.now() - started) / 1000).toFixed(1)} s`);
+  }
+  const problems = await resolveProblems(req.problem, req.onWarning, uncertified, req.onNote);
   const methods = await resolveMethods(req.method);
   const plan = planSweep({
     problems: problems.items,
@@ -166,9 +182,10 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
     tolerances: req.tolerances ?? DEFAULT_TOLERANCES,
     steps: req.steps,
     methodsNamed: methods.named,
+    ...(req.atol !== undefined ? { atol: req.atol } : {}),
   });
   let selected: readonly PlannedRun[] = req.shard ? selectShard(plan.runs, req.shard.index, req.shard.count) : plan.runs;
-  req.onPlan?.(plan, selected);
+  req.onPlan?.(plan, selected, methods.items);
   const done = new Map((req.finished ?? []).map((r) => [r.planIndex, r]));
   const todo = selected.filter((r) => !done.has(r.planIndex));
   const options: SweepOptions = {
@@ -243,7 +260,7 @@ function absoluteEntries(entries: ReadonlyMap<string, string>): Map<string, stri
 /** The serialisable part of a request, stored so an interrupted sweep can be resumed as asked. */
 export function sweepRequestRecord(req: SweepRequest): Record<string, unknown> {
   const rec: Record<string, unknown> = {};
-  for (const k of ['problem', 'method', 'tolerances', 'steps', 'maxSteps', 'timing', 'controller', 'runTimeoutSeconds', 'shard', 'inputs'] as const) {
+  for (const k of ['problem', 'method', 'tolerances', 'atol', 'steps', 'maxSteps', 'timing', 'controller', 'runTimeoutSeconds', 'shard', 'inputs'] as const) {
     if (req[k] !== undefined) rec[k] = req[k];
   }
   return rec;

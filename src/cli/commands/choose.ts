@@ -1,11 +1,14 @@
-// `stepgauge choose`: which method and setting meets an accuracy target at the least cost.
+// `stepgauge choose`: which method and setting meets an accuracy target at the least cost, and
+// (with --out) a decision record a reviewer can file: decision.json, decision.md, decision.html.
 import type { RegisterCommand } from './register.js';
 import { InputError } from '../../core/errors.js';
-import { parsePositive, parsePositiveInt, parsePositiveList } from '../options.js';
+import { parseAtol, parsePositive, parsePositiveInt, parsePositiveList } from '../options.js';
 import type { Candidate, Choice } from '../../sweep/choose.js';
-import { DEFAULT_MAX_STEPS, DEFAULT_TIMING } from '../../core/defaults.js';
+import { DEFAULT_MAX_STEPS, DEFAULT_SAFETY, DEFAULT_TIMING } from '../../core/defaults.js';
 import { sig3 } from '../../report/format.js';
 import { CAUTION_SHORT } from '../../report/caution.js';
+import { checkWritableTarget } from '../output-folder.js';
+import { commandLine } from '../command-line.js';
 
 interface ChooseFlags {
   problem?: string;
@@ -18,6 +21,9 @@ interface ChooseFlags {
   quantile?: string;
   rates?: string;
   stepSizes?: string;
+  atol?: string;
+  safety: string;
+  out?: string;
 }
 
 function settingText(c: Candidate): string {
@@ -36,11 +42,19 @@ function stepCostText(c: Candidate): string {
   return `one step: at most ${sc.worstNfev} evaluations${time}`;
 }
 
+function timeText(c: Candidate): string {
+  const t = c.run?.time.medianSeconds;
+  if (t == null) return '—';
+  const m = c.timeMarginPercent;
+  return m == null ? `${sig3(t * 1000)} ms` : `${sig3(t * 1000)} ms ±${sig3(m)}%`;
+}
+
 export function choiceText(choice: Choice): string {
   const rows = [['rank', 'method', 'setting', 'achieved error', 'margin', 'nfev', 'njev', 'nlu', 'time', 'note']];
-  choice.candidates.forEach((c, i) => {
+  for (const c of choice.candidates) {
+    const notes = [...(c.tiedWith && c.tiedWith.length > 0 ? [`tied in time with ${c.tiedWith.join(', ')}`] : []), ...(c.note ? [c.note] : [])];
     rows.push([
-      c.met ? String(i + 1) : '—',
+      c.rank == null ? '—' : `${c.rank}${c.tiedWith && c.tiedWith.length > 0 ? '=' : ''}`,
       c.method,
       c.met ? settingText(c) : '—',
       sig3(c.achieved),
@@ -48,18 +62,17 @@ export function choiceText(choice: Choice): string {
       c.run ? String(c.run.counts.nfev) : '—',
       c.run ? String(c.run.counts.njev) : '—',
       c.run ? String(c.run.counts.nlu) : '—',
-      c.run?.time.medianSeconds != null ? `${sig3(c.run.time.medianSeconds * 1000)} ms` : '—',
-      [c.note, stepCostText(c)].filter(Boolean).join('; '),
+      timeText(c),
+      [...notes, stepCostText(c)].filter(Boolean).join('; '),
     ]);
-  });
+  }
   const widths = rows[0]!.map((_, k) => Math.max(...rows.map((r) => r[k]!.length)));
   const lines = rows.map((r) => r.map((v, k) => v.padEnd(widths[k]!)).join('  ').trimEnd());
-  const head = `${choice.problem}: target error ${sig3(choice.target)} (${choice.measure}), ranked by ${choice.cost}`;
+  const safety = choice.safety === 1 ? '' : `, safety ${choice.safety} (error at most ${sig3(choice.required)})`;
+  const head = `${choice.problem}: target error ${sig3(choice.target)} (${choice.measure})${safety}, ranked by ${choice.cost}`;
   const rec = choice.recommended;
-  const verdict = rec
-    ? `recommended: ${rec.method} at ${settingText(rec)}; confirmed error ${sig3(rec.achieved)} is ${rec.margin?.toPrecision(3)}x inside the target`
-    : 'no method met the target on this problem; loosen the target or add methods';
-  return [head, '', ...lines, '', verdict, '', CAUTION_SHORT].join('\n');
+  const verdict = rec ? `recommended: ${rec.method} at ${settingText(rec)}${rec.neighbours?.fragile ? ' (fragile)' : ''}` : 'no method met the target on this problem';
+  return [head, '', ...lines, '', verdict, `why: ${choice.why}`, '', CAUTION_SHORT].join('\n');
 }
 
 export const registerChoose: RegisterCommand = (program, setExit) => {
@@ -71,16 +84,24 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
     .option('-m, --method <list>', 'methods to consider (default: all that apply)')
     .option('--measure <which>', 'final (at the end of the span) or max (over check times) in the problem\'s error scale; for orbit problems position, radial, in-track, cross-track (at the end, in the problem\'s position unit) or the same with -max (largest along the run); event-time (worst event timing error; a missed or extra crossing never meets the target)', 'final')
     .option('--cost <what>', 'time (median wall time) or nfev (function evaluations, free of timing noise)', 'time')
+    .option('--safety <factor>', 'ask for error at most target / factor (2 keeps the doubled-tolerance neighbour inside the target; 1 is the bare boundary)', String(DEFAULT_SAFETY))
+    .option('--atol <list>', 'absolute tolerance with every rtol tried: one value, or one per state (default: rtol, scaled where the problem says so)')
     .option('--max-steps <n>', 'step limit per run', String(DEFAULT_MAX_STEPS))
     .option('--rates <list>', 'fixed-step candidates as rates in Hz (time in seconds), e.g. 0.05,0.1,0.2; the answer is the lowest rate that meets the target')
     .option('--step-sizes <list>', 'fixed-step candidates as step sizes in the problem\'s time unit, e.g. 5,10,20')
+    .option('-o, --out <dir>', 'write the decision record there: decision.json, decision.md, decision.html (one self-contained file)')
     .option('--json', 'print the ranked table as JSON')
     .option('--quantile <q>', "for a dispersed problem: share of the samples that must meet the target, in (0, 1], or 'worst' (every sample; the default)")
     .action(async (flags: ChooseFlags) => {
       const target = parsePositive(flags.target ?? '', '--target');
       const { ERROR_MEASURES, isErrorMeasure } = await import('../../measure/run-measures.js');
       if (!isErrorMeasure(flags.measure)) throw new InputError(`'${flags.measure}' is not one of ${ERROR_MEASURES.join(', ')}`, '--measure');
+      const safety = parsePositive(flags.safety, '--safety');
+      if (safety < 1) throw new InputError(`'${flags.safety}' must be at least 1 (1 asks for the target itself)`, '--safety');
       if (flags.cost !== 'time' && flags.cost !== 'nfev') throw new InputError(`'${flags.cost}' is not time or nfev`, '--cost');
+      const maxSteps = parsePositiveInt(flags.maxSteps, '--max-steps');
+      // Only a new or empty folder, or one stepgauge wrote, is replaced (src/results/ownership.ts).
+      if (flags.out !== undefined) checkWritableTarget(flags.out);
       const { resolveMethods, resolveProblems } = await import('../../sweep/resolve.js');
       const { chooseMethod } = await import('../../sweep/choose.js');
       const rates = flags.rates !== undefined ? parsePositiveList(flags.rates, '--rates') : undefined;
@@ -88,25 +109,34 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       const problems = await resolveProblems(flags.problem);
       const of = problems.items[0]?.dispersion?.of;
       if (of !== undefined && problems.items.every((p) => p.dispersion?.of === of)) {
+        if (flags.out !== undefined) throw new InputError('a decision record is written for one problem, not for a dispersion (use --json for the dispersed choice)', '--out');
         const { chooseDispersed } = await import('../choose-dispersed.js');
         await chooseDispersed(of, problems.items, (await resolveMethods(flags.method)).items, target, flags, setExit);
         return;
       }
       if (flags.quantile !== undefined) throw new InputError('applies to a dispersed problem only (a problem file with a dispersion block)', '--quantile');
       if (problems.items.length !== 1) throw new InputError('choose takes exactly one problem', '--problem');
+      const problem = problems.items[0]!;
       const { fixedCandidates } = await import('../../sweep/fixed-rates.js');
-      const candidates = rates || stepSizes ? fixedCandidates(problems.items[0]!, { rates, stepSizes }) : undefined;
+      const candidates = rates || stepSizes ? fixedCandidates(problem, { rates, stepSizes }) : undefined;
       const methods = await resolveMethods(flags.method);
-      const choice = await chooseMethod(problems.items[0]!, methods.items, {
+      const choice = await chooseMethod(problem, methods.items, {
         target,
+        safety,
         measure: flags.measure,
         cost: flags.cost,
         timing: DEFAULT_TIMING,
-        maxSteps: parsePositiveInt(flags.maxSteps, '--max-steps'),
+        maxSteps,
         ...(candidates ? { fixedCandidates: candidates } : {}),
+        ...(flags.atol === undefined ? {} : { atol: parseAtol(flags.atol) }),
       });
+      if (flags.out !== undefined) {
+        const { writeDecisionFolder } = await import('../decision-folder.js');
+        await writeDecisionFolder(flags.out, choice, problem, { commandLine: commandLine(), maxSteps });
+      }
       if (flags.json) process.stdout.write(`${JSON.stringify(choice, (_k, v) => (k(_k) ? undefined : v), 2)}\n`);
       else process.stdout.write(`${choiceText(choice)}\n`);
+      if (flags.out !== undefined) process.stderr.write(`wrote decision.json, decision.md and decision.html to ${flags.out}\n`);
       if (!choice.recommended) setExit(1);
     });
 };

@@ -49,8 +49,12 @@ const { gamma: GAM, alpha: ALPH, beta: BETA, t: T, tinv: TI, d: D } = RADAU5_TRA
  * order-3 estimate controls an order-5 solution, so the requested rtol is mapped to
  * 0.1 rtol^(2/3) and atol keeps its ratio to rtol.
  */
+export function radauRtol(rtol: number): number {
+  return TOL_FACTOR * rtol ** (2 / 3);
+}
+
 function radauTolerances(tol: Tolerances): Tolerances {
-  const rtol = TOL_FACTOR * tol.rtol ** (2 / 3);
+  const rtol = radauRtol(tol.rtol);
   return { rtol, atol: tol.atol.map((a) => (a * rtol) / tol.rtol) };
 }
 
@@ -332,6 +336,7 @@ export const radauIIA5: Method = {
   notes:
     'Simplified Newton on the T-transformed stage system (one real, one complex LU per factorization, counted as 1 nlu). ' +
     "Newton failures count as rejected steps. Tolerances are transformed as in the authors' code: rtol' = 0.1 rtol^(2/3), atol' = atol rtol'/rtol.",
+  effectiveRtol: radauRtol,
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
     return solveAdaptive(problem, setting, options, 'radau-iia-5', 5, createStepper, radauTolerances);
   },

@@ -67,8 +67,12 @@ const TOL_ANCHOR = 1e-3;
 const TOL_FLOOR = (10 * EPS) / KAPPA;
 
 /** The header's tolerance map: rtol' = min(rtol, 1e-3 (rtol/1e-3)^(3/2)), floored; atol keeps its ratio. */
+export function trBdf2Rtol(rtol: number): number {
+  return Math.max(Math.min(rtol, TOL_ANCHOR * (rtol / TOL_ANCHOR) ** 1.5), Math.min(rtol, TOL_FLOOR));
+}
+
 export function trBdf2Tolerances(tol: Tolerances): Tolerances {
-  const rtol = Math.max(Math.min(tol.rtol, TOL_ANCHOR * (tol.rtol / TOL_ANCHOR) ** 1.5), Math.min(tol.rtol, TOL_FLOOR));
+  const rtol = trBdf2Rtol(tol.rtol);
   const ratio = rtol / tol.rtol;
   return { rtol, atol: tol.atol.map((a) => a * ratio) };
 }
@@ -247,6 +251,7 @@ export const trBdf2: Method = {
     "Tolerances are mapped so that the global error is proportional to rtol (order 2 under per-step control would give rtol^(2/3)): " +
     "rtol' = min(rtol, 1e-3 (rtol/1e-3)^(3/2)), floored at 10 eps/0.03, atol' = atol rtol'/rtol; " +
     'this costs (1e-3/rtol)^(1/6) times the steps of the unmapped control (6.8 at rtol 1e-8).',
+  effectiveRtol: trBdf2Rtol,
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
     return solveAdaptive(problem, setting, options, 'trapezoidal-bdf2', 2, createStepper, trBdf2Tolerances);
   },

@@ -106,7 +106,7 @@ function dataset(s: SeriesSpec): Record<string, unknown> {
   const radius = !s.markers
     ? 0
     : every <= 1
-      ? MARKER_RADIUS
+      ? (s.markerRadius ?? MARKER_RADIUS)
       : (c: ScriptableContext<'scatter'>) => (c.dataIndex % every === 0 ? MARKER_RADIUS : 0);
   return {
     label: s.label,

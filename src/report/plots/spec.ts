@@ -25,6 +25,8 @@ export interface SeriesSpec {
   markerEvery?: number;
   /** Join points with a line. */
   line?: boolean;
+  /** Marker radius in pixels, for a point that must stand out (a chosen setting). */
+  markerRadius?: number;
 }
 
 export interface AxisSpec {
