@@ -50,7 +50,7 @@ describe('interruption', () => {
     expect(existsSync(join(dir, '.sweep.journal.jsonl'))).toBe(false);
 
     const completed = await runChild(['run', '--resume', out, '--no-report', '-q', '--jobs', '1']);
-    expect([0, 3]).toContain(completed);
+    expect(completed).toBe(0);
     const resumed = JSON.parse(readFileSync(join(out, 'results.json'), 'utf8')) as ResultsFile;
     expect(resumed.interrupted).toBeUndefined();
     expect(resumed.runs).toHaveLength(planned);

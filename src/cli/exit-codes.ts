@@ -9,7 +9,7 @@ export const EXIT = {
   verdict: 1,
   /** Bad input: a flag, a file, a field, or a path of the wrong kind. */
   badInput: 2,
-  /** `run` completed and wrote its results, but some runs failed. */
+  /** `run --fail-on-failed-runs` completed and wrote its results, but some runs failed. */
   runsFailed: 3,
   /** A bug in stepgauge (or a worker that could not start). */
   internal: 70,

@@ -21,6 +21,7 @@ import type { ResultsFile, RunResult } from '../../results/contract.js';
 import type { KnownRunLine } from '../../results/json.js';
 import { InputError } from '../../core/errors.js';
 import { exitProcess } from '../../core/exit-guard.js';
+import { EXIT } from '../exit-codes.js';
 import { Journal, journalPath, readJournal } from '../../sweep/journal.js';
 import { takeLock } from '../../sweep/lock.js';
 import { readResultsFile } from '../../results/read.js';
@@ -242,5 +243,5 @@ async function sweepAndWrite(
   }
   // Failed runs are results: the sweep finished and was written, so 0, unless asked for 3.
   const failed = results.runs.filter((r) => r.status !== 'ok').length;
-  if (failed > 0 && flags.failOnFailedRuns) setExit(3);
+  if (failed > 0 && flags.failOnFailedRuns) setExit(EXIT.runsFailed);
 }
