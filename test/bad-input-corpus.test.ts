@@ -455,7 +455,8 @@ describe('exit codes through the launcher: a closed stdout, an exit from a timer
     expect(r.stderr).toBe('');
     const results = JSON.parse(readFileSync(join(out, 'results.json'), 'utf8')) as { runs: { status: string }[] };
     expect(results.runs.length).toBeGreaterThan(5);
-    expect(r.code).toBe(results.runs.every((x) => x.status === 'ok') ? 0 : 3);
+    // Failed runs are results: a finished, written sweep exits 0.
+    expect(r.code).toBe(0);
   });
   it('a module that calls process.exit(0) from a timer mid-sweep: exit 2 with one line, never 0, no results folder', async () => {
     const dir = freshDir();

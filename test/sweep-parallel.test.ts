@@ -23,6 +23,8 @@ function comparable(r: ResultsFile): unknown {
   return {
     ...r,
     createdAt: undefined,
+    // The command line says how this file was made (its --out, --jobs), like createdAt.
+    command: undefined,
     environment: { ...r.environment, calibrationSeconds: undefined, commit: undefined, commitDirty: undefined },
     runs: r.runs.map((x) => ({ ...x, time: undefined })),
   };
