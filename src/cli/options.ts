@@ -1,5 +1,6 @@
 // Parsing and validating command-line values: every failure names the flag and what was expected.
 import { InputError } from '../core/errors.js';
+import { requestedRtolProblem } from '../core/setting.js';
 import { decades } from '../sweep/plan.js';
 
 function positiveNumber(text: string, flag: string): number {
@@ -21,8 +22,8 @@ export function parseTolerances(text: string, flag = '--tolerances'): number[] {
     const v = Number(part);
     if (part.trim() === '' || !Number.isFinite(v)) fail(`'${part.trim()}'${part.trim() === text.trim() ? '' : ` in '${text}'`} is not a number`);
     if (v <= 0) fail(`'${part.trim()}' must be positive`);
-    if (v >= 1) fail(`tolerance ${v} must be below 1`);
-    if (v < 1e-16) fail(`tolerance ${v} is below double precision (1e-16)`);
+    const problem = requestedRtolProblem(v);
+    if (problem) fail(problem);
     return v;
   };
   const trimmed = text.trim();

@@ -11,6 +11,9 @@ export interface TimingOptions {
 /** Wall-time measurement per run: a 0.1 s budget, at least 3 samples. */
 export const DEFAULT_TIMING: TimingOptions = { budgetSeconds: 0.1, minSamples: 3 };
 
+/** The tolerances a sweep runs when none are given: one rtol per decade, 1e-3 down to 1e-10. */
+export const DEFAULT_TOLERANCE_RANGE = { loose: 1e-3, tight: 1e-10 } as const;
+
 /** Step limit per run (accepted + rejected steps). */
 export const DEFAULT_MAX_STEPS = 100_000;
 

@@ -14,6 +14,7 @@ import {
   type RunSetting,
 } from './contract.js';
 import type { Status } from '../core/types.js';
+import { stepsProblem, toleranceProblem } from '../core/setting.js';
 import { Validator } from './validate.js';
 
 /** What this reader understands; quoted in every "cannot read" message. */
@@ -109,12 +110,13 @@ function validateRun(v: Validator, value: unknown, at: string): RunResult {
 
 function validateSetting(v: Validator, value: unknown, at: string): RunSetting {
   const s = v.object(value, at);
+  // The same rules a method applied when it accepted the setting (core/setting.ts).
   if ('rtol' in s) {
-    v.positive(s.rtol, `${at}.rtol`);
-    if (Array.isArray(s.atol)) s.atol.forEach((a, i) => v.number(a, `${at}.atol[${i}]`));
-    else v.number(s.atol, `${at}.atol`);
+    const problem = toleranceProblem(s.rtol, s.atol, { rtolMayBeZero: true });
+    if (problem) v.fail(`${at}.${problem.field}`, problem.what);
   } else if ('steps' in s) {
-    v.integer(s.steps, `${at}.steps`, 1);
+    const problem = stepsProblem(s.steps);
+    if (problem) v.fail(`${at}.${problem.field}`, problem.what);
     v.number(s.h, `${at}.h`);
   } else {
     v.fail(at, 'has neither rtol/atol nor steps/h');

@@ -3,6 +3,8 @@ import type { Method, Problem, Setting } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { sha256 } from '../core/hash.js';
 import { absoluteTolerance, type AtolOverride } from '../core/tolerance.js';
+import { DEFAULT_TOLERANCE_RANGE } from '../core/defaults.js';
+import { requestedRtolProblem, requestedStepsProblem } from '../core/setting.js';
 
 export interface PlannedRun {
   problem: string;
@@ -39,11 +41,12 @@ export interface PlanRequest {
   atol?: AtolOverride;
 }
 
-/** One tolerance per decade from `loose` down to `tight`: "1e-3..1e-12". */
-export const DEFAULT_TOLERANCES: readonly number[] = decades(1e-3, 1e-10);
+/** The default tolerance list (core/defaults.ts), one per decade. */
+export const DEFAULT_TOLERANCES: readonly number[] = decades(DEFAULT_TOLERANCE_RANGE.loose, DEFAULT_TOLERANCE_RANGE.tight);
 /** A doubling ladder of equal-step counts for fixed-step methods. */
 export const DEFAULT_STEPS: readonly number[] = [100, 200, 400, 800, 1600, 3200, 6400, 12800];
 
+/** One tolerance per decade from `loose` to `tight`, either direction: "1e-3..1e-12". */
 export function decades(loose: number, tight: number): number[] {
   const a = Math.round(Math.log10(loose));
   const b = Math.round(Math.log10(tight));
@@ -73,6 +76,15 @@ function costOf(method: Method, setting: Setting): number {
 export function planSweep(req: PlanRequest): SweepPlan {
   if (req.problems.length === 0) throw new InputError('no problems selected', '--problem');
   if (req.methods.length === 0) throw new InputError('no methods selected', '--method');
+  // The same rules as the CLI's flags (core/setting.ts), for library callers and resumed sweeps.
+  for (const rtol of req.tolerances) {
+    const problem = requestedRtolProblem(rtol);
+    if (problem) throw new InputError(problem, '--tolerances');
+  }
+  for (const steps of req.steps ?? []) {
+    const problem = requestedStepsProblem(steps);
+    if (problem) throw new InputError(problem, '--steps');
+  }
   const runs: PlannedRun[] = [];
   const skipped: SkippedPair[] = [];
   for (const problem of req.problems) {

@@ -16,7 +16,7 @@ import type { GivenFlags } from '../flag-notes.js';
 import { DEFAULT_STEPS } from '../../sweep/plan.js';
 import type { SweepRequest } from '../../sweep/run.js';
 import { parseShardSpec } from '../../sweep/shard.js';
-import { DEFAULT_MAX_STEPS, DEFAULT_TIMING } from '../../core/defaults.js';
+import { DEFAULT_MAX_STEPS, DEFAULT_TIMING, DEFAULT_TOLERANCE_RANGE } from '../../core/defaults.js';
 import type { ResultsFile, RunResult } from '../../results/contract.js';
 import type { KnownRunLine } from '../../results/json.js';
 import { InputError } from '../../core/errors.js';
@@ -24,6 +24,7 @@ import { exitProcess } from '../../core/exit-guard.js';
 import { EXIT } from '../exit-codes.js';
 import { Journal, journalPath, readJournal } from '../../sweep/journal.js';
 import { takeLock } from '../../sweep/lock.js';
+import { requestFromRecord, type ResumableRequest } from '../../sweep/request-record.js';
 import { readResultsFile } from '../../results/read.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from '../../sweep/lanes.js';
 
@@ -33,17 +34,15 @@ import { prestartLanes, workerLaneCount, type PrestartedLanes } from '../../swee
  */
 function resumeState(dir: string): { request: ResumableRequest; finished: ResultsFile['runs']; planSha256: unknown; where: string } {
   const journal = readJournal(dir);
-  if (journal) return { request: journal.header.request as ResumableRequest, finished: journal.runs, planSha256: journal.header.planSha256, where: journalPath(dir) };
+  if (journal) return { request: requestFromRecord(journal.header.request, journalPath(dir)), finished: journal.runs, planSha256: journal.header.planSha256, where: journalPath(dir) };
   const file = join(dir, 'results.json');
   if (!existsSync(file)) throw new InputError(`no interrupted sweep here (neither a journal nor results.json)`, `--resume ${dir}`);
   const old = readResultsFile(file);
   if (!old.interrupted) throw new InputError('that sweep finished; nothing to resume', `--resume ${dir}`);
   if (!old.request) throw new InputError('results.json has no request record to resume from', file);
-  return { request: old.request as ResumableRequest, finished: old.runs, planSha256: (old.plan as { sha256?: unknown } | undefined)?.sha256, where: file };
+  return { request: requestFromRecord(old.request, file), finished: old.runs, planSha256: (old.plan as { sha256?: unknown } | undefined)?.sha256, where: file };
 }
 
-/** A recorded request: its inputs are whatever an older or newer stepgauge wrote, checked before use. */
-type ResumableRequest = Omit<SweepRequest, 'inputs'> & { inputs?: unknown };
 
 interface RunFlags {
   problem?: string;
@@ -110,7 +109,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .description('integrate the selected problems with the selected methods over a tolerance/step sweep')
     .option('-p, --problem <list>', 'problem ids or files, comma-separated (default: the whole catalogue)')
     .option('-m, --method <list>', 'method ids or module files, comma-separated (default: all that apply)')
-    .option('-t, --tolerances <list>', 'rtol values: a list 1e-4,1e-8 or a range 1e-3..1e-12 (one per decade)', '1e-3..1e-10')
+    .option('-t, --tolerances <list>', 'rtol values: a list 1e-4,1e-8 or a range 1e-3..1e-12 (one per decade)', `${DEFAULT_TOLERANCE_RANGE.loose.toExponential()}..${DEFAULT_TOLERANCE_RANGE.tight.toExponential()}`)
     .option('--atol <list>', "absolute tolerance with every rtol: one value, or one per state (default: rtol, scaled where the problem says so)")
     .option('-s, --steps <list>', `equal-step counts for fixed-step methods (default: each problem's own doubling ladder, else ${DEFAULT_STEPS.join(',')})`)
     .option('-o, --out <dir>', 'output folder (default reports/<date>-<time>, with reports/latest pointing at it)')

@@ -22,7 +22,8 @@ import { stopTimes } from '../stop-times.js';
 import { budgetStop } from '../budget.js';
 import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_SIZE, IO_T, IO_T_NEW, type StageKernel, type Tableau } from './tableau.js';
 import { withLease, type WorkLease } from '../work-lease.js';
-import { adaptiveSetting, checkOptions, checkProblem } from './validate.js';
+import { checkOptions, checkProblem } from '../rules.js';
+import { adaptiveTolerances } from '../../core/setting.js';
 
 export { COMBINED_ERR3_WEIGHT } from './control.js';
 
@@ -54,7 +55,7 @@ export function solveEmbedded(
   checkProblem(problem, methodId);
   checkOptions(options, methodId);
   const n = problem.dimension;
-  const { rtol, atol } = adaptiveSetting(setting, n, methodId);
+  const { rtol, atol } = adaptiveTolerances(setting, n, methodId, { rtolMayBeZero: true });
   const t0 = problem.t0;
   const tEnd = problem.tEnd;
   const stops = stopTimes(options.checkTimes, t0, tEnd, methodId);

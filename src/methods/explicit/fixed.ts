@@ -10,7 +10,8 @@ import { finish } from './finish.js';
 import type { FixedKernelFactory, FixedStepKernel } from './kernels/unrolled.js';
 import { IO_H, IO_SIZE, IO_T, type Tableau } from './tableau.js';
 import { withLease, type WorkLease } from '../work-lease.js';
-import { checkOptions, checkProblem, fixedSteps } from './validate.js';
+import { checkOptions, checkProblem } from '../rules.js';
+import { fixedStepCount } from '../../core/setting.js';
 
 export function solveFixed(
   tab: Tableau,
@@ -22,7 +23,7 @@ export function solveFixed(
 ): SolveResult {
   checkProblem(problem, methodId);
   checkOptions(options, methodId);
-  const steps = fixedSteps(setting, methodId);
+  const steps = fixedStepCount(setting, methodId);
   const n = problem.dimension;
   const t0 = problem.t0;
   const tEnd = problem.tEnd;

@@ -8,7 +8,8 @@ import { allFinite } from '../../core/vector.js';
 import { budgetStop } from '../budget.js';
 import { withLease, type WorkLease } from '../work-lease.js';
 import { finish } from './finish.js';
-import { checkOptions, checkProblem, fixedSteps } from './validate.js';
+import { checkOptions, checkProblem } from '../rules.js';
+import { fixedStepCount } from '../../core/setting.js';
 
 /** Position and velocity indices as typed arrays, checked to split 0..n-1 exactly. */
 function splitOf(problem: Problem, methodId: string): { pos: Int32Array; vel: Int32Array } {
@@ -55,7 +56,7 @@ export function solveVerletComposition(
 ): SolveResult {
   checkProblem(problem, methodId);
   checkOptions(options, methodId);
-  const steps = fixedSteps(setting, methodId);
+  const steps = fixedStepCount(setting, methodId);
   const split = splitOf(problem, methodId);
   return withLease(weights, problem.dimension, (lease) => stepComposition(lease, weights, split, problem, options, steps));
 }

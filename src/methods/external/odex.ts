@@ -3,9 +3,11 @@
 // it: it calls odex once per segment between check times (so results land on them exactly) and
 // reads odex's own counters, which it sums over segments.
 import { createRequire } from 'node:module';
-import { InputError, messageOf } from '../../core/errors.js';
-import type { Method, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
-import { isAdaptiveSetting, zeroCounts } from '../../core/types.js';
+import { messageOf } from '../../core/errors.js';
+import type { AdaptiveSetting, Method, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
+import { zeroCounts } from '../../core/types.js';
+import { adaptiveTolerances } from '../../core/setting.js';
+import { checkOptions, checkProblem } from '../rules.js';
 import { allFinite } from '../../core/vector.js';
 import { stopTimes } from '../stop-times.js';
 
@@ -52,17 +54,16 @@ export const odexMethod: Method = {
     '(default 9 columns), the order in use changes from step to step. Counts are odex\'s own (nEval, nAccept, nReject), ' +
     'summed over the segments between check times; njev = nlu = 0. odex allocates arrays per evaluation.',
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-    if (!isAdaptiveSetting(setting)) throw new InputError('method odex is adaptive and needs {rtol, atol}');
+    checkProblem(problem, 'odex');
+    checkOptions(options, 'odex');
     const n = problem.dimension;
-    if (problem.y0.length !== n) throw new InputError(`problem ${problem.id}: y0 has ${problem.y0.length} entries, expected ${n}`);
-    if (!(setting.rtol > 0)) throw new InputError(`rtol must be a positive number, got ${setting.rtol}`);
-    if (typeof setting.atol !== 'number' && setting.atol.length !== n) {
-      throw new InputError(`atol has ${setting.atol.length} entries but problem ${problem.id} has dimension ${n}`);
-    }
+    adaptiveTolerances(setting, n, 'odex', { rtolMayBeZero: false });
+    // odex takes atol as given (a number or one per component).
+    const { rtol, atol } = setting as AdaptiveSetting;
     const counts = zeroCounts();
     const solver = new odexModule.Solver(n);
-    solver.relativeTolerance = setting.rtol;
-    solver.absoluteTolerance = typeof setting.atol === 'number' ? setting.atol : [...setting.atol];
+    solver.relativeTolerance = rtol;
+    solver.absoluteTolerance = typeof atol === 'number' ? atol : [...atol];
     solver.maxExtrapolationColumns = KM;
     solver.denseOutput = false;
 

@@ -1,11 +1,12 @@
-// Plumbing shared by the implicit integrators: setting validation, the adaptive step driver
+// Plumbing shared by the implicit integrators: the adaptive step driver
 // (check times, step limit, deadline, underflow, observer) and the starting step heuristic.
 // Each integrator supplies only its step attempt; the driver owns the bookkeeping so that every
 // method honours SolveOptions the same way.
-import { InputError } from '../../core/errors.js';
+import { adaptiveTolerances } from '../../core/setting.js';
+import { checkOptions, checkProblem } from '../rules.js';
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
-import { isAdaptiveSetting, zeroCounts } from '../../core/types.js';
-import { allFinite, toleranceVector } from '../../core/vector.js';
+import { zeroCounts } from '../../core/types.js';
+import { allFinite } from '../../core/vector.js';
 import { budgetStop } from '../budget.js';
 import { withLease, type WorkLease } from '../work-lease.js';
 import { stopTimes } from '../stop-times.js';
@@ -15,37 +16,6 @@ const EPS = 2.220446049250313e-16;
 export interface Tolerances {
   readonly rtol: number;
   readonly atol: Float64Array;
-}
-
-export function parseAdaptive(problem: Problem, setting: Setting, methodId: string): Tolerances {
-  if (!isAdaptiveSetting(setting)) throw new InputError(`method ${methodId} is adaptive and needs {rtol, atol}`);
-  const { rtol, atol } = setting;
-  if (!(rtol > 0) || !Number.isFinite(rtol)) throw new InputError(`rtol must be a positive number, got ${rtol}`);
-  const n = problem.dimension;
-  if (typeof atol !== 'number' && atol.length !== n) {
-    throw new InputError(`atol has ${atol.length} entries but problem ${problem.id} has dimension ${n}`);
-  }
-  const a = toleranceVector(atol, n);
-  for (let i = 0; i < n; i++) {
-    if (!(a[i]! >= 0) || !Number.isFinite(a[i]!)) throw new InputError(`atol must be non-negative, got ${a[i]}`);
-  }
-  return { rtol, atol: a };
-}
-
-export function parseFixed(problem: Problem, setting: Setting, methodId: string): { steps: number; h: number } {
-  if (isAdaptiveSetting(setting) || !('steps' in setting)) {
-    throw new InputError(`method ${methodId} is fixed-step and needs {steps}`);
-  }
-  const steps = setting.steps;
-  if (!Number.isInteger(steps) || steps < 1) throw new InputError(`steps must be a positive integer, got ${steps}`);
-  return { steps, h: (problem.tEnd - problem.t0) / steps };
-}
-
-export function checkProblem(problem: Problem): void {
-  const n = problem.dimension;
-  if (!Number.isInteger(n) || n < 1) throw new InputError(`problem ${problem.id} has invalid dimension ${n}`);
-  if (problem.y0.length !== n) throw new InputError(`problem ${problem.id}: y0 has ${problem.y0.length} entries, expected ${n}`);
-  if (!(problem.tEnd > problem.t0)) throw new InputError(`problem ${problem.id}: tEnd must exceed t0`);
 }
 
 /** Step size control: error-norm weights 1/(atol_i + rtol*max(|y_i|, |yNew_i|)) inverted. */
@@ -256,8 +226,9 @@ export function solveAdaptive(
   createStepper: StepperFactory,
   mapTolerances?: (requested: Tolerances) => Tolerances,
 ): SolveResult {
-  checkProblem(problem);
-  const requested = parseAdaptive(problem, setting, methodId);
+  checkProblem(problem, methodId);
+  checkOptions(options, methodId);
+  const requested = adaptiveTolerances(setting, problem.dimension, methodId, { rtolMayBeZero: false });
   const tol = mapTolerances ? mapTolerances(requested) : requested;
   const counts = zeroCounts();
   const n = problem.dimension;

@@ -5,7 +5,8 @@
 import { makeJacobianSource } from '../../core/jacobian.js';
 import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
-import { checkProblem, parseFixed } from './common.js';
+import { fixedStepCount } from '../../core/setting.js';
+import { checkOptions, checkProblem } from '../rules.js';
 import { driveFixed } from './fixed-step.js';
 import { newtonBuffers, solveStage } from './theta-newton.js';
 import { withLease } from '../work-lease.js';
@@ -21,8 +22,9 @@ export function oneStageFixedMethod(meta: OneStageMeta, theta: 1 | 0.5): Method 
     adaptive: false,
     stiff: true,
     solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-      checkProblem(problem);
-      const { steps } = parseFixed(problem, setting, meta.id);
+      checkProblem(problem, meta.id);
+      checkOptions(options, meta.id);
+      const steps = fixedStepCount(setting, meta.id);
       const n = problem.dimension;
       const counts = zeroCounts();
       return withLease(owner, n, (lease) => {

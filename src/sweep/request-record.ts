@@ -1,0 +1,54 @@
+// A sweep request as a journal or results.json saves it (`request`), read back for --resume under
+// the rules a fresh request obeys (core/setting.ts for tolerances and step counts), so a damaged
+// or hand-edited record fails with its field named instead of steering the sweep.
+import { requestedRtolProblem, requestedStepsProblem } from '../core/setting.js';
+import { Validator } from '../results/validate.js';
+import type { SweepRequest } from './run.js';
+
+const CONTROLLERS = ['standard', 'pi'] as const;
+
+/** A recorded request: its inputs are whatever an older or newer stepgauge wrote, checked before use (sweep/inputs.ts). */
+export type ResumableRequest = Omit<SweepRequest, 'inputs'> & { inputs?: unknown };
+
+export function requestFromRecord(record: unknown, where: string): ResumableRequest {
+  const v = new Validator(where);
+  const r = v.object(record, 'request');
+  const req: ResumableRequest = {};
+  if (r.problem !== undefined) req.problem = v.string(r.problem, 'request.problem');
+  if (r.method !== undefined) req.method = v.string(r.method, 'request.method');
+  if (r.tolerances !== undefined) {
+    req.tolerances = v.array(r.tolerances, 'request.tolerances').map((x, i) => {
+      const rtol = v.number(x, `request.tolerances[${i}]`);
+      const problem = requestedRtolProblem(rtol);
+      if (problem) v.fail(`request.tolerances[${i}]`, problem);
+      return rtol;
+    });
+  }
+  if (r.steps !== undefined) {
+    req.steps = v.array(r.steps, 'request.steps').map((x, i) => {
+      const steps = v.number(x, `request.steps[${i}]`);
+      const problem = requestedStepsProblem(steps);
+      if (problem) v.fail(`request.steps[${i}]`, problem);
+      return steps;
+    });
+  }
+  if (r.maxSteps !== undefined) req.maxSteps = v.integer(r.maxSteps, 'request.maxSteps', 1);
+  if (r.timing !== undefined && r.timing !== null) {
+    const t = v.object(r.timing, 'request.timing');
+    req.timing = { budgetSeconds: v.positive(t.budgetSeconds, 'request.timing.budgetSeconds'), minSamples: v.integer(t.minSamples, 'request.timing.minSamples', 1) };
+  }
+  if (r.controller !== undefined) {
+    if (!CONTROLLERS.includes(r.controller as (typeof CONTROLLERS)[number])) v.fail('request.controller', `is ${JSON.stringify(r.controller)}, expected standard or pi`);
+    req.controller = r.controller as (typeof CONTROLLERS)[number];
+  }
+  if (r.runTimeoutSeconds !== undefined) req.runTimeoutSeconds = v.positive(r.runTimeoutSeconds, 'request.runTimeoutSeconds');
+  if (r.shard !== undefined) {
+    const s = v.object(r.shard, 'request.shard');
+    const count = v.integer(s.count, 'request.shard.count', 1);
+    const index = v.integer(s.index, 'request.shard.index', 1);
+    if (index > count) v.fail('request.shard.index', `is ${index}, expected at most the shard count ${count}`);
+    req.shard = { index, count };
+  }
+  if (r.inputs !== undefined) req.inputs = r.inputs;
+  return req;
+}
