@@ -26,8 +26,11 @@ export function toleranceVector(tol: number | readonly number[], n: number): Flo
 }
 
 /**
- * Weighted RMS norm of err with weights 1 / (atol_i + rtol * max(|y_i|, |yNew_i|)), the usual
- * scale of Hairer, Norsett and Wanner, Solving ODEs I, sec. II.4.
+ * The error norm every adaptive engine steps by: the RMS of err_i / sc_i with the scale
+ * sc_i = atol_i + rtol * max(|y_i|, |yNew_i|) of Hairer, Norsett and Wanner, Solving ODEs I,
+ * sec. II.4. scaledRmsNorm divides by sc_i; an engine that takes several norms with one scale
+ * (bdf-variable) keeps 1 / sc_i (inverseScales) and multiplies (weightedRms). Each engine keeps
+ * the form it was measured with: the two differ in the last bit, and a bit can move a step.
  */
 export function scaledRmsNorm(
   err: Float64Array,
@@ -46,4 +49,23 @@ export function scaledRmsNorm(
     sum += r * r;
   }
   return Math.sqrt(sum / n);
+}
+
+/** 1 / sc_i for weightedRms: out_i = 1 / (atol_i + rtol * max(|y_i|, |yNew_i|)). */
+export function inverseScales(y: Float64Array, yNew: Float64Array, rtol: number, atol: Float64Array, out: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) {
+    const a = Math.abs(y[i]!);
+    const b = Math.abs(yNew[i]!);
+    out[i] = 1 / (atol[i]! + rtol * (a > b ? a : b));
+  }
+}
+
+/** RMS of v_i * w_i, w from inverseScales. */
+export function weightedRms(v: Float64Array, w: Float64Array, n: number): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) {
+    const r = v[i]! * w[i]!;
+    s += r * r;
+  }
+  return Math.sqrt(s / n);
 }

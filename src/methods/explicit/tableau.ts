@@ -158,7 +158,8 @@ function sparse(w: readonly number[]): { col: Int32Array; val: Float64Array } {
   return { col: Int32Array.from(cols), val: Float64Array.from(vals) };
 }
 
-function difference(b: readonly number[], bHat: readonly number[]): number[] {
+/** Error coefficients b - bHat of an embedded pair (the compiled tableau and the generated kernels use them). */
+export function errorCoefficients(b: readonly number[], bHat: readonly number[]): number[] {
   return b.map((v, i) => v - (bHat[i] ?? 0));
 }
 
@@ -198,8 +199,8 @@ export function compileTableau(d: TableauData, kernel?: KernelFactory): Tableau 
   }
   const fsal = isFsal(d);
   const bs = sparse(w.b);
-  const es = sparse(w.bHat ? difference(w.b, w.bHat) : []);
-  const e2s = sparse(w.bHat2 ? difference(w.b, w.bHat2) : []);
+  const es = sparse(w.bHat ? errorCoefficients(w.b, w.bHat) : []);
+  const e2s = sparse(w.bHat2 ? errorCoefficients(w.b, w.bHat2) : []);
   const embeddedOrder = d.embeddedOrder ?? 0;
   if (kernel && !d.bHat) throw new InputError('a stage kernel needs an embedded pair (bHat)');
   return {

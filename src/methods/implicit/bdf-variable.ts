@@ -6,6 +6,7 @@
 // simplified Newton with the Jacobian kept until Newton fails.
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
+import { inverseScales, weightedRms } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { rescaleDifferences } from './bdf-rescale.js';
 import { EPS, dampedTimesWithin, powInt, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
@@ -56,14 +57,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   f(problem.t0, y, f0);
   counts.nfev++;
 
-  function norm(v: Float64Array): number {
-    let s = 0;
-    for (let i = 0; i < n; i++) {
-      const r = v[i]! * w[i]!;
-      s += r * r;
-    }
-    return Math.sqrt(s / n);
-  }
+  const norm = (v: Float64Array): number => weightedRms(v, w, n);
 
   // The attempt is split into phases, each its own function: V8 compiles a function again
   // whenever it meets a branch or a right-hand side it had not seen when it first compiled it,
@@ -208,11 +202,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       }
       return propose(proposal, false, 0.5 * h);
     }
-    for (let i = 0; i < n; i++) {
-      const a = Math.abs(y[i]!);
-      const b = Math.abs(ycur[i]!);
-      w[i] = 1 / (atol[i]! + rtol * (a > b ? a : b));
-    }
+    inverseScales(y, ycur, rtol, atol, w, n);
     const err = norm(dcor) / (k + 1);
     st.err = err;
     if (!(err <= 1)) {

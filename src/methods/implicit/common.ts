@@ -18,25 +18,6 @@ export interface Tolerances {
   readonly atol: Float64Array;
 }
 
-/** Step size control: error-norm weights 1/(atol_i + rtol*max(|y_i|, |yNew_i|)) inverted. */
-export function errorWeights(y: Float64Array, yNew: Float64Array, tol: Tolerances, out: Float64Array, n: number): void {
-  for (let i = 0; i < n; i++) {
-    const a = Math.abs(y[i]!);
-    const b = Math.abs(yNew[i]!);
-    out[i] = 1 / (tol.atol[i]! + tol.rtol * (a > b ? a : b));
-  }
-}
-
-/** RMS norm of v with precomputed inverse weights w. */
-export function weightedRms(v: Float64Array, w: Float64Array, n: number): number {
-  let s = 0;
-  for (let i = 0; i < n; i++) {
-    const r = v[i]! * w[i]!;
-    s += r * r;
-  }
-  return Math.sqrt(s / n);
-}
-
 /**
  * Starting step of Hairer, Norsett & Wanner, Solving ODEs I, sec. II.4 (algorithm "starting step
  * size"): one explicit Euler probe, so it costs one f evaluation (counted). f0 = f(t0, y0).

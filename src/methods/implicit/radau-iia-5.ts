@@ -7,6 +7,7 @@
 // and the predictive step-size controller of Gustafsson (8.25).
 import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
+import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
@@ -74,6 +75,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const ytmp = lease.float64(n), ftmp = lease.float64(n);
   const cont1 = lease.float64(n), cont2 = lease.float64(n), cont3 = lease.float64(n);
   const scal = lease.float64(n);
+  const yEnd = lease.float64(n);
   const e1 = lease.float64(n * n), e2r = lease.float64(n * n), e2i = lease.float64(n * n);
   const piv1 = lease.int32(n), piv2 = lease.int32(n);
   const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
@@ -112,16 +114,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     return true;
   }
 
-  function errorNorm(v: Float64Array): number {
-    let s = 0;
-    for (let i = 0; i < n; i++) {
-      const a = Math.abs(y[i]!);
-      const b = Math.abs(y[i]! + z3[i]!);
-      const r = v[i]! / (atol[i]! + rtol * (a > b ? a : b));
-      s += r * r;
-    }
-    return Math.max(Math.sqrt(s / n), 1e-10);
-  }
+  /** The step's error norm, scaled by y and the step's end y + z3 (yEnd, set by estimateError). */
+  const errorNorm = (v: Float64Array): number => Math.max(scaledRmsNorm(v, y, yEnd, rtol, atol, n), 1e-10);
 
   // The attempt is split into its phases, each its own function: V8 compiles a function again
   // whenever it meets a branch or a right-hand side it had not seen when it first compiled it,
@@ -233,6 +227,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       const c = dz1 * z1[i]! + dz2 * z2[i]! + dz3 * z3[i]!;
       ftmp[i] = c; // kept for the filtered second estimate
       g1[i] = f0[i]! + c;
+      yEnd[i] = y[i]! + z3[i]!;
     }
     luSolve(e1, n, piv1, g1);
     let err = errorNorm(g1);

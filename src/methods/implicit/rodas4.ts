@@ -9,6 +9,7 @@
 // not declare whether they are autonomous.
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
+import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
@@ -123,17 +124,12 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       }
       luSolve(M, n, piv, us);
     }
-    let s2 = 0;
-    const err6 = u[STAGES - 1]!;
     for (let i = 0; i < n; i++) {
       let v = y[i]!;
       for (let j = 0; j < STAGES; j++) v += m[j]! * u[j]![i]!;
       ynew[i] = v;
-      const sc = atol[i]! + rtol * Math.max(Math.abs(y[i]!), Math.abs(v));
-      const r = err6[i]! / sc;
-      s2 += r * r;
     }
-    const err = Math.sqrt(s2 / n);
+    const err = scaledRmsNorm(u[STAGES - 1]!, y, ynew, rtol, atol, n);
     const quot = Number.isFinite(err) ? Math.max(1 / FAC_UP, Math.min(FAC_DOWN, err ** 0.25 / SAFE)) : FAC_DOWN;
     let hnew = h / quot;
     if (!(err <= 1)) {

@@ -31,6 +31,7 @@
 // 100000 steps.
 import { luFactor, luSolve } from '../../core/lu.js';
 import { makeJacobianSource } from '../../core/jacobian.js';
+import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { DECIDE_BAND, EPS, dampedTimesWithin, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
@@ -206,13 +207,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     }
     for (let i = 0; i < n; i++) est[i] = h * (E[0]! * f1[i]! + E[1]! * f2[i]! + E[2]! * f3[i]!);
     luSolve(M, n, piv, est);
-    let s = 0;
-    for (let i = 0; i < n; i++) {
-      const sc = atol[i]! + rtol * Math.max(Math.abs(y[i]!), Math.abs(z[i]!));
-      const r = est[i]! / sc;
-      s += r * r;
-    }
-    const err = Math.sqrt(s / n);
+    const err = scaledRmsNorm(est, y, z, rtol, atol, n);
     if (!(err <= 1)) {
       reject = true;
       const factor = Number.isFinite(err) ? Math.max(MIN_FACTOR, SAFE * err ** (-1 / 3)) : MIN_FACTOR;

@@ -11,7 +11,7 @@
 import { InputError } from '../../../core/errors.js';
 import type { Rhs } from '../../../core/types.js';
 import { COMBINED_ERR3_WEIGHT } from '../control.js';
-import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, isFsal, workingWeights, type KernelFactory, type StageKernel, type TableauData } from '../tableau.js';
+import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, errorCoefficients, isFsal, workingWeights, type KernelFactory, type StageKernel, type TableauData } from '../tableau.js';
 
 /** Largest state size whose component loop is written out; larger systems loop. */
 export const UNROLL_MAX_N = 8;
@@ -59,10 +59,6 @@ function stageTime(c: number): string {
   return c === 1 ? 'tNew' : c === 0 ? 't' : `t + ${lit(c)} * h`;
 }
 
-function errorDifference(b: readonly number[], bHat: readonly number[]): number[] {
-  return b.map((v, i) => v - (bHat[i] ?? 0));
-}
-
 function scale(j: string): string {
   return `const ya = Math.abs(y[${j}]); const yb = Math.abs(yNew[${j}]); const sk = atol[${j}] + rtol * (ya > yb ? ya : yb);`;
 }
@@ -73,13 +69,13 @@ function scale(j: string): string {
  * boxed by V8 and allocated heap numbers every step (measured: a scavenge every ~60,000 steps).
  */
 function errorTerm(d: ReturnType<typeof workingWeights>, ix: Indexing, fsalStage: number | null): string {
-  const e = combination(errorDifference(d.b, d.bHat!), ix);
+  const e = combination(errorCoefficients(d.b, d.bHat!), ix);
   if (e === null) throw new InputError('an unrolled kernel needs nonzero error weights');
   // v - v is 0 for finite v and NaN otherwise: the finiteness check rides along with the norm.
   const j = ix.j;
   const bad = `bad += yNew[${j}] - yNew[${j}];` + (fsalStage === null ? '' : ` bad += ${ix.stage(fsalStage)} - ${ix.stage(fsalStage)};`);
   if (!d.bHat2) return `{ ${scale(j)} const r = (h * (${e})) / sk; sum += r * r; ${bad} }`;
-  const e2 = combination(errorDifference(d.b, d.bHat2), ix) ?? '0';
+  const e2 = combination(errorCoefficients(d.b, d.bHat2), ix) ?? '0';
   return `{ ${scale(j)} const a5 = (${e}) / sk; const a3 = (${e2}) / sk; s5 += a5 * a5; s3 += a3 * a3; ${bad} }`;
 }
 
