@@ -1,7 +1,5 @@
-// Step-size control for the embedded pairs: the constants, the two controllers and the automatic
-// initial step. Every constant lives here, once.
-import { scaledRmsNorm } from '../../core/vector.js';
-import type { Rhs } from '../../core/types.js';
+// Step-size control for the embedded pairs: the constants and the two controllers. Every constant
+// lives here, once; the starting step, shared with the implicit engines, is methods/starting-step.ts.
 
 /** Safety factor on the predicted optimal step (HNW I, sec. II.4, eq. (4.13)). */
 export const SAFETY = 0.9;
@@ -48,37 +46,4 @@ export function piFactor(err: number, errPrev: number, k: number, facMax: number
   if (!(err > 0)) return facMax;
   const fac = SAFETY * Math.exp((Math.log(errPrev) * PI_BETA - Math.log(err) * PI_ALPHA) / k);
   return fac > facMax ? facMax : fac < FAC_MIN ? FAC_MIN : fac;
-}
-
-/**
- * Initial step of Hairer, Norsett and Wanner, Solving ODEs I, sec. II.4 ("Starting step size"):
- * one extra f evaluation at t0 + h0 (the caller counts it). f0 = f(t0, y0) is given; `order` is
- * the order of the method (p in the book). y1 and f1 are scratch buffers of length n.
- */
-export function initialStep(
-  f: Rhs,
-  t0: number,
-  y0: Float64Array,
-  f0: Float64Array,
-  order: number,
-  rtol: number,
-  atol: Float64Array,
-  span: number,
-  y1: Float64Array,
-  f1: Float64Array,
-  n: number,
-): number {
-  const d0 = scaledRmsNorm(y0, y0, y0, rtol, atol, n);
-  const d1 = scaledRmsNorm(f0, y0, y0, rtol, atol, n);
-  let h0 = d0 < 1e-5 || d1 < 1e-5 ? 1e-6 : 0.01 * (d0 / d1);
-  if (h0 > span) h0 = span;
-  for (let i = 0; i < n; i++) y1[i] = y0[i]! + h0 * f0[i]!;
-  f(t0 + h0, y1, f1);
-  for (let i = 0; i < n; i++) f1[i] = (f1[i]! - f0[i]!) / h0;
-  const d2 = scaledRmsNorm(f1, y0, y0, rtol, atol, n);
-  const m = d1 > d2 ? d1 : d2;
-  const h1 = m <= 1e-15 ? Math.max(1e-6, h0 * 1e-3) : Math.pow(0.01 / m, 1 / (order + 1));
-  let h = Math.min(100 * h0, h1);
-  if (!(h > 0) || !Number.isFinite(h)) h = h0;
-  return h > span ? span : h;
 }

@@ -12,10 +12,10 @@ import {
   NONFINITE_SHRINK,
   PI_ERR_FLOOR,
   UNDERFLOW_ULPS,
-  initialStep,
   piFactor,
   standardFactor,
 } from './control.js';
+import { startingStep } from '../starting-step.js';
 import { finish } from './finish.js';
 import { genericStep } from './generic-step.js';
 import { stopTimes } from '../stop-times.js';
@@ -105,7 +105,7 @@ function stepAdaptively(
   let h: number;
   if (options.initialStep !== undefined) h = Math.min(options.initialStep, tEnd - t0);
   else {
-    h = initialStep(f, t0, y, kRow[0]!, tab.order, rtol, atol, tEnd - t0, yStage, kRow[1 % s]!, n);
+    h = startingStep(f, t0, y, kRow[0]!, tab.order, rtol, atol, tEnd - t0, yStage, kRow[1 % s]!, n, 'divide');
     counts.nfev++;
   }
   if (observer) observer(t, y);

@@ -4,6 +4,7 @@
 // method honours SolveOptions the same way.
 import { adaptiveTolerances } from '../../core/setting.js';
 import { checkOptions, checkProblem } from '../rules.js';
+import { startingStep } from '../starting-step.js';
 import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { allFinite } from '../../core/vector.js';
@@ -16,50 +17,6 @@ const EPS = 2.220446049250313e-16;
 export interface Tolerances {
   readonly rtol: number;
   readonly atol: Float64Array;
-}
-
-/**
- * Starting step of Hairer, Norsett & Wanner, Solving ODEs I, sec. II.4 (algorithm "starting step
- * size"): one explicit Euler probe, so it costs one f evaluation (counted). f0 = f(t0, y0).
- */
-export function startingStep(
-  problem: Problem,
-  y0: Float64Array,
-  f0: Float64Array,
-  order: number,
-  tol: Tolerances,
-  counts: Counts,
-  yWork: Float64Array,
-  fWork: Float64Array,
-): number {
-  const n = problem.dimension;
-  const span = problem.tEnd - problem.t0;
-  let d0 = 0;
-  let d1 = 0;
-  for (let i = 0; i < n; i++) {
-    const sc = tol.atol[i]! + tol.rtol * Math.abs(y0[i]!);
-    const w = sc > 0 ? 1 / sc : 1 / EPS;
-    d0 += (y0[i]! * w) ** 2;
-    d1 += (f0[i]! * w) ** 2;
-  }
-  d0 = Math.sqrt(d0 / n);
-  d1 = Math.sqrt(d1 / n);
-  let h0 = d0 < 1e-5 || d1 < 1e-5 ? 1e-6 : 0.01 * (d0 / d1);
-  h0 = Math.min(h0, span);
-  for (let i = 0; i < n; i++) yWork[i] = y0[i]! + h0 * f0[i]!;
-  problem.f(problem.t0 + h0, yWork, fWork);
-  counts.nfev++;
-  let d2 = 0;
-  for (let i = 0; i < n; i++) {
-    const sc = tol.atol[i]! + tol.rtol * Math.abs(y0[i]!);
-    const w = sc > 0 ? 1 / sc : 1 / EPS;
-    d2 += ((fWork[i]! - f0[i]!) * w) ** 2;
-  }
-  d2 = Math.sqrt(d2 / n) / h0;
-  if (!Number.isFinite(d2)) return Math.max(1e-6 * Math.min(1, span), 1e-12 * span);
-  const m = Math.max(d1, d2);
-  const h1 = m <= 1e-15 ? Math.max(1e-6, h0 * 1e-3) : (0.01 / m) ** (1 / (order + 1));
-  return Math.min(100 * h0, h1, span);
 }
 
 /**
@@ -216,9 +173,15 @@ export function solveAdaptive(
   // The stepper's buffers come from a lease kept per method and state size (work-lease.ts).
   return withLease(createStepper, n, (lease) => {
     const stepper = createStepper(problem, tol, counts, lease);
-    const h0 = options.initialStep ?? startingStep(problem, stepper.y, stepper.f0, order, tol, counts, lease.float64(n), lease.float64(n));
+    const h0 = options.initialStep ?? firstStep(problem, stepper.y, stepper.f0, order, tol, counts, lease.float64(n), lease.float64(n));
     return drive(problem, options, stepper, h0, counts, methodId);
   });
+}
+
+/** The shared starting step (methods/starting-step.ts), its probe evaluation counted. */
+function firstStep(problem: Problem, y0: Float64Array, f0: Float64Array, order: number, tol: Tolerances, counts: Counts, yWork: Float64Array, fWork: Float64Array): number {
+  counts.nfev++;
+  return startingStep(problem.f, problem.t0, y0, f0, order, tol.rtol, tol.atol, problem.tEnd - problem.t0, yWork, fWork, problem.dimension, 'reciprocal');
 }
 
 export { zeroCounts, EPS };
