@@ -16,7 +16,7 @@ import {
   standardFactor,
 } from './control.js';
 import { startingStep } from '../starting-step.js';
-import { finish } from './finish.js';
+import { finish } from '../finish.js';
 import { genericStep } from './generic-step.js';
 import { stopTimes } from '../stop-times.js';
 import { budgetStop } from '../budget.js';

@@ -2,12 +2,10 @@
 // and compositions of it. The right-hand side is the problem's full f; each call is one nfev and
 // only the components the sub-flow needs are read from it.
 import { InputError } from '../../core/errors.js';
-import type { Counts, Problem, Setting, SolveOptions, SolveResult, Status } from '../../core/types.js';
+import type { Counts, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
-import { allFinite } from '../../core/vector.js';
-import { budgetStop } from '../budget.js';
 import { withLease, type WorkLease } from '../work-lease.js';
-import { finish } from './finish.js';
+import { driveFixed } from '../fixed-step.js';
 import { checkOptions, checkProblem } from '../rules.js';
 import { fixedStepCount } from '../../core/setting.js';
 
@@ -72,34 +70,17 @@ function stepComposition(
   const np = pos.length;
   const nv = vel.length;
   const n = problem.dimension;
-  const t0 = problem.t0;
-  const tEnd = problem.tEnd;
-  const h = (tEnd - t0) / steps;
   const f = problem.f;
   const m = weights.length;
-  const observer = options.observer;
-  const deadline = options.deadline;
-  const maxSteps = options.maxSteps;
-
   const y = lease.copyOf(problem.y0);
   const force = lease.float64(n);
   const drift = lease.float64(n);
   const counts: Counts = zeroCounts();
-  let status: Status = 'ok';
-  let message: string | undefined;
-  let t = t0;
-  if (!allFinite(y, n)) return finish('diverged', 'y0 is not finite', t, y, counts, h);
-  f(t, y, force);
-  counts.nfev++;
-  if (observer) observer(t, y);
-
-  for (let step = 0; step < steps; step++) {
-    const stop = budgetStop(step, maxSteps, deadline, t);
-    if (stop !== null) {
-      status = stop.status;
-      message = stop.message;
-      break;
-    }
+  const start = (): void => {
+    f(problem.t0, y, force);
+    counts.nfev++;
+  };
+  return driveFixed(problem, options, y, steps, (t, h, tNext) => {
     let tau = t;
     for (let k = 0; k < m; k++) {
       const hk = h * weights[k]!;
@@ -113,7 +94,7 @@ function stepComposition(
         const q = pos[i]!;
         y[q] = y[q]! + hk * drift[q]!;
       }
-      tau = k + 1 === m ? (step + 1 === steps ? tEnd : t0 + (step + 1) * h) : tau + hk;
+      tau = k + 1 === m ? tNext : tau + hk;
       f(tau, y, force);
       for (let i = 0; i < nv; i++) {
         const v = vel[i]!;
@@ -121,16 +102,8 @@ function stepComposition(
       }
     }
     counts.nfev += 2 * m;
-    t = tau;
-    counts.accepted++;
-    if (!allFinite(y, n)) {
-      status = 'diverged';
-      message = `state became non-finite at t=${t}`;
-      break;
-    }
-    if (observer) observer(t, y);
-  }
-  return finish(status, message, t, y, counts, h);
+    return undefined;
+  }, counts, start);
 }
 
 /** Stormer-Verlet: one substep. */

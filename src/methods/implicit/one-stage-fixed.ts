@@ -7,7 +7,7 @@ import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../
 import { zeroCounts } from '../../core/types.js';
 import { fixedStepCount } from '../../core/setting.js';
 import { checkOptions, checkProblem } from '../rules.js';
-import { driveFixed } from './fixed-step.js';
+import { driveFixed } from '../fixed-step.js';
 import { newtonBuffers, solveStage } from './theta-newton.js';
 import { withLease } from '../work-lease.js';
 

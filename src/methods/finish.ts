@@ -1,5 +1,5 @@
-// Builds the SolveResult every explicit engine returns (the state is copied out of the work buffer).
-import type { Counts, SolveResult, Status } from '../../core/types.js';
+// Builds the SolveResult every engine's driver returns (the state is copied out of the work buffer).
+import type { Counts, SolveResult, Status } from '../core/types.js';
 
 export function finish(
   status: Status,
