@@ -13,7 +13,7 @@
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { expm } from '../../core/expm.js';
-import { fixedSteps } from '../explicit/validate.js';
+import { fixedStepCount } from '../../core/setting.js';
 
 type Hold = 'zero' | 'first';
 
@@ -44,7 +44,7 @@ export function holdMatrices(A: Float64Array, B: Float64Array, n: number, m: num
 function solveHold(hold: Hold, methodId: string, problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
   const lin = problem.linear;
   if (!lin) throw new Error(`${methodId} needs a linear problem x' = A x + B u; ${problem.id} is not one`);
-  const steps = fixedSteps(setting, methodId);
+  const steps = fixedStepCount(setting, methodId);
   const n = problem.dimension;
   const m = lin.inputs;
   const t0 = problem.t0;
