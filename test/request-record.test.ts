@@ -11,6 +11,10 @@ describe('a saved sweep request', () => {
     expect(requestFromRecord(JSON.parse(JSON.stringify(sweepRequestRecord(req))), 'results.json')).toEqual(req);
   });
 
+  it('keeps "no timing" as it was saved (null)', () => {
+    expect(requestFromRecord({ timing: null, maxSteps: 10 }, 'results.json')).toEqual({ timing: null, maxSteps: 10 });
+  });
+
   it.each([
     [{ tolerances: [5] }, /request\.tolerances\[0\].*must be below 1/],
     [{ tolerances: [1e-20] }, /request\.tolerances\[0\].*below double precision/],

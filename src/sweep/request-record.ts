@@ -33,7 +33,8 @@ export function requestFromRecord(record: unknown, where: string): ResumableRequ
     });
   }
   if (r.maxSteps !== undefined) req.maxSteps = v.integer(r.maxSteps, 'request.maxSteps', 1);
-  if (r.timing !== undefined && r.timing !== null) {
+  if (r.timing === null) req.timing = null;
+  else if (r.timing !== undefined) {
     const t = v.object(r.timing, 'request.timing');
     req.timing = { budgetSeconds: v.positive(t.budgetSeconds, 'request.timing.budgetSeconds'), minSamples: v.integer(t.minSamples, 'request.timing.minSamples', 1) };
   }
