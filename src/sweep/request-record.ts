@@ -16,22 +16,16 @@ export function requestFromRecord(record: unknown, where: string): ResumableRequ
   const req: ResumableRequest = {};
   if (r.problem !== undefined) req.problem = v.string(r.problem, 'request.problem');
   if (r.method !== undefined) req.method = v.string(r.method, 'request.method');
-  if (r.tolerances !== undefined) {
-    req.tolerances = v.array(r.tolerances, 'request.tolerances').map((x, i) => {
-      const rtol = v.number(x, `request.tolerances[${i}]`);
-      const problem = requestedRtolProblem(rtol);
-      if (problem) v.fail(`request.tolerances[${i}]`, problem);
-      return rtol;
+  /** A list of numbers, each held to the rule a fresh request's flag holds it to. */
+  const checkedList = (value: unknown, field: string, problemOf: (x: number) => string | null): number[] =>
+    v.array(value, field).map((x, i) => {
+      const n = v.number(x, `${field}[${i}]`);
+      const problem = problemOf(n);
+      if (problem) v.fail(`${field}[${i}]`, problem);
+      return n;
     });
-  }
-  if (r.steps !== undefined) {
-    req.steps = v.array(r.steps, 'request.steps').map((x, i) => {
-      const steps = v.number(x, `request.steps[${i}]`);
-      const problem = requestedStepsProblem(steps);
-      if (problem) v.fail(`request.steps[${i}]`, problem);
-      return steps;
-    });
-  }
+  if (r.tolerances !== undefined) req.tolerances = checkedList(r.tolerances, 'request.tolerances', requestedRtolProblem);
+  if (r.steps !== undefined) req.steps = checkedList(r.steps, 'request.steps', requestedStepsProblem);
   if (r.maxSteps !== undefined) req.maxSteps = v.integer(r.maxSteps, 'request.maxSteps', 1);
   if (r.timing === null) req.timing = null;
   else if (r.timing !== undefined) {
