@@ -228,3 +228,23 @@ describe('orbit and events in a module problem (defineProblem)', () => {
     ).toThrow(/bad-event.*direction must be rising, falling or both|direction must be rising, falling or both/);
   });
 });
+
+describe('orbit and events in a problem file', () => {
+  it('the eclipse orbit written as a file finds the catalogue\'s analytic eclipse times within 1e-6 s (dormand-prince-853, rtol 1e-10)', async () => {
+    const { loadProblemFile } = await import('../src/problems/load-file.js');
+    const { join } = await import('node:path');
+    const p = await loadProblemFile(join(import.meta.dirname, '..', 'examples', 'eclipse-orbit.yaml'));
+    expect(p.orbit).toEqual({ position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' });
+    const analytic = findProblem('eclipse-circular-orbit')!.reference.eventTimes!;
+    const run = measureRun(p, findMethod('dormand-prince-853')!, { rtol: 1e-10, atol: 1e-10 }, { maxSteps: 1e6 });
+    for (const name of ['eclipse-entry', 'eclipse-exit']) {
+      const e = run.events![name]!;
+      // The reference crossings are located on the file's exact solution; they are the analytic ones.
+      e.reference!.forEach((t, k) => expect(Math.abs(t - analytic[name]![k]!)).toBeLessThan(1e-7));
+      expect(e.missed).toBe(0);
+      expect(e.extra).toBe(0);
+      e.times.forEach((t, k) => expect(Math.abs(t - analytic[name]![k]!)).toBeLessThan(1e-6));
+    }
+    expect(run.orbitError!.final!.position).toBeGreaterThan(0);
+  });
+});

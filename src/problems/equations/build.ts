@@ -2,7 +2,7 @@
 // compiles f, invariants, outputs and the exact reference to JavaScript, forms the symbolic
 // Jacobian and finds (or checks) the separable split.
 import { basename } from 'node:path';
-import type { Reference, SeparableSplit } from '../../core/types.js';
+import type { OrbitStates, Reference, SeparableSplit } from '../../core/types.js';
 import { DERIVATIVE_FUNCTIONS, USER_FUNCTIONS } from '../expression/functions.js';
 import { ExpressionRejected, symbolsOf, type AstNode } from '../expression/emit.js';
 import { parseExpression } from '../expression/parse.js';
@@ -89,6 +89,13 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     return { name, fn: compileScalarFunction(n, js, neededDefinitions(symbolsOf(node), definitions), bindings) };
   });
 
+  const events = Object.entries(spec.events ?? {}).map(([name, ev]) => {
+    if (!/^[a-z0-9]+(-[a-z0-9]+)*$/.test(name)) fail(site, ['events', name], `event name '${name}' must be kebab-case`);
+    const { js, node } = emitField(site, ['events', name, 'expression'], ev.expression, fullScope);
+    return { name, direction: ev.direction ?? 'both', fn: compileScalarFunction(n, js, neededDefinitions(symbolsOf(node), definitions), bindings) };
+  });
+  const orbit = spec.orbit ? readOrbit(site, spec.orbit, states) : undefined;
+
   const outputNames = Object.keys(spec.outputs ?? {});
   const outputs = outputNames.length
     ? (() => {
@@ -140,9 +147,23 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     ...(separable ? { separable } : {}),
     ...(separableReason ? { separableReason } : {}),
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
+    ...(events.length ? { events } : {}),
+    ...(orbit ? { orbit } : {}),
     definition: canonicalJson(tables ? { file: site.data, tableValues: tables.canonical } : site.data),
     origin: site.file,
   };
+}
+
+function readOrbit(site: StructuredFile, o: NonNullable<EquationFile['orbit']>, states: readonly string[]): OrbitStates {
+  const index = (field: 'position' | 'velocity', k: number): number => {
+    const i = states.indexOf(o[field][k]!);
+    if (i < 0) fail(site, ['orbit', field, k], `'${o[field][k]}' is not a state`);
+    return i;
+  };
+  const position = [0, 1, 2].map((k) => index('position', k)) as [number, number, number];
+  const velocity = [0, 1, 2].map((k) => index('velocity', k)) as [number, number, number];
+  if (new Set([...position, ...velocity]).size !== 6) fail(site, ['orbit'], 'position and velocity need six different states');
+  return { position, velocity, unit: o.unit };
 }
 
 function separability(site: StructuredFile, spec: EquationFile, d: Dependencies): { separable?: SeparableSplit; separableReason?: string } {

@@ -139,6 +139,16 @@ function expand(n: AstNode, ctx: Context): Value {
       }
       return { scalar: `${name}(${a.map((x, k) => scalarOf(x, `argument ${k + 1} of ${name}`)).join(', ')})` };
     }
+    case 'ConditionalNode': {
+      const c = scalarOf(expand(n['condition'] as AstNode, ctx), 'the condition');
+      const a = expand(n['trueExpr'] as AstNode, ctx);
+      const b = expand(n['falseExpr'] as AstNode, ctx);
+      if (isVector(a) && isVector(b)) {
+        sameLength(a, b, '?:');
+        return { parts: a.parts.map((p, k) => `(${c} ? ${p} : ${b.parts[k]})`) };
+      }
+      return { scalar: `(${c} ? ${scalarOf(a, 'the first branch')} : ${scalarOf(b, 'the second branch')})` };
+    }
     default:
       throw new ExpressionRejected(`vectors cannot be used inside \`${String((n as { toString(): string }).toString()).slice(0, 60)}\``);
   }
@@ -224,6 +234,15 @@ export function expandVectors(site: StructuredFile, spec: EquationFile): Equatio
   };
   const invariants = scalarField('invariants');
   const outputs = scalarField('outputs');
+  const events = spec.events
+    ? Object.fromEntries(
+        Object.entries(spec.events).map(([k, ev]) => {
+          const v = run(['events', k, 'expression'], ev.expression);
+          if (isVector(v)) fail(site, ['events', k, 'expression'], 'must be a number, not a vector (use norm, dot or a component)');
+          return [k, { ...ev, expression: v.scalar }];
+        }),
+      )
+    : undefined;
   const { vectors: _groups, ...rest } = spec;
   return {
     ...rest,
@@ -231,5 +250,6 @@ export function expandVectors(site: StructuredFile, spec: EquationFile): Equatio
     equations,
     ...(invariants ? { invariants } : {}),
     ...(outputs ? { outputs } : {}),
+    ...(events ? { events } : {}),
   };
 }

@@ -48,6 +48,12 @@ export const equationFileSchema = z.strictObject({
   states: z.array(z.string()).min(1),
   /** Named groups of states (or other scalar names), usable as vectors in expressions. */
   vectors: z.record(z.string(), z.array(z.string()).min(2)).optional(),
+  /** Event functions: the times where the expression crosses zero in the direction given. */
+  events: z
+    .record(z.string(), z.strictObject({ expression: expressionValue, direction: z.enum(['rising', 'falling', 'both']).optional() }))
+    .optional(),
+  /** An orbiting body's position and velocity states (three each), for radial / in-track / cross-track error. */
+  orbit: z.strictObject({ position: z.array(z.string()).length(3), velocity: z.array(z.string()).length(3), unit: z.string().min(1) }).optional(),
   /** Tables callable in expressions by name: rho(h). */
   tables: z.record(z.string(), tableSpec).optional(),
   definitions: namedExpressions.optional(),

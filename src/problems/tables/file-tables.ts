@@ -121,12 +121,16 @@ export function isolateTableCalls(site: StructuredFile, spec: EquationFile, tabl
   const equations = field('equations')!;
   const invariants = field('invariants');
   const outputs = field('outputs');
+  const events = spec.events
+    ? Object.fromEntries(Object.entries(spec.events).map(([k, ev]) => [k, { ...ev, expression: rewrite(['events', k, 'expression'], ev.expression) }]))
+    : undefined;
   return {
     ...spec,
     ...(Object.keys(definitions).length ? { definitions } : {}),
     equations,
     ...(invariants ? { invariants } : {}),
     ...(outputs ? { outputs } : {}),
+    ...(events ? { events } : {}),
   };
 }
 
