@@ -248,3 +248,17 @@ describe('orbit and events in a problem file', () => {
     expect(run.orbitError!.final!.position).toBeGreaterThan(0);
   });
 });
+
+describe('reference crossings without an exact reference', () => {
+  it('are located on a tight solve: within 1e-7 s of the analytic eclipse times', async () => {
+    const { referenceEventTimes } = await import('../src/measure/events.js');
+    const p = findProblem('eclipse-circular-orbit')!;
+    const withoutExact: Problem = { ...p, reference: { kind: 'certified', points: [] }, definition: `${p.definition}\n(no exact reference)` };
+    const times = referenceEventTimes(withoutExact)!;
+    for (const name of ['eclipse-entry', 'eclipse-exit']) {
+      const analytic = p.reference.eventTimes![name]!;
+      expect(times[name]!.length).toBe(analytic.length);
+      times[name]!.forEach((t, k) => expect(Math.abs(t - analytic[k]!)).toBeLessThan(1e-7));
+    }
+  });
+});

@@ -6,16 +6,29 @@
 // counts); it is stepgauge's, not the method's own dense output; a step that jumps over an even number
 // of crossings (a short eclipse) sees no sign change and the crossings are missed, as they would
 // be by any integrator that tests for events only at its steps.
-// Reference crossings: given by the problem (analytic), or located on an exact reference.
+// Reference crossings: given by the problem (analytic), located on an exact reference, or else
+// located on a tight solve of the problem (dormand-prince-853 at rtol 1e-13, steps bounded to a
+// hundredth of the span; not for stiff problems).
 import type { EventDirection, Problem } from '../core/types.js';
 import type { EventRecord } from '../results/contract.js';
 import { illinoisRoot } from '../core/root.js';
 import { hermiteAt, secondDerivative, type StepEnds } from './hermite.js';
+import { findMethod } from '../methods/registry.js';
+import { absoluteTolerance } from '../core/tolerance.js';
 
 /** Root-finding tolerance in time, relative to the span's time scale (|t| or the step). */
 const ROOT_REL_TOL = 4 * Number.EPSILON;
 /** Intervals of the scan for sign changes of g along an exact reference. */
 const EXACT_SCAN_INTERVALS = 20000;
+/**
+ * Without an exact reference, crossings are located on a tight solve: the method certificates
+ * use first, at the certificates' tolerance, with its steps bounded to a hundredth of the span
+ * so that no short event is stepped over unseen.
+ */
+const TIGHT_METHOD = 'dormand-prince-853';
+const TIGHT_RTOL = 1e-13;
+const TIGHT_MAX_STEPS = 5_000_000;
+const TIGHT_STEP_FRACTION = 0.01;
 
 export interface EventWatch {
   observe(t: number, y: Float64Array): void;
@@ -95,7 +108,7 @@ export function referenceEventTimes(problem: Problem): Record<string, number[]> 
   const given = problem.reference.eventTimes;
   if (given) return Object.fromEntries(events.map((ev) => [ev.name, [...(given[ev.name] ?? [])]]));
   const exact = problem.reference.exact;
-  if (!exact) return null;
+  if (!exact) return tightEventTimes(problem);
   const key = exact as object;
   if (exactCache.has(key)) return exactCache.get(key)!;
   const y = new Float64Array(problem.dimension);
@@ -115,6 +128,31 @@ export function referenceEventTimes(problem: Problem): Record<string, number[]> 
     });
   }
   exactCache.set(key, out);
+  return out;
+}
+
+const tightCache = new Map<string, Record<string, number[]> | null>();
+
+/** Crossings located on a tight solve of the problem itself (cached by its definition text). */
+function tightEventTimes(problem: Problem): Record<string, number[]> | null {
+  if (problem.stiff || problem.reference.unavailable) return null;
+  const key = problem.definition;
+  if (tightCache.has(key)) return tightCache.get(key)!;
+  const method = findMethod(TIGHT_METHOD);
+  let out: Record<string, number[]> | null = null;
+  if (method) {
+    const watch = watchEvents(problem)!;
+    const span = problem.tEnd - problem.t0;
+    const bound: number[] = [];
+    for (let k = 1; k < 1 / TIGHT_STEP_FRACTION; k++) bound.push(problem.t0 + span * k * TIGHT_STEP_FRACTION);
+    const result = method.solve(
+      problem,
+      { rtol: TIGHT_RTOL, atol: absoluteTolerance(problem, TIGHT_RTOL) },
+      { maxSteps: TIGHT_MAX_STEPS, checkTimes: bound, observer: (t, y) => watch.observe(t, y) },
+    );
+    if (result.status === 'ok') out = watch.found();
+  }
+  tightCache.set(key, out);
   return out;
 }
 
