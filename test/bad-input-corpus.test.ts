@@ -11,7 +11,7 @@ import { syncBuiltinESMExports } from 'node:module';
 import { tmpdir } from 'node:os';
 import { spawn, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { hostname } from 'node:os';
+import { availableParallelism, hostname } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runCli, type CliResult } from './helpers/cli.js';
@@ -563,5 +563,38 @@ describe('resume and locks: a changed input is refused, one sweep per folder', (
     const results = JSON.parse(readFileSync(join(out, 'results.json'), 'utf8')) as { runs: unknown[]; plan: { runs: number } };
     expect(results.runs).toHaveLength(results.plan.runs);
     expect(readdirSync(dir)).toEqual(['out']);
+  });
+});
+
+describe('flags: --run-timeout bounded, --jobs capped, workers see the environment, module output off stdout', () => {
+  const fast = ['-p', 'harmonic-oscillator', '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report'];
+  it.each(['86401', '2592000', '1e10'])('--run-timeout %s (past a day; Node timers overflow past 2^31 - 1 ms, about 24.8 days): exit 2 naming the flag', async (value) => {
+    const dir = freshDir();
+    const r = await runCli(['run', ...fast, '--run-timeout', value, '--out', join(dir, 'out')]);
+    expectRefused(r, dir, '--run-timeout', /is more than the longest run timeout, 86400 s \(a day\); leave the flag out for no limit$/);
+  });
+  it('--jobs 1000 is lowered to twice the cores (at least 4) with a note; the sweep runs', async () => {
+    const dir = freshDir();
+    const r = await runCli(['run', ...fast, '--jobs', '1000', '--out', join(dir, 'out')]);
+    expect(r.code, r.stderr).toBe(0);
+    const cap = Math.max(4, 2 * availableParallelism());
+    expect(r.stderr).toBe(`stepgauge: note: --jobs 1000 lowered to ${cap} (twice the ${availableParallelism()} available cores); more workers would only share the cores\n`);
+  });
+  // Through the launcher: in process, vitest takes console.log over.
+  it('a module printing on stdout: run --json stays JSON at --jobs 1 and 2, the text goes to stderr; workers see the environment', async () => {
+    const dir = freshDir();
+    const bin = join(import.meta.dirname, '..', 'bin', 'stepgauge.js');
+    const messages: string[][] = [];
+    for (const jobs of ['1', '2']) {
+      const args = ['run', '-p', 'harmonic-oscillator', '-m', 'test/fixtures/exits/chatty-method.ts', '-s', '10,20', '--no-timing', '-q', '--no-report', '--json', '--jobs', jobs, '--out', join(dir, `out${jobs}`)];
+      const r = spawnSync(process.execPath, [bin, ...args], { encoding: 'utf8', env: { ...process.env, STEPGAUGE_TEST_MARK: 'seen' } });
+      expect(r.status, r.stderr).toBe(0);
+      const printed = JSON.parse(r.stdout) as { runs: { message?: string }[] };
+      messages.push(printed.runs.map((x) => x.message ?? ''));
+      expect(r.stderr).toContain('chatty-method: loaded');
+      expect(r.stderr).toContain('chatty-method: solving harmonic-oscillator');
+    }
+    // The same environment in the main process (--jobs 1) and on the workers (--jobs 2).
+    expect(messages).toEqual([['mark=seen', 'mark=seen'], ['mark=seen', 'mark=seen']]);
   });
 });

@@ -74,6 +74,33 @@ export function parsePositive(text: string, flag: string): number {
   return positiveNumber(text, flag);
 }
 
+/**
+ * The longest --run-timeout: a day. Node's timers hold at most 2^31 - 1 ms (about 24.8 days; a
+ * longer delay fires after 1 ms), and certification waits four run timeouts.
+ */
+export const MAX_RUN_TIMEOUT_SECONDS = 86_400;
+
+export function parseRunTimeout(text: string): number {
+  const v = positiveNumber(text, '--run-timeout');
+  if (v > MAX_RUN_TIMEOUT_SECONDS) {
+    throw new InputError(`'${text}' seconds is more than the longest run timeout, ${MAX_RUN_TIMEOUT_SECONDS} s (a day); leave the flag out for no limit`, '--run-timeout');
+  }
+  return v;
+}
+
+/**
+ * --jobs as asked, held to twice the available cores (at least 4): each worker is a
+ * single-threaded process that computes all the time, so more of them only share the cores and
+ * cost memory (--jobs 1000 started 1000 processes). `note` is told when the value was lowered.
+ */
+export function parseJobs(text: string, cores: number, note: (message: string) => void): number {
+  const asked = parsePositiveInt(text, '--jobs');
+  const cap = Math.max(4, 2 * cores);
+  if (asked <= cap) return asked;
+  note(`--jobs ${asked} lowered to ${cap} (twice the ${cores} available cores); more workers would only share the cores`);
+  return cap;
+}
+
 /** A comma list of positive numbers (rates, step sizes). */
 export function parsePositiveList(text: string, flag: string): number[] {
   if (text.trim() === '') throw new InputError('expected a comma list of positive numbers', flag);

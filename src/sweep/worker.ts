@@ -25,6 +25,9 @@ export interface WorkerTask {
 // (it lets runs in flight finish and writes what is done); and a worker whose parent has gone
 // has nobody to answer, so it leaves.
 if (typeof process.send === 'function') {
+  // What a user module prints goes to standard error, so `run --json` output stays JSON (tinypool
+  // pipes a worker's standard output into the parent's).
+  process.stdout.write = process.stderr.write.bind(process.stderr) as typeof process.stdout.write;
   process.on('SIGINT', () => {});
   process.on('disconnect', () => process.exit(0));
 }

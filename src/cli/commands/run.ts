@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { existsSync } from 'node:fs';
 import type { RegisterCommand } from './register.js';
 import { commandLine } from '../command-line.js';
-import { parseAtol, parseLevels, parsePositive, parsePositiveInt, parseSteps, parseTolerances } from '../options.js';
+import { parseAtol, parseJobs, parseLevels, parsePositive, parsePositiveInt, parseRunTimeout, parseSteps, parseTolerances } from '../options.js';
 import { checkWritableTarget, defaultOutDir, pointLatest } from '../output-folder.js';
 import type { ProgressLine } from '../progress.js';
 import type { GivenFlags } from '../flag-notes.js';
@@ -25,6 +25,7 @@ import { EXIT } from '../exit-codes.js';
 import { Journal, journalPath, readJournal } from '../../sweep/journal.js';
 import { takeLock } from '../../sweep/lock.js';
 import { requestFromRecord, type ResumableRequest } from '../../sweep/request-record.js';
+import { divertStdout } from '../divert-stdout.js';
 import { readResultsFile } from '../../results/read.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from '../../sweep/lanes.js';
 
@@ -78,11 +79,11 @@ export function requestFromFlags(flags: RunFlags): SweepRequest {
     maxSteps: parsePositiveInt(flags.maxSteps, '--max-steps'),
     timing: flags.timing ? { ...DEFAULT_TIMING, budgetSeconds: parsePositive(flags.timeBudget, '--time-budget') } : null,
     controller: flags.controller,
-    jobs: flags.jobs === undefined ? availableParallelism() : parsePositiveInt(flags.jobs, '--jobs'),
+    jobs: flags.jobs === undefined ? availableParallelism() : parseJobs(flags.jobs, availableParallelism(), (m) => process.stderr.write(`stepgauge: note: ${m}\n`)),
   };
   if (flags.problem !== undefined) req.problem = flags.problem;
   if (flags.method !== undefined) req.method = flags.method;
-  if (flags.runTimeout !== undefined) req.runTimeoutSeconds = parsePositive(flags.runTimeout, '--run-timeout');
+  if (flags.runTimeout !== undefined) req.runTimeoutSeconds = parseRunTimeout(flags.runTimeout);
   if (flags.shard !== undefined) req.shard = parseShardSpec(flags.shard);
   return req;
 }
@@ -117,8 +118,8 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('--time-budget <seconds>', 'timing budget per run; long solves get fewer samples', String(DEFAULT_TIMING.budgetSeconds))
     .option('--max-steps <n>', 'step limit per run (accepted + rejected); past it the run ends with status step-limit', String(DEFAULT_MAX_STEPS))
     .option('--controller <kind>', 'step-size controller for explicit pairs: standard or pi', 'standard')
-    .option('-j, --jobs <n>', 'parallel workers (default: available cores)')
-    .option('--run-timeout <seconds>', 'end a run that takes longer (its worker is terminated); status timeout')
+    .option('-j, --jobs <n>', 'parallel workers (default: available cores; at most twice that, or 4)')
+    .option('--run-timeout <seconds>', 'end a run that takes longer (its worker is terminated); status timeout; at most 86400')
     .option('--shard <K/N or N>', 'run only the K-th of N balanced slices of the plan (merge them with `stepgauge merge`); with N alone, K comes from the batch engine (JOB_COMPLETION_INDEX, AWS_BATCH_JOB_ARRAY_INDEX or CI_NODE_INDEX)')
     .option('--no-report', 'write only results.json and results.csv, no plots or report')
     .option('--summary-levels <list>', "error levels for the report's summary table, e.g. a target: 1e-2,1e-4 (default: from the errors each problem's runs reached)")
@@ -177,7 +178,8 @@ async function sweepAndWrite(
   const { summaryText } = await import('../summary.js');
   const { resultsJson } = await import('../../results/json.js');
   if (lanes) req.lanes = lanes;
-  const log = (s: string) => (flags.json ? process.stderr : process.stdout).write(`${s}\n`);
+  const stdout = divertStdout();
+  const log = (s: string) => (flags.json ? process.stderr.write(`${s}\n`) : stdout.write(`${s}\n`));
   let progress: ProgressLine = { update() {}, stop() {} };
   let journal: Journal | undefined;
   req.onPlan = (plan, selected, methods) => {
@@ -224,6 +226,7 @@ async function sweepAndWrite(
     progress.stop();
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
+    stdout.restore();
   }
   results.command = commandLine();
   await writeSweepFolder(outDir, results, flags.report, (run) => journalLines.get(run), flags.summaryLevels === undefined ? undefined : parseLevels(flags.summaryLevels));
