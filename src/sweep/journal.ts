@@ -1,6 +1,7 @@
 // The sweep journal: one JSON line per finished run, appended as each run ends, so a crash, a
 // Ctrl-C or a killed CI job loses at most the runs in flight. `run --resume` reads it back.
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeSync } from 'node:fs';
+import { writeFileAtomicSync } from '../results/atomic.js';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { RunResult } from '../results/contract.js';
 import { asFileSystemError, InputError } from '../core/errors.js';
@@ -41,7 +42,9 @@ export class Journal {
     const head: JournalHeader = { kind: JOURNAL_KIND, version: JOURNAL_VERSION, ...header };
     try {
       mkdirSync(dirname(this.path), { recursive: true });
-      writeFileSync(this.path, [head, ...keep].map((x) => JSON.stringify(x)).join('\n') + '\n');
+      // A resumed sweep rewrites the journal with the runs it keeps: atomically, so a kill at that
+      // moment leaves the old journal, never an empty one.
+      writeFileAtomicSync(this.path, [head, ...keep].map((x) => JSON.stringify(x)).join('\n') + '\n');
       this.fd = openSync(this.path, 'a');
     } catch (e) {
       throw asFileSystemError(e, this.path);
