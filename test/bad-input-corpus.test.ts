@@ -554,7 +554,9 @@ describe('resume and locks: a changed input is refused, one sweep per folder', (
     const dir = freshDir();
     const out = join(dir, 'out');
     const bin = join(import.meta.dirname, '..', 'bin', 'stepgauge.js');
-    const first = spawn(process.execPath, [bin, 'run', '-p', 'van-der-pol,harmonic-oscillator', '-m', 'rk4,dormand-prince-54', '-t', '1e-3..1e-8', '--jobs', '1', '--no-timing', '-q', '--no-report', '--out', out], { stdio: 'ignore' });
+    // The first loads a method module (esbuild, a second or more) after taking the lock, so it
+    // surely still holds the lock when the second starts.
+    const first = spawn(process.execPath, [bin, 'run', '-p', 'van-der-pol,harmonic-oscillator', '-m', 'rk4,test/fixtures/exits/copied-rk4.ts', '-t', '1e-3..1e-8', '-s', '100,200', '--jobs', '1', '--no-timing', '-q', '--no-report', '--out', out], { stdio: 'ignore' });
     const ended = new Promise<number | null>((done) => first.on('close', done));
     while (!existsSync(join(dir, '.out.lock'))) await new Promise((w) => setTimeout(w, 20));
     const second = await runCli(['run', '-p', 'harmonic-oscillator', '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--no-report', '--out', out]);
