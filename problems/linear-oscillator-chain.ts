@@ -12,7 +12,7 @@
 // Error scale: absolute on x (all states stay O(1)). Invariants: none (damped and forced).
 // Not separable: v' depends on v through the dashpots.
 import type { Problem } from '../src/core/types.js';
-import { exactSolution } from '../src/problems/linear/exact.js';
+import { exactSolution, EXPM_FLOOR } from '../src/problems/linear/exact.js';
 
 const M1 = 1;
 const M2 = 1;
@@ -110,6 +110,7 @@ export const linearOscillatorChain: Problem & { readonly linearModel: LinearMode
     kind: 'exact',
     source: 'expm(M t) z0, scaling and squaring with Pade approximants (Higham 2005)',
     exact: exactState,
+    floor: EXPM_FLOOR,
   },
   checkTimes: CHECK_TIMES,
   linearModel,

@@ -124,9 +124,10 @@ describe('plot content', () => {
   it('labels convergence series with observed order and draws published-order slopes', () => {
     const [conv] = drawn(convergencePlots(ctx, 'harmonic-oscillator'));
     const labels = conv!.series.map((s) => s.label);
-    // Fixture errors are 0.5 h^p times a wobble of at most 10^±0.1; the fit uses the 3 finest h (log10 span 0.6), so it is within 0.35 of p.
+    // Fixture errors are 0.5 h^p times a wobble of up to 10^±0.1, so successive local orders
+    // disagree by more than 0.1: no observed order is claimed (measure/observed-order.ts).
     const rk4 = labels.find((l) => l.startsWith('Classic Runge-Kutta 4: observed order'))!;
-    expect(Math.abs(parseFloat(rk4.split('observed order ')[1]!) - 4)).toBeLessThan(0.35); // 3 finest points only: the wobble weighs more
+    expect(rk4).toContain('not in the asymptotic range');
     const ref = conv!.series.find((s) => s.label === 'Classic Runge-Kutta 4: published order 4 (slope)')!;
     expect(ref.dashed).toBe(true);
     const [a, b] = ref.points;

@@ -28,6 +28,8 @@ export interface ProblemSpec {
   readonly reference?: Reference;
   /** Default none (the end of the span is always checked). */
   readonly checkTimes?: readonly number[];
+  /** Default false: methods take their own steps; true when the simulation really stops at the check times. */
+  readonly landOnCheckTimes?: boolean;
   readonly separable?: SeparableSplit;
   readonly atolScale?: number | readonly number[];
   /** Position and velocity indices of an orbiting body (runs add the radial / in-track / cross-track split). */
@@ -81,6 +83,7 @@ export function defineProblem(spec: ProblemSpec): Problem {
   const checkTimes = [...finiteList(spec, 'checkTimes', spec.checkTimes ?? [])].sort((a, b) => a - b);
   const outside = checkTimes.find((t) => !(t > t0 && t <= tEnd));
   if (outside !== undefined) bad(spec, `check time ${outside} is outside the span (${t0}, ${tEnd}]`);
+  if (spec.landOnCheckTimes !== undefined && typeof spec.landOnCheckTimes !== 'boolean') bad(spec, 'landOnCheckTimes must be true or false');
   const invariants = spec.invariants ?? [];
   for (const inv of invariants) {
     if (!inv || typeof inv.name !== 'string' || typeof inv.fn !== 'function') bad(spec, 'each invariant needs a name and a function fn(t, y)');
@@ -137,6 +140,7 @@ export function defineProblem(spec: ProblemSpec): Problem {
     errorScale: spec.errorScale ?? { kind: 'absolute' },
     reference,
     checkTimes,
+    ...(spec.landOnCheckTimes === true ? { landOnCheckTimes: true } : {}),
     ...(spec.separable ? { separable: spec.separable } : {}),
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
     ...(spec.orbit ? { orbit: spec.orbit } : {}),

@@ -68,14 +68,36 @@ export interface Reference {
   readonly source?: string;
   /** Analytic solution: writes y(t) into out. Present when kind is 'exact'. */
   readonly exact?: (t: number, out: Float64Array) => void;
+  /**
+   * A computed reference evaluable at any time in the span (a certificate's dense solution): writes
+   * y(t) into out. Its resolution is the certificate's, like its tabulated points.
+   */
+  readonly dense?: (t: number, out: Float64Array) => void;
   /** Reference states at given times (published tables, certified runs). Sorted by t. */
   readonly points?: readonly ReferencePoint[];
-  /** For a certified reference: the methods whose agreement made it, and their tolerance. */
-  readonly certifiedBy?: { readonly methods: readonly string[]; readonly rtol?: number };
+  /**
+   * For a certified reference: the methods whose agreement made it, their tolerance, and each
+   * certifying run (one of them with a bounded step). choose never recommends these or tighter.
+   */
+  readonly certifiedBy?: {
+    readonly methods: readonly string[];
+    readonly rtol?: number;
+    readonly runs?: readonly { readonly method: string; readonly rtol: number; readonly maxStep?: number }[];
+  };
   /** Why no reference could be had (a certification that failed): every run says so. */
   readonly unavailable?: string;
   /** Reference times of each event (by event name), sorted; analytic where the problem has them. */
   readonly eventTimes?: Readonly<Record<string, readonly number[]>>;
+  /**
+   * Why a computed reference cannot be trusted (a certificate with too few agreeing digits): runs
+   * keep their status, their errors are null, and choose refuses.
+   */
+  readonly untrusted?: string;
+  /**
+   * Resolution of an exact reference that is computed numerically (a matrix exponential, say),
+   * relative to the state's largest component. Round-off (../measure/resolution.ts) when absent.
+   */
+  readonly floor?: number;
 }
 
 /** Index split for separable problems q' = g(p), p' = h(t, q) (symplectic methods need it). */
@@ -113,10 +135,16 @@ export interface Problem {
   readonly errorScale: ErrorScale;
   readonly reference: Reference;
   /**
-   * Times (inside the span, excluding t0, sorted) at which adaptive methods land exactly and the
-   * error and invariants are checked. The end of the span is always checked.
+   * Output times (inside the span, excluding t0, sorted) at which the error is reported from each
+   * method's interpolant (or where methods land, with landOnCheckTimes). The end is always checked.
    */
   readonly checkTimes: readonly number[];
+  /**
+   * True when the simulation really stops at the check times (discrete controller ticks,
+   * impulses): adaptive methods then land on them exactly. By default they take their own steps
+   * and the values at check times come from each method's interpolant.
+   */
+  readonly landOnCheckTimes?: boolean;
   readonly separable?: SeparableSplit;
   /**
    * Equal-step counts for fixed-step methods when the user gives none: a ladder reaching the
@@ -198,6 +226,11 @@ export interface SolveOptions {
   readonly checkTimes?: readonly number[];
   /** Step-size controller for adaptive explicit methods. */
   readonly controller?: 'standard' | 'pi';
+  /**
+   * Largest step an adaptive method may take (used by certification, so no feature shorter than
+   * the natural step can be stepped over); unbounded when absent.
+   */
+  readonly maxStep?: number;
   /** Initial step; automatic when absent. */
   readonly initialStep?: number;
   /** performance.now() value after which the solver stops with status `timeout`. */

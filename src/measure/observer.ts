@@ -1,23 +1,59 @@
-// What one measured solve watches along the way: the worst error at every landing where a reference
-// exists, the worst drift of every invariant, and a thinned drift trace for plots.
+// What one measured solve watches along the way: the worst error at the solver's own accepted steps
+// where the reference can be evaluated (every step for an exact reference, a tabulated one where a
+// step ends on its times), the error at the output times from the run's interpolant, each beside
+// the reference's resolution at that point; the worst drift of every invariant, and a thinned
+// drift trace for plots.
 import type { Problem } from '../core/types.js';
 import type { DriftTrace, OrbitErrorRecord } from '../results/contract.js';
 import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';
 import { watchEvents } from './events.js';
 import { orbitErrorInto } from './orbit-error.js';
+import { sampleOutputs, type OutputInterpolant, type StepInterpolant } from './output-times.js';
 
 /** Number of time buckets the drift trace is thinned to (one sample per bucket). */
 const TRACE_BUCKETS = 200;
-/** Time buckets for comparing with an analytic reference along the run (one comparison per bucket). */
-const ERROR_BUCKETS = 400;
 /** Below this an invariant's initial value counts as zero and its drift is absolute. */
 const TINY_INVARIANT = 1e-300;
 
+/** A worst error and the reference's resolution where it occurred, in the same units. */
+export interface Figure {
+  value: number;
+  resolution: number;
+}
+
+/** The worst of a stream of (error, resolution) pairs; a NaN, once seen, stays. */
+class WorstFigure {
+  value = -1;
+  resolution = 0;
+  count = 0;
+
+  add(e: number, r: number): void {
+    this.count++;
+    if (this.value !== this.value) return;
+    if (e > this.value || e !== e) {
+      this.value = e;
+      this.resolution = r;
+    }
+  }
+
+  figure(): Figure | null {
+    return this.count > 0 ? { value: this.value, resolution: this.resolution } : null;
+  }
+}
+
 export interface RunWatch {
   readonly observer: (t: number, y: Float64Array) => void;
-  /** Worst scaled error over observed points with a reference (null when none had one). */
+  /** For methods with their own interpolant: every accepted step with it (output times use it). */
+  readonly denseStep: (tOld: number, tNew: number, evaluate: StepInterpolant) => void;
+  /** Worst scaled error over the solver's steps with a reference (null when none had one). */
   maxError(): number | null;
+  /** The same with the reference's resolution at that point. */
+  along(): Figure | null;
+  /** Worst error at the output times, from the run's values there (null: no output times). */
+  outputs(): Figure | null;
+  /** Which interpolant gave the values at output times (null: none was needed). */
+  outputInterpolant(): OutputInterpolant | null;
   drift(): Record<string, number>;
   trace(): DriftTrace | undefined;
   /** How many observed points were compared with the reference. */
@@ -51,12 +87,20 @@ class NumberLog {
   }
 }
 
-export function watchRun(problem: Problem): RunWatch {
+export function watchRun(problem: Problem, methodInterpolant = false): RunWatch {
   const n = problem.dimension;
   const lookup = referenceLookup(problem);
   const referenceAt = lookup.at;
   const meter = errorMeter(problem);
   const ref = new Float64Array(n);
+  const res = new Float64Array(n);
+  const worstAlong = new WorstFigure();
+  const worstOutput = new WorstFigure();
+  const outRef = new Float64Array(n);
+  const outRes = new Float64Array(n);
+  const outputs = sampleOutputs(problem, methodInterpolant, (t, y) => {
+    if (referenceAt(t, outRef, outRes)) worstOutput.add(meter.error(t, y, outRef, outRes), meter.resolution);
+  });
   const invariants = problem.invariants;
   const invariantFns = invariants.map((inv) => inv.fn);
   const invariantCount = invariants.length;
@@ -72,14 +116,6 @@ export function watchRun(problem: Problem): RunWatch {
   const span = tEnd - t0;
   let lastBucket = -1;
   let started = false;
-  let worstError = -1;
-  let compared = 0;
-
-  // An analytic reference can be asked anywhere, but some are costly (a matrix exponential, a
-  // Kepler solve), so along the run it is compared at check times and on a thinned time grid.
-  const analytic = problem.reference.exact !== undefined;
-  const checks = new Set(problem.checkTimes);
-  let lastErrorBucket = -1;
 
   const orbit = problem.orbit;
   const ric = new Float64Array(4);
@@ -96,29 +132,21 @@ export function watchRun(problem: Problem): RunWatch {
       for (let k = 0; k < invariantCount; k++) initial[k] = invariantFns[k]!(t, y);
       started = true;
     }
-    let compare = true;
-    if (analytic) {
-      const bucket = Math.floor(((t - t0) / span) * ERROR_BUCKETS);
-      compare = bucket > lastErrorBucket || checks.has(t) || t === tEnd;
-      if (compare) lastErrorBucket = bucket;
-    }
-    if (compare && referenceAt(t, ref)) {
-      const e = meter(t, y, ref);
-      compared++;
-      if (worstError === worstError && (e > worstError || e !== e)) worstError = e; // NaN, once seen, stays
-      if (orbit) {
-        orbitErrorInto(y, ref, orbit, ric);
-        ricCompared++;
-        for (let k = 0; k < 4; k++) {
-          const a = Math.abs(ric[k]!);
-          if (worstRic[k]! === worstRic[k]! && (a > worstRic[k]! || a !== a)) worstRic[k] = a;
-        }
-        const bucket = Math.floor(((t - t0) / span) * TRACE_BUCKETS);
-        if (bucket > lastRicBucket || t === tEnd) {
-          lastRicBucket = bucket;
-          ricT.push(t);
-          for (let k = 0; k < 3; k++) ricParts[k]!.push(ric[k + 1]!);
-        }
+    outputs.observe(t, y);
+    const compared = referenceAt(t, ref, res);
+    if (compared) worstAlong.add(meter.error(t, y, ref, res), meter.resolution);
+    if (orbit && compared) {
+      orbitErrorInto(y, ref, orbit, ric);
+      ricCompared++;
+      for (let k = 0; k < 4; k++) {
+        const a = Math.abs(ric[k]!);
+        if (worstRic[k]! === worstRic[k]! && (a > worstRic[k]! || a !== a)) worstRic[k] = a;
+      }
+      const bucket = Math.floor(((t - t0) / span) * TRACE_BUCKETS);
+      if (bucket > lastRicBucket || t === tEnd) {
+        lastRicBucket = bucket;
+        ricT.push(t);
+        for (let k = 0; k < 3; k++) ricParts[k]!.push(ric[k + 1]!);
       }
     }
     if (invariantCount === 0) return;
@@ -140,8 +168,12 @@ export function watchRun(problem: Problem): RunWatch {
 
   return {
     observer,
-    maxError: () => (compared > 0 ? worstError : null),
-    comparedPoints: () => compared,
+    denseStep: (tOld, tNew, evaluate) => outputs.step(tOld, tNew, evaluate),
+    maxError: () => worstAlong.figure()?.value ?? null,
+    along: () => worstAlong.figure(),
+    outputs: () => worstOutput.figure(),
+    outputInterpolant: () => outputs.interpolant(),
+    comparedPoints: () => worstAlong.count,
     orbitAlong() {
       if (!orbit || ricCompared === 0) return undefined;
       return {

@@ -2,11 +2,13 @@
 // separately, timed repeat solves without observers so measurement never pollutes the clock.
 import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../core/types.js';
 import { isAdaptiveSetting, zeroCounts } from '../core/types.js';
-import type { RunResult, RunSetting } from '../results/contract.js';
+import type { ErrorFigure, RunResult, RunSetting } from '../results/contract.js';
 import { messageOf } from '../core/errors.js';
 import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';
-import { watchRun } from './observer.js';
+import { watchRun, type Figure } from './observer.js';
+import { NEAR_RESOLUTION } from './resolution.js';
+import type { OutputInterpolant } from './output-times.js';
 import { roundTripError } from './round-trip.js';
 import { solveOptions, type RunOptions } from './run-options.js';
 import { eventRecords } from './events.js';
@@ -23,23 +25,36 @@ export function runSetting(problem: Problem, setting: Setting, result?: SolveRes
   return { steps: setting.steps, h: result?.h ?? (problem.tEnd - problem.t0) / setting.steps };
 }
 
-/** Smallest error the reference can resolve at tEnd, from its trusted digits (0 when exact). */
-function referenceResolution(problem: Problem, refFinal: Float64Array): number {
-  const digits = problem.reference.digits;
-  if (problem.reference.kind === 'exact' || digits === undefined) return 0;
-  const rel = 10 ** -digits;
-  if (problem.errorScale.kind === 'relative') return rel;
-  let big = 0;
-  for (const v of refFinal) big = Math.max(big, Math.abs(v));
-  return rel * big;
+/** A method that offers its own continuous extension (see methods/explicit/dense-dp54.ts). */
+interface WithInterpolant {
+  readonly dense: { solve(p: Problem, s: Setting, o: SolveOptions, onStep: (tOld: number, tNew: number, evaluate: (t: number, out: Float64Array) => void) => void): SolveResult };
+  readonly notes?: string;
+}
+
+function ownInterpolant(method: Method): WithInterpolant | undefined {
+  const d = (method as Partial<WithInterpolant>).dense;
+  return d && typeof d.solve === 'function' ? (method as unknown as WithInterpolant) : undefined;
+}
+
+function interpolantText(kind: OutputInterpolant, method: Method): string {
+  if (kind === 'landed') return 'landed: every output time was the end of a step';
+  if (kind === 'method') return `the method's own continuous extension${method.notes ? ` (${method.notes})` : ''}`;
+  return "cubic Hermite between accepted steps, built by stepgauge: the method publishes no interpolant here";
+}
+
+function isUnresolved(f: Figure | null): boolean {
+  return f !== null && f.value === f.value && !(f.value > NEAR_RESOLUTION * f.resolution);
 }
 
 /** Integrates once with observers and returns the run record (time left null). */
 export function measureRun(problem: Problem, method: Method, setting: Setting, options: RunOptions): RunResult {
-  const watch = watchRun(problem);
+  const landing = problem.landOnCheckTimes === true;
+  const own = landing ? undefined : ownInterpolant(method);
+  const watch = watchRun(problem, own !== undefined);
   let result: SolveResult;
   try {
-    result = method.solve(problem, setting, solveOptions(problem, options, watch.observer));
+    const o = solveOptions(problem, options, watch.observer);
+    result = own ? own.dense.solve(problem, setting, o, watch.denseStep) : method.solve(problem, setting, o);
   } catch (e) {
     return failedRun(problem, method, setting, `${method.id} threw: ${messageOf(e)}`);
   }
@@ -54,6 +69,7 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
     time: { medianSeconds: null, samples: 0 },
     tFinal: result.tFinal,
     yFinal: Array.from(result.yFinal),
+    landing: landing ? 'check-times' : 'own-steps',
   };
   if (result.message) run.message = result.message;
   const effective = effectiveTolerance(method, setting);
@@ -70,13 +86,26 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   }
 
   const ref = new Float64Array(problem.dimension);
-  if (referenceLookup(problem).at(problem.tEnd, ref)) {
-    const final = errorMeter(problem)(problem.tEnd, result.yFinal, ref);
-    const along = watch.maxError();
-    run.error = { final, max: along === null ? final : Math.max(along, final) };
-    const resolution = referenceResolution(problem, ref);
-    if (resolution > 0 && final < resolution) run.errorBelowReference = true;
+  const res = new Float64Array(problem.dimension);
+  if (referenceLookup(problem).at(problem.tEnd, ref, res)) {
+    const meter = errorMeter(problem);
+    const final: Figure = { value: meter.error(problem.tEnd, result.yFinal, ref, res), resolution: meter.resolution };
+    const along = watch.along();
+    const max = along === null || !(along.value >= final.value) ? final : along;
+    const outputs = watch.outputs();
+    const kind = watch.outputInterpolant();
+    run.error = { final: final.value, max: max.value, ...(outputs ? { outputs: outputs.value } : {}) };
+    run.resolution = { final: final.resolution, max: max.resolution, ...(outputs ? { outputs: outputs.resolution } : {}) };
+    if (kind) run.outputInterpolant = interpolantText(kind, method);
+    const unresolved: ErrorFigure[] = [];
+    if (isUnresolved(final)) unresolved.push('final');
+    if (isUnresolved(max)) unresolved.push('max');
+    if (isUnresolved(outputs)) unresolved.push('outputs');
+    if (unresolved.length > 0) run.unresolved = unresolved;
+    if (unresolved.includes('final')) run.errorBelowReference = true;
     if (problem.orbit) run.orbitError = orbitRecord(problem.orbit.unit, result.yFinal, ref, problem, watch.orbitAlong());
+  } else if (problem.reference.untrusted) {
+    run.message = appendMessage(run.message, `${problem.reference.untrusted}; error not measured`);
   } else if (problem.reference.unavailable) {
     run.status = 'error';
     run.message = appendMessage(run.message, `${problem.reference.unavailable}; error not measured`);

@@ -13,7 +13,8 @@ export function solveOptions(problem: Problem, options: RunOptions, observer?: S
   const deadline = options.runTimeoutSeconds ? performance.now() + options.runTimeoutSeconds * 1000 : undefined;
   return {
     maxSteps: options.maxSteps,
-    checkTimes: problem.checkTimes,
+    // Solvers take their own steps unless the problem really stops at its check times.
+    ...(problem.landOnCheckTimes ? { checkTimes: problem.checkTimes } : {}),
     ...(observer ? { observer } : {}),
     ...(options.controller ? { controller: options.controller } : {}),
     ...(deadline !== undefined ? { deadline } : {}),

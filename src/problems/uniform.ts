@@ -14,10 +14,13 @@ function uniformReference(r: Reference): Reference {
     digits: r.digits,
     source: r.source,
     exact: r.exact,
+    dense: r.dense,
     points: r.points,
     certifiedBy: r.certifiedBy,
     unavailable: r.unavailable,
     eventTimes: r.eventTimes,
+    untrusted: r.untrusted,
+    floor: r.floor,
   };
 }
 
@@ -48,6 +51,7 @@ export function uniformProblem(p: Problem): Problem {
     errorScale: uniformErrorScale(p.errorScale),
     reference: uniformReference(p.reference),
     checkTimes: p.checkTimes,
+    landOnCheckTimes: p.landOnCheckTimes,
     separable: p.separable,
     defaultSteps: p.defaultSteps,
     atolScale: p.atolScale,

@@ -130,7 +130,7 @@ function environmentHtml(m: ReportModel): string {
 function sectionHtml(sec: ProblemSection, m: ReportModel): string {
   const ref = sec.record?.reference;
   const refLine = ref
-    ? `Reference: ${h(String(ref.kind))}${ref.digits !== undefined ? `, ${h(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${h(ref.source)}` : ''}. ${h(referenceIndependence(sec.record, sec.runs.map((r) => r.method)))}`
+    ? `${ref.none ? `<strong>Warning: ${h(ref.none)}; no error is measured.</strong> ` : ''}Reference: ${h(String(ref.kind))}${ref.digits !== undefined ? `, ${h(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${h(ref.source)}` : ''}. ${h(referenceIndependence(sec.record, sec.runs.map((r) => r.method)))}`
     : 'No problem record in the results file.';
   const def = typeof sec.record?.definition === 'string'
     ? `<details class="definition"><summary>Definition (its SHA-256 is ${h(sec.record.sha256)})</summary><pre class="mono">${h(sec.record.definition)}</pre></details>`

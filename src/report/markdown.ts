@@ -56,7 +56,7 @@ export function renderMarkdown(m: ReportModel): string {
     const ref = sec.record?.reference;
     out.push(
       ref
-        ? `Reference: ${e(String(ref.kind))}${ref.digits !== undefined ? `, ${e(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${e(ref.source)}` : ''}. ${e(referenceIndependence(sec.record, sec.runs.map((r) => r.method)))}${sec.record!.stiff ? ' Stiff problem.' : ' Non-stiff problem.'} ${sec.runs.length} runs.`
+        ? `${ref.none ? `**Warning: ${e(ref.none)}; no error is measured.** ` : ''}Reference: ${e(String(ref.kind))}${ref.digits !== undefined ? `, ${e(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${e(ref.source)}` : ''}. ${e(referenceIndependence(sec.record, sec.runs.map((r) => r.method)))}${sec.record!.stiff ? ' Stiff problem.' : ' Non-stiff problem.'} ${sec.runs.length} runs.`
         : `No problem record in the results file. ${sec.runs.length} runs.`,
       '',
     );

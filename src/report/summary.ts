@@ -2,7 +2,7 @@
 // per problem that reached each of a few error levels. The levels come from the errors each
 // problem's runs actually reached (or from the user), so a model measured in metres or in
 // micro-units gets a table as a unit-free catalogue problem does.
-import type { ResultsFile, RunResult } from '../results/contract.js';
+import { resolvedError, type ResultsFile, type RunResult } from '../results/contract.js';
 import type { Status } from '../core/types.js';
 import { problemOrder } from './plots/context.js';
 import { methodOrder } from './plots/palette.js';
@@ -25,7 +25,7 @@ const FAILURE_ORDER: readonly Status[] = ['diverged', 'step-underflow', 'step-li
 
 export interface BestAtLevel {
   level: number;
-  /** Fewest right-hand-side evaluations among ok runs with error.final <= level. */
+  /** Fewest right-hand-side evaluations among ok runs with a confirmed error.final <= level. */
   byNfev: { run: RunResult } | null;
   /** Smallest median time among the same runs; null when no such run was timed. */
   byTime: { run: RunResult } | null;
@@ -45,9 +45,10 @@ export interface Summary {
   userLevels: boolean;
 }
 
+/** Only an error the reference confirms reaches a level. */
 function reaches(r: RunResult, level: number): boolean {
-  const e = r.error.final;
-  return r.status === 'ok' && typeof e === 'number' && Number.isFinite(e) && e >= 0 && e <= level;
+  const e = resolvedError(r, 'final');
+  return typeof e === 'number' && Number.isFinite(e) && e >= 0 && e <= level;
 }
 
 /** Ties go to the earlier method in the results file, then the earlier run, so the answer is stable. */

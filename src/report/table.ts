@@ -1,6 +1,6 @@
 // The per-problem results table as data: one row per run, each cell with its display text (3
 // significant digits, exact counts) and a sort key carrying the full value.
-import type { RunResult } from '../results/contract.js';
+import type { ErrorFigure, RunResult } from '../results/contract.js';
 import { integer, settingLabel, sig3, tightness } from './format.js';
 import type { MethodInfo } from './methods.js';
 
@@ -21,6 +21,13 @@ function num(v: number | null | undefined, show: (v: number | null | undefined) 
   return { text: show(v), sort: typeof v === 'number' && !Number.isNaN(v) ? v : null };
 }
 
+/** An error figure, marked when the reference cannot confirm it (within reach of its resolution). */
+function errorCell(r: RunResult, figure: ErrorFigure): Cell {
+  const c = num(r.error[figure]);
+  const unresolved = r.unresolved?.includes(figure) || (figure === 'final' && r.errorBelowReference === true);
+  return unresolved && c.sort !== null ? { text: `${c.text} (at ref.)`, sort: c.sort } : c;
+}
+
 /** Largest drift over the invariants; NaN when any is not finite (a broken run). */
 export function maxDrift(run: RunResult): number | null {
   const values = Object.values(run.drift ?? {});
@@ -33,8 +40,9 @@ export const COLUMNS: readonly Column[] = [
   { key: 'method', header: 'method', numeric: false, cell: (r, m) => ({ text: m.get(r.method)?.name ?? r.method, sort: m.get(r.method)?.name ?? r.method }) },
   { key: 'setting', header: 'setting', numeric: true, cell: (r) => ({ text: settingLabel(r.setting) + (r.effectiveTolerance ? ` (controls to rtol ${sig3(r.effectiveTolerance.rtol)})` : ''), sort: tightness(r.setting) }) },
   { key: 'status', header: 'status', numeric: false, cell: (r) => ({ text: r.status, sort: r.status }) },
-  { key: 'errorFinal', header: 'error.final', numeric: true, cell: (r) => num(r.error.final) },
-  { key: 'errorMax', header: 'error.max', numeric: true, cell: (r) => num(r.error.max) },
+  { key: 'errorFinal', header: 'error.final', numeric: true, cell: (r) => errorCell(r, 'final') },
+  { key: 'errorMax', header: 'error.max', numeric: true, cell: (r) => errorCell(r, 'max') },
+  { key: 'errorOutputs', header: 'error.outputs', numeric: true, cell: (r) => errorCell(r, 'outputs') },
   { key: 'drift', header: 'max drift', numeric: true, cell: (r) => num(maxDrift(r)) },
   { key: 'nfev', header: 'nfev', numeric: true, cell: (r) => num(r.counts.nfev, integer) },
   { key: 'njev', header: 'njev', numeric: true, cell: (r) => num(r.counts.njev, integer) },

@@ -53,13 +53,29 @@ export interface RunResult {
   setting: RunSetting;
   status: Status;
   message?: string;
-  error: { final: number | null; max: number | null };
+  /**
+   * final: at the end of the span; max: worst over the solver's own accepted steps where the
+   * reference can be evaluated, and the end; outputs (added later): worst at the problem's output
+   * times, from the values the run gives there (see outputInterpolant).
+   */
+  error: { final: number | null; max: number | null; outputs?: number | null };
+  /** The reference's resolution at each error figure's own point, in the figure's units. */
+  resolution?: { final: number | null; max: number | null; outputs?: number | null };
+  /**
+   * Error figures within reach of the resolution (at most 10 times it): not confirmed by the
+   * reference, so drawn as such, left out of fits and never meeting a `choose` target.
+   */
+  unresolved?: ErrorFigure[];
+  /** own-steps: the solver chose every step; check-times: it landed on the output times (problem option). */
+  landing?: 'own-steps' | 'check-times';
+  /** Where the values at output times came from (the method's own interpolant, or which other). */
+  outputInterpolant?: string;
   drift: Record<string, number>;
   counts: Counts;
   time: { medianSeconds: number | null; samples: number; spreadSeconds?: number | null; rmePercent?: number | null; calibrationRatio?: number | null };
   tFinal: number;
   yFinal: number[];
-  /** True when the error is below what the reference can resolve (certified references). */
+  /** True when the final error is within reach of what the reference can resolve (see unresolved). */
   errorBelowReference?: boolean;
   /**
    * Tolerance the method actually controlled to, for methods that map the requested one
@@ -82,7 +98,15 @@ export interface ProblemRecord {
   title: string;
   sha256: string;
   stiff: boolean;
-  reference: { kind: ReferenceKind; digits?: number; source?: string; certifiedBy?: { methods: string[]; rtol?: number } };
+  reference: {
+    kind: ReferenceKind;
+    digits?: number;
+    source?: string;
+    /** The methods a certified reference was computed from, their rtol, and each run (maxStep: the bounded one). */
+    certifiedBy?: { methods: string[]; rtol?: number; runs?: { method: string; rtol: number; maxStep?: number }[] };
+    /** Why there is no usable reference (errors are then null). */
+    none?: string;
+  };
   stiffnessRatio?: number | null;
   source?: string;
   dimension?: number;
@@ -114,6 +138,17 @@ export interface ResultsFile {
   /** Set for one shard of a sharded sweep: "K/N" and the plan's fingerprint. */
   shard?: { index: number; count: number; planSha256: string };
   [extra: string]: unknown;
+}
+
+export type ErrorFigure = 'final' | 'max' | 'outputs';
+
+/** The error figure of a run when it is a real, resolved measurement; null otherwise. */
+export function resolvedError(run: Pick<RunResult, 'status' | 'error' | 'unresolved' | 'errorBelowReference'>, figure: ErrorFigure): number | null {
+  if (run.status !== 'ok') return null;
+  const e = run.error[figure];
+  if (e === null || e === undefined) return null;
+  if (run.unresolved?.includes(figure) || (figure === 'final' && run.errorBelowReference)) return null;
+  return e;
 }
 
 /** Stable key of one run: problem, method and setting. */

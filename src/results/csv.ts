@@ -14,6 +14,7 @@ export const CSV_COLUMNS = [
   'time_samples', 'error_below_reference', 'round_trip', 'message',
   'orbit_position_final', 'orbit_radial_final', 'orbit_in_track_final', 'orbit_cross_track_final', 'orbit_position_max', 'orbit_in_track_max',
   'event_time_error_max', 'events_missed', 'events_extra', 'effective_rtol',
+  'error_outputs', 'unresolved', 'landing',
 ] as const;
 
 function cell(v: number | null | undefined): string {
@@ -71,6 +72,9 @@ function row(run: RunResult): string[] {
     cell(eventCount(run, 'missed')),
     cell(eventCount(run, 'extra')),
     cell(run.effectiveTolerance?.rtol),
+    cell(run.error.outputs),
+    (run.unresolved ?? []).join(' '),
+    run.landing ?? '',
   ];
 }
 

@@ -4,6 +4,7 @@
 // The search follows `choose` for one problem: a decade grid loosest first (equal-step counts
 // doubling), then bisection between the last failing and the first passing point; it assumes, as
 // that search does, that the error falls as the setting tightens.
+import { confirmedError } from './acceptance.js';
 import type { Method, Problem, Setting } from '../core/types.js';
 import type { RunResult } from '../results/contract.js';
 import { measureRun, type RunOptions } from '../measure/run-one.js';
@@ -56,9 +57,10 @@ interface Trial {
   q: number;
 }
 
+/** A sample's confirmed error (acceptance.ts): failed runs and errors the reference cannot confirm count as Infinity. */
 function errorOf(r: RunResult, measure: 'final' | 'max'): number {
-  const e = measure === 'final' ? r.error.final : r.error.max;
-  return r.status === 'ok' && e !== null && Number.isFinite(e) ? e : Infinity;
+  const e = confirmedError(r, measure);
+  return e !== null && Number.isFinite(e) ? e : Infinity;
 }
 
 function trial(samples: readonly Problem[], m: Method, setting: Setting, o: EnvelopeOptions): Trial {

@@ -73,5 +73,7 @@ export interface Choice {
   recommended: Candidate | null;
   /** Why the recommended candidate (or why none). */
   why: string;
+  /** Why nothing was tried: no reference, or one with too few trusted digits (acceptance.ts). */
+  refused?: string;
 }
 

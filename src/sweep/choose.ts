@@ -14,6 +14,7 @@ import { measureGap, measureOf } from '../measure/run-measures.js';
 import { stepCost } from './fixed-rates.js';
 import { checkNeighbours } from './choose-neighbours.js';
 import { rankCandidates, recommendation } from './choose-rank.js';
+import { confirmedError, isCertifyingSetting, meetsTarget, refusal, targetBelowResolution, tooTightToConfirm } from './acceptance.js';
 
 /**
  * Decade grid searched for adaptive methods, loosest first. It ends at 1e-15, about 4.5 times
@@ -30,13 +31,14 @@ const MAX_STEPS = 1 << 22;
 
 export type { Candidate, Choice, ChooseOptions, CostMeasure, ErrorMeasure, TrialPoint } from './choose-types.js';
 
+/** The confirmed error (acceptance.ts): null when the run failed or the reference cannot resolve it. */
 function errorOf(run: RunResult, measure: ErrorMeasure): number | null {
-  return measureOf(run, measure);
+  return confirmedError(run, measure);
 }
 
-function meets(run: RunResult, o: ChooseOptions): boolean {
-  const e = errorOf(run, o.measure);
-  return e !== null && e <= o.target;
+/** Meets the target with a confirmed error, at a setting that is not a certifying run's (or tighter). */
+function meets(run: RunResult, o: ChooseOptions, p: Problem, m: Method, s: Setting): boolean {
+  return meetsTarget(run, o.target, o.measure) && !isCertifyingSetting(p, m, s);
 }
 
 interface Search {
@@ -45,26 +47,30 @@ interface Search {
   trials: number;
   closest: RunResult | null;
   tried: TrialPoint[];
+  /** The tightest run that ended ok (to say when the target is below the reference's resolution). */
+  lastOk?: RunResult | null;
 }
 
 function trialPoint(run: RunResult, o: ChooseOptions): TrialPoint {
-  return { setting: run.setting, status: run.status, error: errorOf(run, o.measure), nfev: run.counts.nfev };
+  return { setting: run.setting, status: run.status, error: measureOf(run, o.measure), nfev: run.counts.nfev };
 }
 
 function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
   let trials = 0;
   const tried: TrialPoint[] = [];
+  const settingAt = (rtol: number): Setting => ({ rtol, atol: absoluteTolerance(p, rtol, o.atol) });
   const at = (rtol: number) => {
     trials++;
-    const run = measureRun(p, m, { rtol, atol: absoluteTolerance(p, rtol, o.atol) }, o);
+    const run = measureRun(p, m, settingAt(rtol), o);
     tried.push(trialPoint(run, o));
     return run;
   };
   let failing: number | null = null;
   let closest: RunResult | null = null;
+  let lastOk: RunResult | null = null;
   for (const rtol of RTOL_GRID) {
     const run = at(rtol);
-    if (meets(run, o)) {
+    if (meets(run, o, p, m, settingAt(rtol))) {
       let hi = Math.log10(rtol);
       let best = run;
       if (failing !== null) {
@@ -72,20 +78,43 @@ function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
         for (let k = 0; k < RTOL_BISECTIONS; k++) {
           const mid: number = (lo + hi) / 2;
           const r = at(10 ** mid);
-          if (meets(r, o)) {
+          if (meets(r, o, p, m, settingAt(10 ** mid))) {
             hi = mid;
             best = r;
           } else lo = mid;
         }
       }
-      const rt = 10 ** hi;
-      return { best, setting: { rtol: rt, atol: absoluteTolerance(p, rt, o.atol) }, trials, closest: best, tried };
+      return { best, setting: settingAt(10 ** hi), trials, closest: best, tried };
+    }
+    if (run.status === 'ok') lastOk = run;
+    if (tooTightToConfirm(run, o.measure)) {
+      // The error fell below what the reference confirms: look between this and the last
+      // failing setting for one whose error is confirmed and meets the target; tighter settings
+      // can only be less confirmable.
+      if (failing !== null) {
+        let lo = Math.log10(failing);
+        let hi = Math.log10(rtol);
+        let best: RunResult | null = null;
+        let bestRtol = 0;
+        for (let k = 0; k < RTOL_BISECTIONS; k++) {
+          const mid: number = (lo + hi) / 2;
+          const r = at(10 ** mid);
+          if (meets(r, o, p, m, settingAt(10 ** mid))) {
+            hi = mid;
+            best = r;
+            bestRtol = 10 ** mid;
+          } else if (tooTightToConfirm(r, o.measure)) hi = mid;
+          else lo = mid;
+        }
+        if (best) return { best, setting: settingAt(bestRtol), trials, closest: best, tried };
+      }
+      break;
     }
     failing = rtol;
     const e = errorOf(run, o.measure);
     if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
   }
-  return { best: null, setting: null, trials, closest, tried };
+  return { best: null, setting: null, trials, closest, tried, lastOk };
 }
 
 /** The listed candidates, fewest steps first: the first that meets the target is the lowest rate that does. */
@@ -97,7 +126,7 @@ function searchCandidates(p: Problem, m: Method, o: ChooseOptions, list: readonl
     trials++;
     const run = measureRun(p, m, { steps: c.steps }, o);
     tried.push(trialPoint(run, o));
-    if (meets(run, o)) return { best: run, setting: { steps: c.steps }, trials, closest: run, tried };
+    if (meets(run, o, p, m, { steps: c.steps })) return { best: run, setting: { steps: c.steps }, trials, closest: run, tried };
     const e = errorOf(run, o.measure);
     if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
   }
@@ -115,6 +144,7 @@ function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
     return run;
   };
   let closest: RunResult | null = null;
+  let lastOk: RunResult | null = null;
   let lo = 0; // largest step count known to fail
   const cap = Math.min(MAX_STEPS, o.maxSteps);
   // Doubling, and the cap itself last, so the step limit is never left untried.
@@ -123,30 +153,54 @@ function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
   ladder.push(cap);
   for (const n of ladder) {
     const run = at(n);
-    if (meets(run, o)) {
+    if (meets(run, o, p, m, { steps: n })) {
       let hi = n;
       let best = run;
       while (hi - lo > 1) {
         const mid = Math.floor((lo + hi) / 2);
         const r = at(mid);
-        if (meets(r, o)) {
+        if (meets(r, o, p, m, { steps: mid })) {
           hi = mid;
           best = r;
         } else lo = mid;
       }
       return { best, setting: { steps: hi }, trials, closest: best, tried };
     }
+    if (run.status === 'ok') lastOk = run;
+    if (tooTightToConfirm(run, o.measure)) {
+      // As for adaptive methods: between the last failing count and this unconfirmable one.
+      let hi = n;
+      let best: RunResult | null = null;
+      let bestSteps = 0;
+      while (hi - lo > 1) {
+        const mid = Math.floor((lo + hi) / 2);
+        const r = at(mid);
+        if (meets(r, o, p, m, { steps: mid })) {
+          best = r;
+          bestSteps = mid;
+          hi = mid;
+        } else if (tooTightToConfirm(r, o.measure)) hi = mid;
+        else lo = mid;
+      }
+      if (best) return { best, setting: { steps: bestSteps }, trials, closest: best, tried };
+      break;
+    }
     lo = n;
     const e = errorOf(run, o.measure);
     if (e !== null && (closest === null || e < (errorOf(closest, o.measure) ?? Infinity))) closest = run;
   }
-  return { best: null, setting: null, trials, closest, tried };
+  return { best: null, setting: null, trials, closest, tried, lastOk };
 }
 
-/** Why a method did not reach the target, naming the step limit when that is what stopped it. */
+/**
+ * Why a method did not reach the target: below what the reference can confirm (with what would be
+ * needed), the step limit when that is what stopped it, or the best confirmed error.
+ */
 function missNote(search: Search, best: number | null, o: ChooseOptions): string {
+  const below = search.lastOk ? targetBelowResolution(search.lastOk, o.target, o.measure) : null;
+  if (below) return below;
   const limited = search.tried.filter((t) => t.status === 'step-limit');
-  const bestText = best === null ? 'no run succeeded' : `best error ${best.toExponential(2)}`;
+  const bestText = best === null ? 'no run gave a confirmed error' : `best confirmed error ${best.toExponential(2)}`;
   const last = search.tried.at(-1)?.setting;
   if (last && 'steps' in last && last.steps === o.maxSteps) {
     return `step limit: the largest step count allowed (--max-steps ${o.maxSteps}) was tried and did not reach the target; ${bestText}`;
@@ -154,7 +208,7 @@ function missNote(search: Search, best: number | null, o: ChooseOptions): string
   if (limited.length > 0) {
     return `step limit: ${limited.length} of ${search.tried.length} settings tried used up --max-steps ${o.maxSteps} before the end of the span; ${bestText}`;
   }
-  return best === null ? 'no run succeeded' : `target not reached; ${bestText}`;
+  return best === null ? bestText : `target not reached; ${bestText}`;
 }
 
 export async function chooseMethod(problem: Problem, methods: readonly Method[], o: ChooseOptions): Promise<Choice> {
@@ -164,6 +218,13 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
   // The search looks for target / safety; margins are stated against the user's own target.
   const inner: ChooseOptions = { ...o, target: o.target / safety };
   const candidates: Candidate[] = [];
+  const refused = refusal(problem);
+  if (refused) {
+    return {
+      problem: problem.id, target: o.target, safety, required: inner.target, measure: o.measure, cost: o.cost,
+      candidates, recommended: null, why: `refused: ${refused}`, refused,
+    };
+  }
   for (const m of methods) {
     const gap = pairingGap(problem, m);
     if (gap && (m.needsSeparable || m.needsLinear || problem.stiff)) {
@@ -182,7 +243,7 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
     // Confirmation: a fresh measured run at the chosen setting, then timing when time is the cost.
     const confirmed = measureRun(problem, m, search.setting, o);
     const achieved = errorOf(confirmed, o.measure);
-    const ok = meets(confirmed, inner);
+    const ok = meets(confirmed, inner, problem, m, search.setting);
     let cost: number | null = confirmed.counts.nfev;
     let timeMarginPercent: number | null = null;
     if (o.cost === 'time' && ok) {

@@ -108,6 +108,7 @@ export async function resolveProblems(
         const p = skipped !== undefined ? withoutReference(x, skipped) : withCertifiedReference(x);
         if (fresh && !p.reference.unavailable) note(`${entry}${x.dispersion ? ` (${x.id})` : ''}: certified in ${((performance.now() - started) / 1000).toFixed(1)} s: ${p.reference.source ?? ''}`);
         if (p.reference.unavailable) warn(`${entry}${x.dispersion ? ` (${x.id})` : ''}: ${p.reference.unavailable}`);
+        if (p.reference.untrusted) warn(`warning: ${p.reference.untrusted}; its errors are not measured`);
         return uniformProblem(p);
       };
       return Array.isArray(loaded) ? loaded.map(one) : one(loaded);

@@ -27,7 +27,12 @@ export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number
   const ref: ProblemRecord['reference'] = { kind: p.reference.kind };
   if (p.reference.digits !== undefined) ref.digits = p.reference.digits;
   if (p.reference.source !== undefined) ref.source = p.reference.source;
-  if (p.reference.certifiedBy) ref.certifiedBy = { methods: [...p.reference.certifiedBy.methods], ...(p.reference.certifiedBy.rtol === undefined ? {} : { rtol: p.reference.certifiedBy.rtol }) };
+  if (p.reference.certifiedBy) {
+    const c = p.reference.certifiedBy;
+    ref.certifiedBy = { methods: [...c.methods], ...(c.rtol === undefined ? {} : { rtol: c.rtol }), ...(c.runs ? { runs: c.runs.map((r) => ({ ...r })) } : {}) };
+  }
+  const none = p.reference.untrusted ?? p.reference.unavailable;
+  if (none !== undefined) ref.none = none;
   return {
     id: p.id,
     title: p.title,

@@ -9,6 +9,7 @@ import { sig3 } from '../../report/format.js';
 import { CAUTION_SHORT } from '../../report/caution.js';
 import { checkWritableTarget } from '../output-folder.js';
 import { commandLine } from '../command-line.js';
+import { marginText } from '../../sweep/acceptance.js';
 
 interface ChooseFlags {
   problem?: string;
@@ -71,7 +72,10 @@ export function choiceText(choice: Choice): string {
   const safety = choice.safety === 1 ? '' : `, safety ${choice.safety} (error at most ${sig3(choice.required)})`;
   const head = `${choice.problem}: target error ${sig3(choice.target)} (${choice.measure})${safety}, ranked by ${choice.cost}`;
   const rec = choice.recommended;
-  const verdict = rec ? `recommended: ${rec.method} at ${settingText(rec)}${rec.neighbours?.fragile ? ' (fragile)' : ''}` : 'no method met the target on this problem';
+  if (choice.refused) return [head, '', `warning: ${choice.refused}; choose refuses to recommend a setting`, '', CAUTION_SHORT].join('\n');
+  const verdict = rec
+    ? `recommended: ${rec.method} at ${settingText(rec)}${rec.neighbours?.fragile ? ' (fragile)' : ''}; confirmed error ${sig3(rec.achieved)}, ${marginText(rec.achieved, choice.target)}`
+    : 'no method met the target on this problem with an error the reference confirms';
   return [head, '', ...lines, '', verdict, `why: ${choice.why}`, '', CAUTION_SHORT].join('\n');
 }
 

@@ -87,6 +87,7 @@ function stepAdaptively(
   const observer = options.observer;
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
+  const maxStep = options.maxStep ?? Infinity;
   const K = lease.float64(s * n);
   const kRow = lease.rows(K, s, n);
   let y = lease.copyOf(problem.y0);
@@ -141,7 +142,7 @@ function stepAdaptively(
         : `step ${h} too small at t=${t}`;
       break;
     }
-    let hs = h;
+    let hs = h > maxStep ? maxStep : h;
     let clipped = false;
     if (t + hs * LANDING_STRETCH >= stop) {
       hs = stop - t;

@@ -104,6 +104,7 @@ export function drive(problem: Problem, options: SolveOptions, stepper: Stepper,
   const observer = options.observer;
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
+  const maxStep = options.maxStep ?? Infinity;
   let t = problem.t0;
   let h = h0;
   let stopIdx = 0;
@@ -114,7 +115,7 @@ export function drive(problem: Problem, options: SolveOptions, stepper: Stepper,
     const budget = budgetStop(counts.accepted + counts.rejected, maxSteps, deadline, t);
     if (budget !== null) return finished(budget.status, t, y, counts, budget.message);
     if (!(h > 0) || !Number.isFinite(h)) return finished('step-underflow', t, y, counts, `step size became ${h} at t=${t}`);
-    let hTry = h;
+    let hTry = h > maxStep ? maxStep : h;
     let landing = false;
     if (t + LANDING_STRETCH * hTry >= stop) {
       hTry = stop - t;

@@ -1,13 +1,22 @@
 // Newton solve of the one-stage implicit equation z = base + c h f(tz, z), shared by backward
 // Euler (c = 1) and the implicit midpoint rule (c = 1/2). The Jacobian is evaluated once per step
 // at the step's start; iterating to a tight tolerance keeps the Newton error far below the
-// truncation error, which is what an order check needs.
+// truncation error, which is what an order check needs. When that simplified iteration fails
+// (a stiff start, where the explicit start value and the start's Jacobian are far off), the step
+// is retried from the step's start value with the Jacobian refreshed at every iterate (full
+// Newton) before a failure is declared: the failure must be the method's, not the iteration's.
 import { luFactor, luSolve } from '../../core/lu.js';
 import type { JacobianSource } from '../../core/jacobian.js';
 import type { Counts, Rhs } from '../../core/types.js';
 import type { WorkLease } from '../work-lease.js';
 
 const MAX_ITER = 25;
+/**
+ * Iterations of the full-Newton retry. From the step's start a stiff step converges slowly at
+ * first (the iterate halves its distance while far off, then converges quadratically): backward
+ * Euler's first Robertson step of 1e6 takes 28 (measured).
+ */
+const FULL_MAX_ITER = 100;
 const REL_TOL = 1e-14;
 
 export interface NewtonBuffers {
@@ -45,27 +54,75 @@ export function solveStage(
   n: number,
   counts: Counts,
 ): string | undefined {
-  const { z, fz, delta, m, piv } = buf;
-  jac.evaluate(t, y, fy);
+  const simplified = simplifiedNewton(f, jac, t, y, fy, tz, ch, base, buf, n, counts);
+  if (simplified === undefined) return undefined;
+  buf.z.set(y);
+  const full = fullNewton(f, jac, tz, ch, base, buf, n, counts);
+  return full === undefined ? undefined : `${simplified}; retried with the Jacobian refreshed at every iterate: ${full}`;
+}
+
+/** Iteration matrix I - ch J from the Jacobian just evaluated, factored; false when singular. */
+function factorIteration(jac: JacobianSource, ch: number, buf: NewtonBuffers, n: number, counts: Counts): boolean {
+  const { m, piv } = buf;
   const J = jac.jac;
   for (let q = 0; q < n * n; q++) m[q] = -ch * J[q]!;
   for (let i = 0; i < n; i++) m[i * n + i] = m[i * n + i]! + 1;
   counts.nlu++;
-  if (!luFactor(m, n, piv)) return 'singular iteration matrix';
+  return luFactor(m, n, piv);
+}
+
+/** One Newton correction of z with f(tz, z) in fz: 'done', 'going' or a failure message. */
+function correct(ch: number, base: Float64Array, buf: NewtonBuffers, n: number): 'done' | 'going' | string {
+  const { z, fz, delta, m, piv } = buf;
+  for (let i = 0; i < n; i++) delta[i] = base[i]! + ch * fz[i]! - z[i]!;
+  luSolve(m, n, piv, delta);
+  let dmax = 0;
+  let zmax = 0;
+  for (let i = 0; i < n; i++) {
+    z[i] = z[i]! + delta[i]!;
+    dmax = Math.max(dmax, Math.abs(delta[i]!));
+    zmax = Math.max(zmax, Math.abs(z[i]!));
+  }
+  if (!Number.isFinite(dmax)) return 'Newton iteration produced a non-finite value';
+  return dmax <= REL_TOL * (1 + zmax) ? 'done' : 'going';
+}
+
+/** Newton with the Jacobian at (t, y) kept for every iteration. */
+function simplifiedNewton(
+  f: Rhs,
+  jac: JacobianSource,
+  t: number,
+  y: Float64Array,
+  fy: Float64Array,
+  tz: number,
+  ch: number,
+  base: Float64Array,
+  buf: NewtonBuffers,
+  n: number,
+  counts: Counts,
+): string | undefined {
+  jac.evaluate(t, y, fy);
+  if (!factorIteration(jac, ch, buf, n, counts)) return 'singular iteration matrix';
   for (let it = 0; it < MAX_ITER; it++) {
-    f(tz, z, fz);
+    f(tz, buf.z, buf.fz);
     counts.nfev++;
-    for (let i = 0; i < n; i++) delta[i] = base[i]! + ch * fz[i]! - z[i]!;
-    luSolve(m, n, piv, delta);
-    let dmax = 0;
-    let zmax = 0;
-    for (let i = 0; i < n; i++) {
-      z[i] = z[i]! + delta[i]!;
-      dmax = Math.max(dmax, Math.abs(delta[i]!));
-      zmax = Math.max(zmax, Math.abs(z[i]!));
-    }
-    if (!Number.isFinite(dmax)) return 'Newton iteration produced a non-finite value';
-    if (dmax <= REL_TOL * (1 + zmax)) return undefined;
+    const r = correct(ch, base, buf, n);
+    if (r === 'done') return undefined;
+    if (r !== 'going') return r;
   }
   return `Newton iteration did not converge in ${MAX_ITER} iterations`;
+}
+
+/** Newton with the Jacobian evaluated afresh at every iterate (z on entry: the start value). */
+function fullNewton(f: Rhs, jac: JacobianSource, tz: number, ch: number, base: Float64Array, buf: NewtonBuffers, n: number, counts: Counts): string | undefined {
+  for (let it = 0; it < FULL_MAX_ITER; it++) {
+    f(tz, buf.z, buf.fz);
+    counts.nfev++;
+    jac.evaluate(tz, buf.z, buf.fz);
+    if (!factorIteration(jac, ch, buf, n, counts)) return 'singular iteration matrix';
+    const r = correct(ch, base, buf, n);
+    if (r === 'done') return undefined;
+    if (r !== 'going') return r;
+  }
+  return `Newton iteration did not converge in ${FULL_MAX_ITER} iterations`;
 }

@@ -144,6 +144,8 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     ...(outputs ? { outputs } : {}),
     reference: readReference(site, spec, states, parameters, t0, tEnd),
     checkTimes,
+    // A table's kinks in t are real non-smooth points: adaptive methods land on them.
+    ...(spec.landOnCheckTimes || kinks.length > 0 ? { landOnCheckTimes: true } : {}),
     ...(separable ? { separable } : {}),
     ...(separableReason ? { separableReason } : {}),
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),

@@ -25,6 +25,8 @@ const common = {
   parameters: namedExpressions.optional(),
   span: z.tuple([expressionValue, expressionValue]),
   checkTimes: z.array(expressionValue).optional(),
+  /** Adaptive methods land exactly on the check times (the simulation really stops there). */
+  landOnCheckTimes: z.boolean().optional(),
   invariants: namedExpressions.optional(),
   error: errorSpec.optional(),
   stiff: z.boolean().optional(),

@@ -11,7 +11,7 @@ import { constantValue, emitField, evaluateParameters } from '../equations/const
 import { checkName, makeScope } from '../equations/names.js';
 import { findSeparableSplit } from '../equations/separable.js';
 import type { UserProblem } from '../user-problem.js';
-import { augmentedSystem, exactSolution } from './exact.js';
+import { augmentedSystem, exactSolution, EXPM_FLOOR } from './exact.js';
 import { expectShape, readMatrix, type Matrix } from './matrix.js';
 import { readSignal, type Signal } from './signals.js';
 
@@ -96,6 +96,7 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
       kind: 'exact',
       source: `expm(M (t - t0)) z0 for the ${aug.size}-state system augmented with the inputs' generators (Pade scaling and squaring, Higham 2005)`,
       exact: exactSolution(aug, n, t0, tEnd),
+      floor: EXPM_FLOOR,
     };
   } else if (spec.reference) {
     reference = {
@@ -146,6 +147,7 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
     ...(outputs ? { outputs } : {}),
     reference,
     checkTimes,
+    ...(spec.landOnCheckTimes ? { landOnCheckTimes: true } : {}),
     ...('split' in split ? { separable: split.split } : { separableReason: split.reason }),
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
     definition: canonicalJson(canonical),

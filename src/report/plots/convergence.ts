@@ -3,20 +3,18 @@
 import { sig3 } from '../format.js';
 import { methodName, problemTitle, runsOf, type PlotContext } from './context.js';
 import { fitLogLog } from './fit.js';
+import { observedOrder } from '../../results/observed-order.js';
 import { leftOutNote, selectPoints, type Measure } from './select.js';
-import { byMethod } from './series.js';
+import { atResolutionSeries, byMethod } from './series.js';
 import type { PlotOutcome, SeriesSpec } from './spec.js';
 
 const H: Measure = { label: 'h', get: (r) => ('h' in r.setting ? r.setting.h : null) };
-const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final };
+const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final, figure: 'final' };
 
-/** The order is fitted where the error is asymptotic: the finest steps whose error is below 1. */
-const FIT_POINTS = 3;
-
-export function asymptoticPoints<P extends { x: number; y: number }>(points: readonly P[]): P[] {
-  const byH = [...points].sort((a, b) => a.x - b.x);
-  const small = byH.filter((p) => p.y < 1);
-  return (small.length >= 2 ? small : byH).slice(0, FIT_POINTS);
+/** The order shown: only from the asymptotic range (measure/observed-order.ts), else why not. */
+function orderText(points: readonly { x: number; y: number }[]): string {
+  const o = observedOrder(points.map((p) => ({ h: p.x, error: p.y })));
+  return o.order === null ? `observed order: ${o.reason}` : `observed order ${sig3(o.order)} (${o.points} finest h in the asymptotic range)`;
 }
 
 export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome[] {
@@ -31,9 +29,9 @@ export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome
   for (const [id, group] of byMethod(ctx, sel.kept)) {
     const points = group.map((g) => g.point);
     const style = ctx.styles.get(id)!;
-    const fit = fitLogLog(asymptoticPoints(points));
+    const fit = fitLogLog(points);
     const order = ctx.methods.get(id)?.order ?? null;
-    const observed = fit ? `observed order ${sig3(fit.slope)} (${FIT_POINTS} finest h)` : 'observed order n/a (fewer than 2 points)';
+    const observed = orderText(points);
     series.push({ label: `${methodName(ctx, id)}: ${observed}`, points, style, markers: true, line: true });
     if (order !== null && fit) {
       // Through the centroid of the method's own points, so slope differences are visible at once.
@@ -49,6 +47,7 @@ export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome
       });
     }
   }
+  series.push(...atResolutionSeries(sel.atResolution));
   const notes = [leftOutNote(sel)];
   const unknown = [...byMethod(ctx, sel.kept).keys()].filter((id) => ctx.methods.get(id)?.order == null);
   if (unknown.length > 0) notes.push(`No published order in the results file for: ${unknown.map((id) => methodName(ctx, id)).join(', ')}.`);

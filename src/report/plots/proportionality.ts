@@ -4,11 +4,11 @@ import { sig3 } from '../format.js';
 import { methodName, problemTitle, runsOf, type PlotContext } from './context.js';
 import { fitLogLog } from './fit.js';
 import { leftOutNote, selectPoints, type Measure } from './select.js';
-import { methodSeries } from './series.js';
+import { atResolutionSeries, methodSeries } from './series.js';
 import type { PlotOutcome, SeriesStyle } from './spec.js';
 
 const RTOL: Measure = { label: 'rtol', get: (r) => ('rtol' in r.setting ? r.setting.rtol : null) };
-const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final };
+const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final, figure: 'final' };
 
 /** Neutral grey for the identity line: it belongs to no method. */
 export const IDENTITY_STYLE: SeriesStyle = { color: '#8c8c8c', marker: 'line' };
@@ -39,6 +39,7 @@ export function proportionalityPlots(ctx: PlotContext, problem: string): PlotOut
     markers: false,
     line: true,
   });
+  series.push(...atResolutionSeries(sel.atResolution));
   return [
     {
       drawn: {

@@ -1,6 +1,6 @@
 // Which runs become points, and an honest count of the rest: failed runs (by status) and ok runs
 // whose value cannot sit on a log axis (missing, zero, negative, NaN or infinite).
-import type { RunResult } from '../../results/contract.js';
+import type { ErrorFigure, RunResult } from '../../results/contract.js';
 import type { Status } from '../../core/types.js';
 import type { Point } from './spec.js';
 
@@ -8,10 +8,17 @@ export interface Measure {
   /** How the measure is named in notes, e.g. "error.final". */
   label: string;
   get: (run: RunResult) => number | null | undefined;
+  /** The error figure this measure reads, so runs at the reference's resolution are told apart. */
+  figure?: ErrorFigure;
 }
+
+/** Reason given for runs whose error is within reach of the reference's resolution. */
+export const AT_RESOLUTION = "at the reference's resolution (drawn as grey crosses, not fitted)";
 
 export interface Selection {
   kept: { run: RunResult; point: Point }[];
+  /** Runs whose error figure the reference cannot confirm: drawn apart, never fitted or joined. */
+  atResolution: { run: RunResult; point: Point }[];
   /** Reason -> number of runs left out for it. */
   leftOut: Map<string, number>;
   total: number;
@@ -27,8 +34,14 @@ function bump(m: Map<string, number>, key: string, by = 1): void {
   m.set(key, (m.get(key) ?? 0) + by);
 }
 
+function unresolved(run: RunResult, m: Measure): boolean {
+  if (!m.figure) return false;
+  return run.unresolved?.includes(m.figure) === true || (m.figure === 'final' && run.errorBelowReference === true);
+}
+
 export function selectPoints(runs: readonly RunResult[], x: Measure, y: Measure): Selection {
   const kept: Selection['kept'] = [];
+  const atResolution: Selection['atResolution'] = [];
   const leftOut = new Map<string, number>();
   for (const run of runs) {
     if (run.status !== 'ok') {
@@ -45,9 +58,14 @@ export function selectPoints(runs: readonly RunResult[], x: Measure, y: Measure)
       bump(leftOut, `${y.label} missing or not > 0`);
       continue;
     }
+    if (unresolved(run, x) || unresolved(run, y)) {
+      bump(leftOut, AT_RESOLUTION);
+      atResolution.push({ run, point: { x: xv, y: yv } });
+      continue;
+    }
     kept.push({ run, point: { x: xv, y: yv } });
   }
-  return { kept, leftOut, total: runs.length };
+  return { kept, atResolution, leftOut, total: runs.length };
 }
 
 /** Reasons in a fixed order (statuses first, then value reasons alphabetically) for stable text. */

@@ -29,3 +29,17 @@ export function methodSeries(
   }
   return out;
 }
+
+/** Points whose error the reference cannot confirm: one grey series of crosses, never joined. */
+export function atResolutionSeries(atResolution: readonly { point: Point }[]): SeriesSpec[] {
+  if (atResolution.length === 0) return [];
+  return [
+    {
+      label: "at the reference's resolution (not a confirmed error)",
+      points: atResolution.map((k) => k.point),
+      style: { color: '#9a9a9a', marker: 'crossRot' },
+      markers: true,
+      line: false,
+    },
+  ];
+}

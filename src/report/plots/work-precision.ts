@@ -2,10 +2,10 @@
 // right-hand-side evaluations (the second holds without timing noise).
 import { problemTitle, runsOf, type PlotContext } from './context.js';
 import { leftOutNote, selectPoints, type Measure } from './select.js';
-import { methodSeries } from './series.js';
+import { atResolutionSeries, methodSeries } from './series.js';
 import type { PlotOutcome } from './spec.js';
 
-const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final };
+const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final, figure: 'final' };
 const TIME: Measure = { label: 'time.medianSeconds', get: (r) => r.time.medianSeconds };
 const NFEV: Measure = { label: 'counts.nfev', get: (r) => r.counts.nfev };
 
@@ -39,7 +39,7 @@ export function workPrecisionPlots(ctx: PlotContext, problem: string): PlotOutco
               notes: [leftOutNote(sel)],
               x: { title: 'final error (error.final)', kind: 'log' },
               y: { title: 'median wall time per solve [s]', kind: 'log' },
-              series: methodSeries(ctx, sel.kept),
+              series: [...methodSeries(ctx, sel.kept), ...atResolutionSeries(sel.atResolution)],
             },
           },
     );
@@ -59,7 +59,7 @@ export function workPrecisionPlots(ctx: PlotContext, problem: string): PlotOutco
             notes: [leftOutNote(sel)],
             x: { title: 'final error (error.final)', kind: 'log' },
             y: { title: 'right-hand-side evaluations (counts.nfev)', kind: 'log' },
-            series: methodSeries(ctx, sel.kept),
+            series: [...methodSeries(ctx, sel.kept), ...atResolutionSeries(sel.atResolution)],
           },
         },
   );
