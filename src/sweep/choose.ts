@@ -70,32 +70,17 @@ function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
   let lastOk: RunResult | null = null;
   for (const rtol of RTOL_GRID) {
     const run = at(rtol);
-    if (meets(run, o, p, m, settingAt(rtol))) {
-      let hi = Math.log10(rtol);
-      let best = run;
-      if (failing !== null) {
-        let lo = Math.log10(failing);
-        for (let k = 0; k < RTOL_BISECTIONS; k++) {
-          const mid: number = (lo + hi) / 2;
-          const r = at(10 ** mid);
-          if (meets(r, o, p, m, settingAt(10 ** mid))) {
-            hi = mid;
-            best = r;
-          } else lo = mid;
-        }
-      }
-      return { best, setting: settingAt(10 ** hi), trials, closest: best, tried };
-    }
+    const meetsHere = meets(run, o, p, m, settingAt(rtol));
+    if (meetsHere && failing === null) return { best: run, setting: settingAt(rtol), trials, closest: run, tried };
     if (run.status === 'ok') lastOk = run;
-    if (tooTightToConfirm(run, o.measure)) {
-      // The error fell below what the reference confirms: look between this and the last
-      // failing setting for one whose error is confirmed and meets the target; tighter settings
-      // can only be less confirmable.
+    // Met, or the error fell below what the reference confirms (tighter settings can only be less
+    // confirmable): the loosest confirmed setting that meets lies between the last failing decade and this one.
+    if (meetsHere || tooTightToConfirm(run, o.measure)) {
       if (failing !== null) {
         let lo = Math.log10(failing);
         let hi = Math.log10(rtol);
-        let best: RunResult | null = null;
-        let bestRtol = 0;
+        let best: RunResult | null = meetsHere ? run : null;
+        let bestRtol = rtol;
         for (let k = 0; k < RTOL_BISECTIONS; k++) {
           const mid: number = (lo + hi) / 2;
           const r = at(10 ** mid);
@@ -153,25 +138,13 @@ function searchFixed(p: Problem, m: Method, o: ChooseOptions): Search {
   ladder.push(cap);
   for (const n of ladder) {
     const run = at(n);
-    if (meets(run, o, p, m, { steps: n })) {
-      let hi = n;
-      let best = run;
-      while (hi - lo > 1) {
-        const mid = Math.floor((lo + hi) / 2);
-        const r = at(mid);
-        if (meets(r, o, p, m, { steps: mid })) {
-          hi = mid;
-          best = r;
-        } else lo = mid;
-      }
-      return { best, setting: { steps: hi }, trials, closest: best, tried };
-    }
+    const meetsHere = meets(run, o, p, m, { steps: n });
     if (run.status === 'ok') lastOk = run;
-    if (tooTightToConfirm(run, o.measure)) {
-      // As for adaptive methods: between the last failing count and this unconfirmable one.
+    // As for adaptive methods: between the last failing count and this one (met, or too tight to confirm).
+    if (meetsHere || tooTightToConfirm(run, o.measure)) {
       let hi = n;
-      let best: RunResult | null = null;
-      let bestSteps = 0;
+      let best: RunResult | null = meetsHere ? run : null;
+      let bestSteps = n;
       while (hi - lo > 1) {
         const mid = Math.floor((lo + hi) / 2);
         const r = at(mid);
