@@ -62,7 +62,7 @@ describe('summary levels', () => {
       expect(md).toContain('| equal-step counts (fixed-step methods) | 20, 40, 80, 160 |');
       // The definition text as hashed (canonical JSON of the file's fields).
       expect(md).toContain('"equations":{"vx":"-mu * x / r3"');
-      expect(md).toContain('Certified by dormand-prince-853 and verner-65, none of which is measured here: independent of every method run.');
+      expect(md).toContain('Certified by dormand-prince-853 and odex, none of which is measured here: independent of every method run.');
       // A user target replaces the derived levels.
       const t = await runCli(['report', join(out, 'results.json'), '--summary-levels', '50']);
       expect(t.code, t.stderr).toBe(0);

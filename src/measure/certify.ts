@@ -179,7 +179,7 @@ export function certificateCached(p: Problem): boolean {
 export function certificationPlan(p: Problem): string {
   const [a, b] = p.stiff ? PAIRS.stiff : PAIRS.nonstiff;
   const rtol = p.stiff ? CERTIFY_RTOL_STIFF : CERTIFY_RTOL_NONSTIFF;
-  return `${a} and ${b} at rtol ${rtol}; the digits on which they agree become its trust; cached in ${cacheDir()}`;
+  return `${a} and ${b} at rtol ${rtol}, and ${a} again with steps at most 1/${BOUNDED_STEPS} of the span; the digits on which all three agree become its trust; cached in ${cacheDir()}`;
 }
 
 function certified(p: Problem): Problem {
