@@ -10,6 +10,7 @@ import type { ResultsFile } from '../src/results/contract.js';
 import { writeReport } from '../src/report/index.js';
 import { runSweep } from '../src/sweep/run.js';
 import { pngSize } from './report-helpers.js';
+import { runCli } from './helpers/cli.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
@@ -90,6 +91,119 @@ describe.skipIf(!haveChromium && !process.env.CI)('report.html in a browser', ()
     const shot = join(dir, 'report-screenshot.png');
     await page.screenshot({ path: shot, fullPage: true });
     expect(pngSize(readFileSync(shot)).width).toBe(1280);
+    expect(errors).toEqual([]);
+    expect(requests).toEqual([]);
+    await page.close();
+  });
+
+  it('charts: hover a point shows its run, a legend click hides a method, a drag zooms and a double-click resets', async () => {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(e.message));
+    page.on('console', (m) => {
+      if (m.type() === 'error') errors.push(m.text());
+    });
+    await page.route('**/*', (route) => (/^(file|data):/.test(route.request().url()) ? route.continue() : route.abort()));
+    await page.goto(pathToFileURL(join(dir, 'report.html')).href, { waitUntil: 'load' });
+    const html = readFileSync(join(dir, 'report.html'), 'utf8');
+    // One interactive chart per drawn plot, each with its static PNG kept beside it.
+    expect(await page.locator('canvas[data-plot]').count()).toBe(html.match(/<img /g)!.length);
+    const canvas = page.locator('canvas[data-plot="0"]');
+    await canvas.scrollIntoViewIfNeeded();
+    // The pixel of dataset 0's first point, from chart.js itself.
+    const at = () =>
+      canvas.evaluate((c: HTMLCanvasElement) => {
+        const chart = (window as unknown as { Chart: { getChart(c: HTMLCanvasElement): any } }).Chart.getChart(c);
+        const p = chart.getDatasetMeta(0).data[0].getProps(['x', 'y'], true);
+        const r = c.getBoundingClientRect();
+        return { x: r.left + p.x, y: r.top + p.y, label: chart.data.datasets[0].label as string, raw: chart.data.datasets[0].data[0] };
+      });
+    const point = await at();
+    await page.mouse.move(point.x, point.y);
+    const tip = page.locator('.sg-tooltip');
+    await expect.poll(() => tip.isVisible()).toBe(true);
+    const text = await tip.innerText();
+    // The tooltip names the run behind the point: the same method, setting, evaluations and status
+    // as the results file has for it.
+    const m = point.raw.m as { method: string; setting: string; nfev: number; status: string };
+    const run = results.runs.find((r) => r.method === m.method && r.counts.nfev === m.nfev)!;
+    expect(run).toBeDefined();
+    expect(text).toContain(m.method);
+    expect(text).toContain(`setting: ${m.setting}`);
+    expect(text).toContain(`evaluations: ${run.counts.nfev}`);
+    expect(text).toContain(`status: ${run.status}`);
+    expect(text).toMatch(/error: \S+/);
+    expect(text).toMatch(/time: \S+/);
+
+    // Click the first legend entry: that method's series is hidden and its point no longer answers.
+    const box = await canvas.evaluate((c: HTMLCanvasElement) => {
+      const chart = (window as unknown as { Chart: { getChart(c: HTMLCanvasElement): any } }).Chart.getChart(c);
+      const b = chart.legend.legendHitBoxes[0];
+      const r = c.getBoundingClientRect();
+      return { x: r.left + b.left + b.width / 2, y: r.top + b.top + b.height / 2 };
+    });
+    await page.mouse.click(box.x, box.y);
+    const visible = () => canvas.evaluate((c: HTMLCanvasElement) => (window as unknown as { Chart: { getChart(c: HTMLCanvasElement): any } }).Chart.getChart(c).isDatasetVisible(0));
+    expect(await visible()).toBe(false);
+    await page.mouse.move(5, 5);
+    await page.mouse.move(point.x, point.y);
+    await page.waitForTimeout(200);
+    const after = (await tip.isVisible()) ? await tip.innerText() : '';
+    expect(after.split('\n')[0]).not.toBe(m.method);
+
+    // Drag a rectangle inside the data area: the x axis narrows; double-click restores it.
+    const range = () =>
+      canvas.evaluate((c: HTMLCanvasElement) => {
+        const chart = (window as unknown as { Chart: { getChart(c: HTMLCanvasElement): any } }).Chart.getChart(c);
+        return [chart.scales.x.min, chart.scales.x.max] as [number, number];
+      });
+    const area = await canvas.evaluate((c: HTMLCanvasElement) => {
+      const chart = (window as unknown as { Chart: { getChart(c: HTMLCanvasElement): any } }).Chart.getChart(c);
+      const r = c.getBoundingClientRect();
+      const a = chart.chartArea;
+      return { left: r.left + a.left, top: r.top + a.top, right: r.left + a.right, bottom: r.top + a.bottom };
+    });
+    const before = await range();
+    await page.mouse.move(area.left + (area.right - area.left) * 0.3, area.top + 20);
+    await page.mouse.down();
+    await page.mouse.move(area.left + (area.right - area.left) * 0.6, area.bottom - 20, { steps: 4 });
+    await page.mouse.up();
+    const zoomed = await range();
+    expect(zoomed[0]).toBeGreaterThan(before[0]);
+    expect(zoomed[1]).toBeLessThan(before[1]);
+    await page.mouse.dblclick(area.left + 30, area.top + 30);
+    expect(await range()).toEqual(before);
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it('decision.html opens offline with its chart and tooltip', async () => {
+    const out = join(dir, 'decision');
+    const r = await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-6', '-m', 'dormand-prince-54,rk4', '--cost', 'nfev', '--out', out]);
+    expect(r.code, r.stderr).toBe(0);
+    const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    const errors: string[] = [];
+    const requests: string[] = [];
+    page.on('pageerror', (e) => errors.push(e.message));
+    await page.route('**/*', (route) => {
+      const url = route.request().url();
+      if (/^(file|data):/.test(url)) return route.continue();
+      requests.push(url);
+      return route.abort();
+    });
+    await page.goto(pathToFileURL(join(out, 'decision.html')).href, { waitUntil: 'load' });
+    expect(await page.locator('#recommendation').innerText()).toMatch(/^Recommended: /);
+    const canvas = page.locator('canvas[data-plot="0"]');
+    await canvas.scrollIntoViewIfNeeded();
+    const point = await canvas.evaluate((c: HTMLCanvasElement) => {
+      const chart = (window as unknown as { Chart: { getChart(c: HTMLCanvasElement): any } }).Chart.getChart(c);
+      const p = chart.getDatasetMeta(0).data[0].getProps(['x', 'y'], true);
+      const rect = c.getBoundingClientRect();
+      return { x: rect.left + p.x, y: rect.top + p.y, method: chart.data.datasets[0].data[0].m.method as string };
+    });
+    await page.mouse.move(point.x, point.y);
+    await expect.poll(() => page.locator('.sg-tooltip').isVisible()).toBe(true);
+    expect(await page.locator('.sg-tooltip').innerText()).toContain(point.method);
     expect(errors).toEqual([]);
     expect(requests).toEqual([]);
     await page.close();

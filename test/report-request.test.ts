@@ -34,7 +34,9 @@ describe('summary levels', () => {
         'equations: { x: vx, y: vy, vx: -mu * x / r3, vy: -mu * y / r3 }',
         'initial: { x: r0, y: 0, vx: 0, vy: sqrt(mu / r0) }',
         'span: [0, 2770]',
-        'error: { measure: states, scale: absolute }',
+        'outputs: { px: x, py: y }',
+        'units: { time: s, states: { x: m, y: m, vx: m/s, vy: m/s }, outputs: { px: m, py: m } }',
+        'error: { measure: outputs, scale: absolute }',
       ].join('\n'),
     );
     const before = process.env.STEPGAUGE_CACHE;
@@ -63,6 +65,17 @@ describe('summary levels', () => {
       // The definition text as hashed (canonical JSON of the file's fields).
       expect(md).toContain('"equations":{"vx":"-mu * x / r3"');
       expect(md).toContain('Certified by dormand-prince-853 and odex, none of which is measured here: independent of every method run.');
+      // Units on every axis: the error is in metres (both outputs are), t in seconds.
+      expect(results.problems[0]!.errorUnit).toBe('m');
+      const { plotContext } = await import('../src/report/plots/context.js');
+      const { planPlots } = await import('../src/report/plots/index.js');
+      const ctx = plotContext(results);
+      const drawn = planPlots(ctx, 'leo-metres').flatMap((o) => ('drawn' in o ? [o.drawn] : []));
+      expect(drawn.length).toBeGreaterThan(0);
+      for (const spec of drawn) {
+        for (const axis of [spec.x, spec.y]) expect(axis.title, `${spec.file}: ${axis.title}`).toMatch(/\[[^\]]+\]/);
+        if (spec.kind !== 'drift') expect(`${spec.x.title} ${spec.y.title}`).toContain('[m]');
+      }
       // A user target replaces the derived levels.
       const t = await runCli(['report', join(out, 'results.json'), '--summary-levels', '50']);
       expect(t.code, t.stderr).toBe(0);

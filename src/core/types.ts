@@ -114,6 +114,12 @@ export interface ProblemOutputs {
   readonly fn: (t: number, y: Float64Array, out: Float64Array) => void;
 }
 
+export interface ProblemUnits {
+  readonly time?: string;
+  readonly states?: Readonly<Record<string, string>>;
+  readonly outputs?: Readonly<Record<string, string>>;
+}
+
 export interface Problem {
   /** kebab-case id, unique in a sweep. */
   readonly id: string;
@@ -164,6 +170,8 @@ export interface Problem {
   readonly linear?: LinearStructure;
   /** Why no separable split exists (said when a symplectic method is refused). */
   readonly separableReason?: string;
+  /** Units declared by the problem (shown on plot axes; nothing is converted). */
+  readonly units?: ProblemUnits;
   /** Canonical text of the definition, hashed (SHA-256) so auditors can tell two problems apart. */
   readonly definition: string;
   /**

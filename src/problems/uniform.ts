@@ -61,6 +61,7 @@ export function uniformProblem(p: Problem): Problem {
     events: p.events,
     linear: p.linear,
     separableReason: p.separableReason,
+    units: p.units,
     definition: p.definition,
     exactFromState: p.exactFromState,
     dispersion: p.dispersion,

@@ -6,6 +6,7 @@ import type { DecisionCandidate, DecisionRecord } from './decision-record.js';
 import { escapeHtml as h, escapeMarkdown as md } from './escape.js';
 import { integer, settingLabel, sig3 } from './format.js';
 import { styleAt } from './plots/palette.js';
+import { chartElement, chartScripts, INTERACTIVE_STYLE } from './interactive.js';
 import type { PlotSpec, SeriesSpec } from './plots/spec.js';
 
 /** At most this many methods are drawn (the best ranked that met the target), so the plot stays legible. */
@@ -162,12 +163,13 @@ export function decisionHtml(r: DecisionRecord, plotPng?: Buffer): string {
     .map((row) => `<tr${row.failed ? ' class="failed"' : ''}>${row.cells.map((c, i) => `<td${i === row.cells.length - 1 ? ' class="notes"' : ''}>${h(c)}</td>`).join('')}</tr>`)
     .join('\n');
   const env = Object.entries(r.environment).map(([k, v]) => [k, typeof v === 'string' ? v : JSON.stringify(v)] as [string, string]);
-  const plot = plotPng
-    ? `<figure><img alt="work against precision with the target line and the chosen point" src="data:image/png;base64,${plotPng.toString('base64')}"><figcaption>Every setting the search tried, per method (error against function evaluations); the dashed lines mark the target and target / safety; the star marks the recommended setting.</figcaption></figure>`
+  const spec = plotPng ? decisionPlotSpec(r) : null;
+  const plot = plotPng && spec
+    ? `<figure>${chartElement(0, spec.title)}<figcaption>Every setting the search tried, per method (error against function evaluations); the dashed lines mark the target and target / safety; the star marks the recommended setting. Hover a point for its run; click a legend entry to hide a method; drag to zoom, double-click to reset.</figcaption><details><summary>Static image</summary><img alt="work against precision with the target line and the chosen point" src="data:image/png;base64,${plotPng.toString('base64')}"></details></figure>`
     : '';
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
-<title>Decision record: ${h(r.question.problem)}</title><style>${STYLE}</style></head>
+<title>Decision record: ${h(r.question.problem)}</title><style>${STYLE}${INTERACTIVE_STYLE}</style></head>
 <body><main>
 <h1>Decision record: ${h(r.model.title)} (<code>${h(r.question.problem)}</code>)</h1>
 <div class="caution" id="caution"><strong>${h(CAUTION_TITLE)}.</strong> ${h(r.caution)}</div>
@@ -182,7 +184,7 @@ export function decisionHtml(r: DecisionRecord, plotPng?: Buffer): string {
 ${plot}
 <h2>Environment and command</h2><pre id="command">${h(r.commandLine)}</pre>${kv(env)}
 <p>Written ${h(r.createdAt)}.</p>
-</main></body></html>
+</main>${spec ? chartScripts([spec]) : ''}</body></html>
 `;
 }
 
@@ -194,7 +196,7 @@ export function decisionPlotSpec(r: DecisionRecord): PlotSpec | null {
   for (const c of drawn) {
     const points = c.tried
       .filter((t) => t.status === 'ok' && t.error !== null && t.error > 0 && t.nfev > 0)
-      .map((t) => ({ x: t.error!, y: t.nfev }))
+      .map((t) => ({ x: t.error!, y: t.nfev, meta: { method: c.method, setting: settingLabel(t.setting), error: t.error, nfev: t.nfev, time: null, status: t.status } }))
       .sort((a, b) => a.y - b.y);
     if (points.length === 0) continue;
     series.push({ label: c.method, points, style: styleAt(all.indexOf(c.method)), markers: true, line: true });

@@ -4,6 +4,8 @@ import { CAUTION_TEXT, CAUTION_TITLE } from './caution.js';
 import { escapeHtml as h } from './escape.js';
 import { integer, settingLabel, sig3 } from './format.js';
 import { decadeLabel } from './plots/axes.js';
+import type { PlotSpec } from './plots/spec.js';
+import { chartElement, chartScripts, INTERACTIVE_STYLE } from './interactive.js';
 import { referenceIndependence, type ProblemSection, type ReportModel } from './model.js';
 import { levelsNote, type BestAtLevel } from './summary.js';
 import { COLUMNS, tableRows } from './table.js';
@@ -127,7 +129,7 @@ function environmentHtml(m: ReportModel): string {
 <div class="scroll"><table><thead><tr><th>id</th><th>title</th><th>stiff</th><th>reference</th><th class="num">digits</th><th>source</th><th>sha256 of definition</th></tr></thead><tbody>${probs}</tbody></table></div></section>`;
 }
 
-function sectionHtml(sec: ProblemSection, m: ReportModel): string {
+function sectionHtml(sec: ProblemSection, m: ReportModel, charts: PlotSpec[]): string {
   const ref = sec.record?.reference;
   const refLine = ref
     ? `${ref.none ? `<strong>Warning: ${h(ref.none)}; no error is measured.</strong> ` : ''}Reference: ${h(String(ref.kind))}${ref.digits !== undefined ? `, ${h(String(ref.digits))} digits` : ''}${ref.source ? `; source: ${h(ref.source)}` : ''}. ${h(referenceIndependence(sec.record, sec.runs.map((r) => r.method)))}`
@@ -139,7 +141,8 @@ function sectionHtml(sec: ProblemSection, m: ReportModel): string {
     .map((it) => {
       if ('omitted' in it) return `<p class="omitted"><b>${h(it.omitted.title)}</b><br>${h(it.omitted.note)}</p>`;
       const { spec, png } = it.drawn;
-      return `<figure><img src="data:image/png;base64,${png.toString('base64')}" width="1200" height="800" alt="${h(spec.title)}"><figcaption>${h(spec.title)}. ${spec.notes.map(h).join(' ')}</figcaption></figure>`;
+      const index = charts.push(spec) - 1;
+      return `<figure>${chartElement(index, spec.title)}<figcaption>${h(spec.title)}. ${spec.notes.map(h).join(' ')} Hover a point for its run; click a legend entry to hide that series; drag a rectangle to zoom, double-click to reset.</figcaption><details><summary>Static image (as in report.md)</summary><img src="data:image/png;base64,${png.toString('base64')}" width="1200" height="800" alt="${h(spec.title)}"></details></figure>`;
     })
     .join('\n');
   const head = COLUMNS.map((c) => `<th${c.numeric ? ' class="num" data-type="number"' : ' data-type="text"'}>${h(c.header)}</th>`).join('');
@@ -164,10 +167,13 @@ ${rows}
 }
 
 export function renderHtml(m: ReportModel): string {
+  // Every drawn plot becomes an interactive chart; its data goes into one embedded JSON block.
+  const charts: PlotSpec[] = [];
+  const sections = m.sections.map((s) => sectionHtml(s, m, charts)).join('\n');
   const toc = m.sections.map((s) => `<li><a href="#p-${h(s.slug)}">${h(s.title)}</a></li>`).join('');
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${h(m.title)}</title><style>${STYLE}</style></head>
+<title>${h(m.title)}</title><style>${STYLE}${INTERACTIVE_STYLE}</style></head>
 <body><main>
 <h1>${h(m.title)}</h1>
 <p class="sub">stepgauge ${h(String(m.results.environment.stepgauge))}, results created ${h(m.results.createdAt)}. Every figure below is computed from the results file.</p>
@@ -175,10 +181,11 @@ export function renderHtml(m: ReportModel): string {
 <nav><a href="#request">The request</a> · <b>Problems</b><ul>${toc}</ul><a href="#environment">Environment fingerprint</a></nav>
 ${summaryHtml(m)}
 ${requestHtml(m)}
-${m.sections.map((s) => sectionHtml(s, m)).join('\n')}
+${sections}
 ${environmentHtml(m)}
 </main>
 <script>${SORT_SCRIPT}</script>
+${chartScripts(charts)}
 </body></html>
 `;
 }

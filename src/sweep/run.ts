@@ -23,6 +23,27 @@ import { DEFAULT_MAX_STEPS } from '../core/defaults.js';
 export type { SweepOptions, SweepProgress } from './execute.js';
 import type { SweepProgress } from './execute.js';
 
+/**
+ * The unit of error.final for plot axes: the one unit every measured component shares under an
+ * absolute error scale, "relative" under a relative one, else none.
+ */
+export function errorUnit(p: Problem): string | undefined {
+  if (p.errorScale.kind === 'relative') return 'relative';
+  const names = p.errorOn === 'outputs' ? (p.outputs?.names ?? []) : (p.stateNames ?? []);
+  const table = p.errorOn === 'outputs' ? p.units?.outputs : p.units?.states;
+  if (!table || names.length === 0) return undefined;
+  const units = new Set(names.map((n) => table[n] ?? ''));
+  const only = [...units][0];
+  return units.size === 1 && only ? only : undefined;
+}
+
+/** Decades the span covers from its first positive check time to its end (null when t0 < 0 or none). */
+export function timeDecades(p: Problem): number | null {
+  const first = p.checkTimes.find((t) => t > 0);
+  if (p.t0 < 0 || first === undefined || !(p.tEnd > first)) return null;
+  return Math.log10(p.tEnd / first);
+}
+
 export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number | null>): ProblemRecord {
   const ref: ProblemRecord['reference'] = { kind: p.reference.kind };
   if (p.reference.digits !== undefined) ref.digits = p.reference.digits;
@@ -44,6 +65,9 @@ export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number
     stiffnessRatio: stiffness?.has(p.id) ? stiffness.get(p.id)! : problemStiffnessRatio(p),
     ...(p.dispersion ? { dispersion: p.dispersion } : {}),
     definition: p.definition,
+    ...(p.units ? { units: p.units } : {}),
+    ...(timeDecades(p) !== null ? { timeDecades: timeDecades(p) } : {}),
+    ...(errorUnit(p) ? { errorUnit: errorUnit(p) } : {}),
   };
 }
 

@@ -1,6 +1,7 @@
 // Builds a Problem from an equation file: checks every name and expression, orders definitions,
 // compiles f, invariants, outputs and the exact reference to JavaScript, forms the symbolic
 // Jacobian and finds (or checks) the separable split.
+import { readUnits } from '../file/units.js';
 import { basename } from 'node:path';
 import type { OrbitStates, Reference, SeparableSplit } from '../../core/types.js';
 import { DERIVATIVE_FUNCTIONS, USER_FUNCTIONS } from '../expression/functions.js';
@@ -151,6 +152,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
     ...(events.length ? { events } : {}),
     ...(orbit ? { orbit } : {}),
+    ...(spec.units ? { units: readUnits(site, spec.units, states, outputNames) } : {}),
     definition: canonicalJson(tables ? { file: site.data, tableValues: tables.canonical } : site.data),
     origin: site.file,
   };

@@ -31,6 +31,14 @@ const common = {
   error: errorSpec.optional(),
   stiff: z.boolean().optional(),
   atolScale: atolScale.optional(),
+  /** Units of t, of states and of outputs by name: shown on plot axes; no conversion is done. */
+  units: z
+    .strictObject({
+      time: z.string().min(1).optional(),
+      states: z.record(z.string(), z.string().min(1)).optional(),
+      outputs: z.record(z.string(), z.string().min(1)).optional(),
+    })
+    .optional(),
   /** Samples of initial states and parameters (src/problems/dispersion). */
   dispersion: dispersionSpec.optional(),
 };

@@ -1,4 +1,5 @@
 // Builds a Problem from a linear state-space file: x' = A x + B u(t), y = C x + D u(t).
+import { readUnits } from '../file/units.js';
 import { basename } from 'node:path';
 import type { Reference } from '../../core/types.js';
 import { canonicalJson } from '../file/canonical.js';
@@ -150,6 +151,7 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
     ...(spec.landOnCheckTimes ? { landOnCheckTimes: true } : {}),
     ...('split' in split ? { separable: split.split } : { separableReason: split.reason }),
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
+    ...(spec.units ? { units: readUnits(site, spec.units, states, outputs?.names ?? []) } : {}),
     definition: canonicalJson(canonical),
     origin: site.file,
   };

@@ -1,3 +1,4 @@
+import type { AxisSpec } from './spec.js';
 // Log axes whose ticks sit on powers of ten only, labelled "10⁻⁸" style, so every plot reads
 // the same way and no axis ever shows "0.000001"-like decimals.
 
@@ -60,4 +61,24 @@ export function decadeTicks(range: DecadeRange, maxTicks = 16): number[] {
   const ticks: number[] = [];
   for (let k = range.lo; k <= range.hi; k += stride) ticks.push(decade(k));
   return ticks;
+}
+
+/** A positive time span covering this many decades or more gets a logarithmic time axis. */
+const LOG_TIME_DECADES = 3;
+
+/** Unit text for an axis title: " [m]", or "" when none is declared. */
+export function unitSuffix(unit: string | undefined | null): string {
+  return unit ? ` [${unit}]` : '';
+}
+
+/** Time axis of a trace plot: logarithmic when the sampled times span several decades (t0 >= 0). */
+export function timeAxis(ctx: { results: { problems: { id: string; units?: unknown; timeDecades?: unknown }[] } }, problem: string, tMin: number, tMax: number, tPositive: number): AxisSpec {
+  const record = ctx.results.problems.find((p) => p.id === problem);
+  const units = record?.units as { time?: string } | undefined;
+  const title = `t${unitSuffix(units?.time)}`;
+  // The problem's own span decides (its check times from the first positive one to the end), or
+  // the samples when it says nothing; t0 = 0 itself cannot be drawn on a log axis.
+  const decades = typeof record?.timeDecades === 'number' ? record.timeDecades : Number.isFinite(tPositive) && tPositive > 0 ? Math.log10(tMax / tPositive) : 0;
+  if (tMin >= 0 && Number.isFinite(tPositive) && decades >= LOG_TIME_DECADES) return { title: `${title}, log scale`, kind: 'log' };
+  return { title, kind: 'linear', min: tMin, max: tMax };
 }

@@ -1,7 +1,10 @@
 // What every plot builder needs from the results file, computed once per report.
 import type { ResultsFile, RunResult } from '../../results/contract.js';
 import { methodInfo, type MethodInfo } from '../methods.js';
-import { assignStyles, methodOrder, type MethodStyle } from './palette.js';
+import { methodOrder, styleAt, type MethodStyle } from './palette.js';
+
+/** Method families in the order their panels and colours follow. */
+export const FAMILY_ORDER = ['fixed-step', 'embedded-explicit', 'symplectic', 'implicit', 'extrapolation', 'external'];
 
 export interface PlotContext {
   results: ResultsFile;
@@ -41,12 +44,25 @@ export function slugify(ids: readonly string[]): Map<string, string> {
   return out;
 }
 
+/**
+ * One colour and marker per method for the whole report, assigned in family order (the order of
+ * the panels, groups.ts), so the at most eight methods of any panel, or of a plot with eight or
+ * fewer, all get different colours.
+ */
+function familyStyles(results: ResultsFile): Map<string, MethodStyle> {
+  const info = methodInfo(results);
+  const ids = methodOrder(results);
+  const family = (id: string) => FAMILY_ORDER.indexOf(info.get(id)?.family ?? '') + 1 || FAMILY_ORDER.length + 1;
+  const ordered = ids.map((id, i) => ({ id, i })).sort((a, b) => family(a.id) - family(b.id) || a.i - b.i);
+  return new Map(ordered.map(({ id }, k) => [id, styleAt(k)]));
+}
+
 export function plotContext(results: ResultsFile): PlotContext {
   const problemIds = problemOrder(results);
   return {
     results,
     methods: methodInfo(results),
-    styles: assignStyles(results),
+    styles: familyStyles(results),
     methodIds: methodOrder(results),
     slugs: slugify(problemIds),
     problemIds,
@@ -62,6 +78,22 @@ export function problemTitle(ctx: PlotContext, problem: string): string {
   return p && p.title ? `${p.title} (${problem})` : problem;
 }
 
+/** Longest display name a legend shows; longer names give way to the (shorter) method id. */
+const LEGEND_NAME_MAX = 32;
+
 export function methodName(ctx: PlotContext, id: string): string {
-  return ctx.methods.get(id)?.name ?? id;
+  const name = ctx.methods.get(id)?.name ?? id;
+  return name.length <= LEGEND_NAME_MAX ? name : id;
+}
+
+/** The unit of a problem's error.final, when its record declares one ("relative" for relative scales). */
+export function errorUnitOf(ctx: PlotContext, problem: string): string | undefined {
+  const u = ctx.results.problems.find((p) => p.id === problem)?.errorUnit;
+  return typeof u === 'string' ? u : undefined;
+}
+
+/** The time unit a problem declares, if any. */
+export function timeUnitOf(ctx: PlotContext, problem: string): string | undefined {
+  const u = (ctx.results.problems.find((p) => p.id === problem)?.units as { time?: unknown } | undefined)?.time;
+  return typeof u === 'string' ? u : undefined;
 }

@@ -1,11 +1,13 @@
 // Convergence of fixed-step methods: final error against step size h, with a dashed line of the
 // published order through each method's points and the fitted (observed) order in the legend.
+import { errorUnitOf, timeUnitOf } from './context.js';
+import { unitSuffix } from './axes.js';
 import { sig3 } from '../format.js';
 import { methodName, problemTitle, runsOf, type PlotContext } from './context.js';
 import { fitLogLog } from './fit.js';
 import { observedOrder } from '../../results/observed-order.js';
 import { leftOutNote, selectPoints, type Measure } from './select.js';
-import { atResolutionSeries, byMethod } from './series.js';
+import { atResolutionSeries, byMethod, pointMeta } from './series.js';
 import type { PlotOutcome, SeriesSpec } from './spec.js';
 
 const H: Measure = { label: 'h', get: (r) => ('h' in r.setting ? r.setting.h : null) };
@@ -32,13 +34,14 @@ export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome
     const fit = fitLogLog(points);
     const order = ctx.methods.get(id)?.order ?? null;
     const observed = orderText(points);
-    series.push({ label: `${methodName(ctx, id)}: ${observed}`, points, style, markers: true, line: true });
+    series.push({ label: `${methodName(ctx, id)}: ${observed}`, method: id, points: group.map((g) => ({ ...g.point, meta: pointMeta(g.run) })), style, markers: true, line: true });
     if (order !== null && fit) {
       // Through the centroid of the method's own points, so slope differences are visible at once.
       const hs = points.map((p) => p.x);
       const ends = [Math.min(...hs), Math.max(...hs)];
       series.push({
         label: `${methodName(ctx, id)}: published order ${order} (slope)`,
+        method: id,
         points: ends.map((h) => ({ x: h, y: 10 ** (fit.meanLogY + order * (Math.log10(h) - fit.meanLogX)) })),
         style,
         dashed: true,
@@ -59,8 +62,8 @@ export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome
         file: `${ctx.slugs.get(problem)!}-convergence.png`,
         title,
         notes,
-        x: { title: 'step size h', kind: 'log' },
-        y: { title: 'final error (error.final)', kind: 'log' },
+        x: { title: `step size h${unitSuffix(timeUnitOf(ctx, problem))}`, kind: 'log' },
+        y: { title: `final error (error.final)${unitSuffix(errorUnitOf(ctx, problem))}`, kind: 'log' },
         series,
       },
     },

@@ -1,7 +1,8 @@
 // Invariant drift along the span, one plot per (problem, invariant): each method at its tightest
 // ok setting (solid) and at a middle one (dashed), from the sampled trace in the results.
 import type { RunResult } from '../../results/contract.js';
-import { settingLabel, tightness } from '../format.js';
+import { sig3, tightness } from '../format.js';
+import { timeAxis } from './axes.js';
 import { methodName, problemTitle, runsOf, type PlotContext } from './context.js';
 import { orderedReasons } from './select.js';
 import type { Point, PlotOutcome, SeriesSpec } from './spec.js';
@@ -33,8 +34,11 @@ export function pickSettings(runs: readonly RunResult[]): { tightest: RunResult;
 
 /** One method's trace over time: solid for its tightest run, dashed for a middle one. */
 export function traceSeries(ctx: PlotContext, id: string, run: RunResult, dashed: boolean, points: Point[]): SeriesSpec {
+  const s = run.setting;
+  const short = 'rtol' in s ? `rtol ${sig3(s.rtol)}` : `${s.steps} steps`;
   return {
-    label: `${methodName(ctx, id)}, ${dashed ? 'middle' : 'tightest'}: ${settingLabel(run.setting)}`,
+    label: `${methodName(ctx, id)}${dashed ? ', middle' : ''} (${short})`,
+    method: id,
     points,
     style: ctx.styles.get(id)!,
     dashed,
@@ -55,6 +59,7 @@ export function driftPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
     let totalSamples = 0;
     let tMin = Infinity;
     let tMax = -Infinity;
+    let tPositive = Infinity;
     const series: SeriesSpec[] = [];
     for (const id of ctx.methodIds) {
       const mine = runs.filter((r) => r.method === id);
@@ -67,8 +72,8 @@ export function driftPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
       }
       const pick = pickSettings(eligible);
       if (!pick) continue;
+      // One setting per method, the tightest that ended ok: more lines hide each other.
       const chosen: [RunResult, boolean][] = [[pick.tightest, false]];
-      if (pick.mid) chosen.push([pick.mid, true]);
       for (const [run, dashed] of chosen) {
         const t = run.trace!.t;
         const d = run.trace!.drift[inv]!;
@@ -77,6 +82,7 @@ export function driftPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
           totalSamples++;
           if (Number.isFinite(t[i]!)) {
             tMin = Math.min(tMin, t[i]!);
+            if (t[i]! > 0) tPositive = Math.min(tPositive, t[i]!);
             tMax = Math.max(tMax, t[i]!);
           }
           const v = d[i]!;
@@ -90,7 +96,7 @@ export function driftPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
     }
     const notLeftOut = runs.length - [...leftOut.values()].reduce((a, b) => a + b, 0);
     const notes = [
-      'Solid: tightest setting with status ok; dashed: a middle setting.',
+      'Each method at its tightest setting with status ok.',
       notLeftOut === runs.length
         ? `All ${runs.length} runs eligible.`
         : `Not eligible: ${runs.length - notLeftOut} of ${runs.length} runs (${orderedReasons(leftOut)
@@ -109,7 +115,7 @@ export function driftPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
         file: `${ctx.slugs.get(problem)!}-drift-${index + 1}.png`,
         title,
         notes,
-        x: { title: 't', kind: 'linear', min: tMin, max: tMax },
+        x: timeAxis(ctx, problem, tMin, tMax, tPositive),
         y: { title: `relative drift |I(t) - I(0)| / |I(0)| of ${inv}`, kind: 'log' },
         series,
       },

@@ -8,6 +8,7 @@ import { proportionalityPlots } from './proportionality.js';
 import { renderPlot } from './render.js';
 import type { OmittedPlot, PlotOutcome, PlotSpec } from './spec.js';
 import { workPrecisionPlots } from './work-precision.js';
+import { splitOutcomes } from './groups.js';
 
 export interface RenderedPlot {
   spec: PlotSpec;
@@ -21,13 +22,13 @@ export interface ProblemPlots {
 }
 
 export function planPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
-  return [
+  return splitOutcomes(ctx, [
     ...workPrecisionPlots(ctx, problem),
     ...convergencePlots(ctx, problem),
     ...proportionalityPlots(ctx, problem),
     ...driftPlots(ctx, problem),
     ...orbitErrorPlots(ctx, problem),
-  ];
+  ]);
 }
 
 export function renderAllPlots(results: ResultsFile, ctx: PlotContext = plotContext(results)): ProblemPlots[] {
@@ -39,5 +40,5 @@ export function renderAllPlots(results: ResultsFile, ctx: PlotContext = plotCont
 
 export { plotContext } from './context.js';
 export type { PlotContext } from './context.js';
-export { renderPlot, PLOT_WIDTH, PLOT_HEIGHT } from './render.js';
+export { renderPlot, plotLayout, PLOT_WIDTH, PLOT_HEIGHT } from './render.js';
 export type { PlotSpec, OmittedPlot, PlotOutcome, SeriesSpec } from './spec.js';

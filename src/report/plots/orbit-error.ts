@@ -2,6 +2,7 @@
 // magnitudes of each method's tightest ok run (solid) and a middle one (dashed), from the trace
 // in the results. The in-track plot is the one that grows (a phase error accumulates), the
 // others stay near the size of one orbit's error.
+import { timeAxis } from './axes.js';
 import type { RunResult } from '../../results/contract.js';
 import { problemTitle, runsOf, type PlotContext } from './context.js';
 import { pickSettings, traceSeries } from './drift.js';
@@ -23,6 +24,7 @@ export function orbitErrorPlots(ctx: PlotContext, problem: string): PlotOutcome[
     const series: SeriesSpec[] = [];
     let tMin = Infinity;
     let tMax = -Infinity;
+    let tPositive = Infinity;
     for (const id of ctx.methodIds) {
       const eligible = runs.filter((r: RunResult) => r.method === id && r.status === 'ok' && r.orbitError?.trace);
       const pick = pickSettings(eligible);
@@ -38,6 +40,7 @@ export function orbitErrorPlots(ctx: PlotContext, problem: string): PlotOutcome[
           if (Number.isFinite(tr.t[i]!) && Number.isFinite(v) && v > 0) {
             points.push({ x: tr.t[i]!, y: v });
             tMin = Math.min(tMin, tr.t[i]!);
+            if (tr.t[i]! > 0) tPositive = Math.min(tPositive, tr.t[i]!);
             tMax = Math.max(tMax, tr.t[i]!);
           }
         }
@@ -60,7 +63,7 @@ export function orbitErrorPlots(ctx: PlotContext, problem: string): PlotOutcome[
         file: `${ctx.slugs.get(problem)!}-orbit-${name}.png`,
         title,
         notes,
-        x: { title: 't', kind: 'linear', min: tMin, max: tMax },
+        x: timeAxis(ctx, problem, tMin, tMax, tPositive),
         y: { title: `|${name} error| (${unit})`, kind: 'log' },
         series,
       },

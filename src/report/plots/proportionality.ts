@@ -1,5 +1,7 @@
 // Tolerance proportionality of adaptive methods: achieved final error against requested rtol,
 // beside the line error = rtol; the fitted log-log slope says how the error tracks the request.
+import { errorUnitOf, timeUnitOf } from './context.js';
+import { unitSuffix } from './axes.js';
 import { sig3 } from '../format.js';
 import { methodName, problemTitle, runsOf, type PlotContext } from './context.js';
 import { fitLogLog } from './fit.js';
@@ -48,8 +50,8 @@ export function proportionalityPlots(ctx: PlotContext, problem: string): PlotOut
         file: `${ctx.slugs.get(problem)!}-proportionality.png`,
         title,
         notes: [leftOutNote(sel)],
-        x: { title: 'requested relative tolerance (rtol)', kind: 'log' },
-        y: { title: 'achieved final error (error.final)', kind: 'log' },
+        x: { title: 'requested relative tolerance (rtol) [relative]', kind: 'log' },
+        y: { title: `achieved final error (error.final)${unitSuffix(errorUnitOf(ctx, problem))}`, kind: 'log' },
         series,
       },
     },

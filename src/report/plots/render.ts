@@ -23,6 +23,8 @@ import type { AxisSpec, PlotSpec, SeriesSpec } from './spec.js';
 
 export const PLOT_WIDTH = 1200;
 export const PLOT_HEIGHT = 800;
+/** Widest the legend may grow, so the data area keeps most of the picture. */
+const LEGEND_MAX_WIDTH = 470;
 
 const TEXT = '#1e1e1e';
 const MUTED = '#505050';
@@ -159,11 +161,14 @@ export function chartConfig(spec: PlotSpec): ChartConfiguration<'scatter'> {
           font: { family, size: 13 },
           padding: { bottom: 10 },
         },
+        // At the right, beside the data area (never over it); panels hold at most about eight
+        // methods (groups.ts), so every entry fits the height.
         legend: {
           display: true,
-          position: 'bottom',
+          position: 'right',
           align: 'start',
-          labels: { color: TEXT, font: { family, size: 13 }, usePointStyle: true, boxHeight: 8, boxWidth: 30, padding: 14 },
+          maxWidth: LEGEND_MAX_WIDTH,
+          labels: { color: TEXT, font: { family, size: 12 }, usePointStyle: true, boxHeight: 8, boxWidth: 26, padding: 10 },
         },
         tooltip: { enabled: false },
       },
@@ -179,6 +184,35 @@ export function renderPlot(spec: PlotSpec): Buffer {
   const chart = new Chart(canvas as unknown as HTMLCanvasElement, chartConfig(spec));
   try {
     return canvas.toBuffer('image/png');
+  } finally {
+    chart.destroy();
+  }
+}
+
+/** Where chart.js put the legend entries and the data area for a spec (for tests of legibility). */
+export interface PlotLayout {
+  width: number;
+  height: number;
+  chartArea: { left: number; top: number; right: number; bottom: number };
+  datasets: string[];
+  legend: { text: string; left: number; top: number; width: number; height: number }[];
+}
+
+export function plotLayout(spec: PlotSpec): PlotLayout {
+  register();
+  const canvas = createCanvas(PLOT_WIDTH, PLOT_HEIGHT);
+  const chart = new Chart(canvas as unknown as HTMLCanvasElement, chartConfig(spec));
+  try {
+    const items = chart.legend?.legendItems ?? [];
+    const boxes = (chart.legend as unknown as { legendHitBoxes?: { left: number; top: number; width: number; height: number }[] }).legendHitBoxes ?? [];
+    const a = chart.chartArea;
+    return {
+      width: PLOT_WIDTH,
+      height: PLOT_HEIGHT,
+      chartArea: { left: a.left, top: a.top, right: a.right, bottom: a.bottom },
+      datasets: spec.series.map((s) => s.label),
+      legend: items.map((it, i) => ({ text: it.text, ...(boxes[i] ?? { left: NaN, top: NaN, width: NaN, height: NaN }) })),
+    };
   } finally {
     chart.destroy();
   }

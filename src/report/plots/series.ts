@@ -1,9 +1,9 @@
 // Grouping selected points into one series per method, in palette order, each ordered from
 // loosest to tightest setting so the joining line follows the sweep.
 import type { RunResult } from '../../results/contract.js';
-import { tightness } from '../format.js';
+import { settingLabel, tightness } from '../format.js';
 import { methodName, type PlotContext } from './context.js';
-import type { Point, SeriesSpec } from './spec.js';
+import type { Point, PointMeta, SeriesSpec } from './spec.js';
 
 export function byMethod(
   ctx: PlotContext,
@@ -17,6 +17,11 @@ export function byMethod(
   return groups;
 }
 
+/** What the interactive report's tooltip says about the run behind a point. */
+export function pointMeta(run: RunResult): PointMeta {
+  return { method: run.method, setting: settingLabel(run.setting), error: run.error.final, nfev: run.counts.nfev, time: run.time.medianSeconds, status: run.status };
+}
+
 export function methodSeries(
   ctx: PlotContext,
   kept: readonly { run: RunResult; point: Point }[],
@@ -24,8 +29,8 @@ export function methodSeries(
 ): SeriesSpec[] {
   const out: SeriesSpec[] = [];
   for (const [id, g] of byMethod(ctx, kept)) {
-    const points = g.map((k) => k.point);
-    out.push({ label: label(id, points), points, style: ctx.styles.get(id)!, markers: true, line: true });
+    const points = g.map((k) => ({ ...k.point, meta: pointMeta(k.run) }));
+    out.push({ label: label(id, points), method: id, points, style: ctx.styles.get(id)!, markers: true, line: true });
   }
   return out;
 }

@@ -2,9 +2,20 @@
 // renderer is the only module that knows chart.js.
 import type { Marker } from './palette.js';
 
+/** The run behind a point, for the interactive report's tooltip. */
+export interface PointMeta {
+  method: string;
+  setting: string;
+  error: number | null;
+  nfev: number;
+  time: number | null;
+  status: string;
+}
+
 export interface Point {
   x: number;
   y: number;
+  meta?: PointMeta;
 }
 
 /** A method's style, or a neutral one (marker 'line') for reference lines that belong to no method. */
@@ -15,6 +26,8 @@ export interface SeriesStyle {
 
 export interface SeriesSpec {
   label: string;
+  /** The method the series belongs to (absent for reference lines): panels group by it. */
+  method?: string;
   points: Point[];
   style: SeriesStyle;
   /** Dashed line (reference slopes, mid settings). */

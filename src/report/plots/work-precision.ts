@@ -1,5 +1,7 @@
 // Work against precision per problem: final error against median wall time, and against exact
 // right-hand-side evaluations (the second holds without timing noise).
+import { errorUnitOf, timeUnitOf } from './context.js';
+import { unitSuffix } from './axes.js';
 import { problemTitle, runsOf, type PlotContext } from './context.js';
 import { leftOutNote, selectPoints, type Measure } from './select.js';
 import { atResolutionSeries, methodSeries } from './series.js';
@@ -37,7 +39,7 @@ export function workPrecisionPlots(ctx: PlotContext, problem: string): PlotOutco
               file: `${slug}-work-time.png`,
               title: timeTitle,
               notes: [leftOutNote(sel)],
-              x: { title: 'final error (error.final)', kind: 'log' },
+              x: { title: `final error (error.final)${unitSuffix(errorUnitOf(ctx, problem))}`, kind: 'log' },
               y: { title: 'median wall time per solve [s]', kind: 'log' },
               series: [...methodSeries(ctx, sel.kept), ...atResolutionSeries(sel.atResolution)],
             },
@@ -57,8 +59,8 @@ export function workPrecisionPlots(ctx: PlotContext, problem: string): PlotOutco
             file: `${slug}-work-nfev.png`,
             title: nfevTitle,
             notes: [leftOutNote(sel)],
-            x: { title: 'final error (error.final)', kind: 'log' },
-            y: { title: 'right-hand-side evaluations (counts.nfev)', kind: 'log' },
+            x: { title: `final error (error.final)${unitSuffix(errorUnitOf(ctx, problem))}`, kind: 'log' },
+            y: { title: 'right-hand-side evaluations (counts.nfev) [count]', kind: 'log' },
             series: [...methodSeries(ctx, sel.kept), ...atResolutionSeries(sel.atResolution)],
           },
         },
