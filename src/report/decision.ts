@@ -52,7 +52,7 @@ function rows(r: DecisionRecord): Row[] {
       integer(c.counts?.rejected),
       timeText(c),
       c.fragile === null ? '—' : c.fragile ? 'yes' : 'no',
-      [...(c.tiedWith.length > 0 ? [`tied in time with ${c.tiedWith.join(', ')}`] : []), ...c.notes].join('; '),
+      [...(c.tiedWith.length > 0 ? [`tied ${r.question.cost === 'time' ? 'in time' : 'in evaluations'} with ${c.tiedWith.join(', ')}`] : []), ...c.notes].join('; '),
     ],
   }));
 }

@@ -73,6 +73,11 @@ function mergeExtras(files: MergeInput[], onWarning: (m: string) => void): Recor
     const present = files.filter((f) => f.results[k] !== undefined);
     const values = present.map((f) => withoutShard(f.results[k]));
     const texts = values.map((v) => JSON.stringify(v));
+    if (k === 'command' && values.every((v) => typeof v === 'string')) {
+      // Each shard's own command line, one per line, in file order: how the merged file was made.
+      out[k] = [...new Set(values as string[])].join('\n');
+      continue;
+    }
     if (present.length === files.length && texts.every((t) => t === texts[0])) {
       out[k] = values[0];
     } else if (values.every(Array.isArray)) {

@@ -60,7 +60,12 @@ export function recommendation(
   const pick = steady ?? met[0]!;
   const costText = q.cost === 'time' ? 'median wall time (ties within the 95% margins broken by function evaluations)' : 'function evaluations';
   const parts = [`${pick.method} at ${settingText(pick)} reaches ${need} at the lowest ${costText}`];
-  if (pick.tiedWith && pick.tiedWith.length > 0) parts[0] = `${pick.method} at ${settingText(pick)} reaches ${need}; its time is tied with ${pick.tiedWith.join(', ')} within the 95% margins and it needs the fewest function evaluations of them`;
+  if (pick.tiedWith && pick.tiedWith.length > 0) {
+    parts[0] =
+      q.cost === 'time'
+        ? `${pick.method} at ${settingText(pick)} reaches ${need}; its time is tied with ${pick.tiedWith.join(', ')} within the 95% margins and it needs the fewest function evaluations of them`
+        : `${pick.method} at ${settingText(pick)} reaches ${need} with the fewest function evaluations, as many as ${pick.tiedWith.join(', ')} (listed first among equals)`;
+  }
   if (pick !== met[0]) parts.push(`ranked ahead of it, ${met.slice(0, met.indexOf(pick)).map((c) => c.method).join(', ')} ${met.indexOf(pick) === 1 ? 'is' : 'are'} fragile (error not monotone at half and double the setting)`);
   if (!steady) parts.push('every method that met the target is fragile: its error is not monotone at the neighbouring settings, so treat this choice with care');
   if (pick.margin !== null) parts.push(`confirmed error ${pick.achieved?.toExponential(2)} is ${pick.margin.toPrecision(3)}x inside the target`);

@@ -46,6 +46,8 @@ interface ListKind<T extends { id: string }> {
   noun: string;
   flag: string;
   builtins: readonly T[];
+  /** Made of a built-in before use (a catalogue problem whose reference is certified gets it here). */
+  prepare?: (item: T) => T;
   /** Other names (lower case) -> built-in id. */
   aliases?: Readonly<Record<string, string>>;
   /** One item, or several (a dispersion yields one problem per sample). */
@@ -58,7 +60,8 @@ async function resolveList<T extends { id: string }>(list: string | undefined, k
   if (list !== undefined && entries.length === 0) {
     throw new InputError(`expected a comma-separated list of ${kind.noun} ids or files`, kind.flag);
   }
-  if (entries.length === 0) return { items: [...kind.builtins], named: false, entries: new Map() };
+  const prepare = kind.prepare ?? ((x: T) => x);
+  if (entries.length === 0) return { items: kind.builtins.map(prepare), named: false, entries: new Map() };
   const items: T[] = [];
   const sources = new Map<string, string>();
   for (const entry of entries) {
@@ -75,7 +78,7 @@ async function resolveList<T extends { id: string }>(list: string | undefined, k
     const id = kind.aliases?.[typed] ?? typed;
     const item = kind.builtins.find((c) => c.id.toLowerCase() === id);
     if (!item) throw unknown(kind.noun, kind.flag, entry, kind.builtins.map((c) => c.id), Object.keys(kind.aliases ?? {}));
-    items.push(item);
+    items.push(prepare(item));
   }
   assertUnique(items.map((x) => x.id), kind.flag);
   return { items, named: true, entries: sources };
@@ -92,25 +95,29 @@ export async function resolveProblems(
   uncertified?: ReadonlyMap<string, string>,
   note: (message: string) => void = () => {},
 ): Promise<Resolved<Problem>> {
+  // Certification is two tight solves and can take a while: say what happens and how long it took.
+  const certified = (entry: string, x: Problem, skipped?: string): Problem => {
+    const label = `${entry}${x.dispersion ? ` (${x.id})` : ''}`;
+    const fresh = skipped === undefined && needsCertificate(x) && !certificateCached(x);
+    if (fresh) note(`${label}: no reference given; certifying one (${certificationPlan(x)})`);
+    const started = performance.now();
+    const p = skipped !== undefined ? withoutReference(x, skipped) : withCertifiedReference(x);
+    if (fresh && !p.reference.unavailable) note(`${label}: certified in ${((performance.now() - started) / 1000).toFixed(1)} s: ${p.reference.source ?? ''}`);
+    if (p.reference.unavailable) warn(`${label}: ${p.reference.unavailable}`);
+    if (p.reference.untrusted) warn(`warning: ${p.reference.untrusted}; its errors are not measured`);
+    return uniformProblem(p);
+  };
   return resolveList(list, {
     noun: 'problem',
     flag: '--problem',
     builtins: catalogue,
+    // A catalogue problem whose reference stepgauge certifies (leo-j2, say) gets it like a file's.
+    prepare: (p) => (needsCertificate(p) ? certified(p.id, p) : p),
     async load(entry) {
       const { loadUserProblem } = await import('./user-files.js');
       const loaded = await loadUserProblem(entry);
       const skipped = uncertified?.get(resolvePath(entry));
-      const one = (x: Problem): Problem => {
-        // Certification is two tight solves and can take a while: say what happens and how long it took.
-        const fresh = skipped === undefined && needsCertificate(x) && !certificateCached(x);
-        if (fresh) note(`${entry}${x.dispersion ? ` (${x.id})` : ''}: no reference given; certifying one (${certificationPlan(x)})`);
-        const started = performance.now();
-        const p = skipped !== undefined ? withoutReference(x, skipped) : withCertifiedReference(x);
-        if (fresh && !p.reference.unavailable) note(`${entry}${x.dispersion ? ` (${x.id})` : ''}: certified in ${((performance.now() - started) / 1000).toFixed(1)} s: ${p.reference.source ?? ''}`);
-        if (p.reference.unavailable) warn(`${entry}${x.dispersion ? ` (${x.id})` : ''}: ${p.reference.unavailable}`);
-        if (p.reference.untrusted) warn(`warning: ${p.reference.untrusted}; its errors are not measured`);
-        return uniformProblem(p);
-      };
+      const one = (x: Problem): Problem => certified(entry, x, skipped);
       return Array.isArray(loaded) ? loaded.map(one) : one(loaded);
     },
   });

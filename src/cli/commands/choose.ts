@@ -53,7 +53,7 @@ function timeText(c: Candidate): string {
 export function choiceText(choice: Choice): string {
   const rows = [['rank', 'method', 'setting', 'achieved error', 'margin', 'nfev', 'njev', 'nlu', 'time', 'note']];
   for (const c of choice.candidates) {
-    const notes = [...(c.tiedWith && c.tiedWith.length > 0 ? [`tied in time with ${c.tiedWith.join(', ')}`] : []), ...(c.note ? [c.note] : [])];
+    const notes = [...(c.tiedWith && c.tiedWith.length > 0 ? [`tied ${choice.cost === 'time' ? 'in time' : 'in evaluations'} with ${c.tiedWith.join(', ')}`] : []), ...(c.note ? [c.note] : [])];
     rows.push([
       c.rank == null ? '—' : `${c.rank}${c.tiedWith && c.tiedWith.length > 0 ? '=' : ''}`,
       c.method,
