@@ -14,9 +14,11 @@ const H: Measure = { label: 'h', get: (r) => ('h' in r.setting ? r.setting.h : n
 const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final, figure: 'final' };
 
 /** The order shown: only from the asymptotic range (measure/observed-order.ts), else why not. */
-function orderText(points: readonly { x: number; y: number }[]): string {
+/** The legend's short form, and the full reason (for the notes) when no order is claimed. */
+function orderText(points: readonly { x: number; y: number }[]): { label: string; reason?: string } {
   const o = observedOrder(points.map((p) => ({ h: p.x, error: p.y })));
-  return o.order === null ? `observed order: ${o.reason}` : `observed order ${sig3(o.order)} (${o.points} finest h in the asymptotic range)`;
+  if (o.order !== null) return { label: `observed order ${sig3(o.order)} (${o.points} finest h)` };
+  return { label: 'observed order: not in the asymptotic range', reason: o.reason };
 }
 
 export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome[] {
@@ -28,12 +30,15 @@ export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome
     return [{ omitted: { kind: 'convergence', problem, title, note: `No plottable points. ${leftOutNote(sel)}` } }];
   }
   const series: SeriesSpec[] = [];
+  const reasons: string[] = [];
   for (const [id, group] of byMethod(ctx, sel.kept)) {
     const points = group.map((g) => g.point);
     const style = ctx.styles.get(id)!;
     const fit = fitLogLog(points);
     const order = ctx.methods.get(id)?.order ?? null;
-    const observed = orderText(points);
+    const observedOrderText = orderText(points);
+    const observed = observedOrderText.label;
+    if (observedOrderText.reason) reasons.push(`${methodName(ctx, id)}: ${observedOrderText.reason}.`);
     series.push({ label: `${methodName(ctx, id)}: ${observed}`, method: id, points: group.map((g) => ({ ...g.point, meta: pointMeta(g.run) })), style, markers: true, line: true });
     if (order !== null && fit) {
       // Through the centroid of the method's own points, so slope differences are visible at once.
@@ -51,7 +56,7 @@ export function convergencePlots(ctx: PlotContext, problem: string): PlotOutcome
     }
   }
   series.push(...atResolutionSeries(sel.atResolution));
-  const notes = [leftOutNote(sel)];
+  const notes = [leftOutNote(sel), ...reasons];
   const unknown = [...byMethod(ctx, sel.kept).keys()].filter((id) => ctx.methods.get(id)?.order == null);
   if (unknown.length > 0) notes.push(`No published order in the results file for: ${unknown.map((id) => methodName(ctx, id)).join(', ')}.`);
   return [

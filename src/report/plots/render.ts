@@ -24,7 +24,7 @@ import type { AxisSpec, PlotSpec, SeriesSpec } from './spec.js';
 export const PLOT_WIDTH = 1200;
 export const PLOT_HEIGHT = 800;
 /** Widest the legend may grow, so the data area keeps most of the picture. */
-const LEGEND_MAX_WIDTH = 470;
+const LEGEND_MAX_WIDTH = 540;
 
 const TEXT = '#1e1e1e';
 const MUTED = '#505050';
