@@ -409,6 +409,21 @@ describe('exit codes: I/O failures are 74 naming the path, a path of the wrong k
       expect(readdirSync(dir)).toEqual([]);
     }
   });
+  it('report with the disk full: exit 74 naming --out, no report file or temporary left', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'rep');
+    const r = await withFailing(fsp as unknown as Record<string, unknown>, 'writeFile', 'ENOSPC', () => runCli(['report', 'test/fixtures/results-synthetic.json', '--out', out]));
+    expect(r.code, r.stderr).toBe(74);
+    expect(r.stderr.split('\n').filter(Boolean)).toEqual([`stepgauge: --out ${out}: cannot write: no space left on the device (ENOSPC)`]);
+    expect(readdirSync(dir).flatMap((d) => [d, ...readdirSync(join(dir, d))])).toEqual(['rep']);
+  });
+  it('a hand-edited journal asking for a run timeout past a day is refused by --resume, the field named', async () => {
+    const dir = freshDir();
+    const header = { kind: 'stepgauge-journal', version: 1, planSha256: '0'.repeat(64), request: { problem: 'harmonic-oscillator', runTimeoutSeconds: 3e6, inputs: { stepgauge: '0', files: {} } } };
+    writeFileSync(join(dir, '.out.journal.jsonl'), `${JSON.stringify(header)}\n`);
+    const r = await runCli(['run', '--resume', join(dir, 'out'), '-q']);
+    expectRefused(r, undefined, 'request.runTimeoutSeconds', /is 3000000, expected at most 86400 \(a day\)/);
+  });
   it('merge --out under a file (ENOTDIR) is bad input: exit 2 naming the path', async () => {
     const dir = freshDir();
     writeFileSync(join(dir, 'plain'), '');

@@ -1,5 +1,6 @@
 // Parsing and validating command-line values: every failure names the flag and what was expected.
 import { InputError } from '../core/errors.js';
+import { MAX_RUN_TIMEOUT_SECONDS } from '../core/defaults.js';
 import { requestedRtolProblem } from '../core/setting.js';
 import { decades } from '../sweep/plan.js';
 
@@ -74,11 +75,6 @@ export function parsePositive(text: string, flag: string): number {
   return positiveNumber(text, flag);
 }
 
-/**
- * The longest --run-timeout: a day. Node's timers hold at most 2^31 - 1 ms (about 24.8 days; a
- * longer delay fires after 1 ms), and certification waits four run timeouts.
- */
-export const MAX_RUN_TIMEOUT_SECONDS = 86_400;
 
 export function parseRunTimeout(text: string): number {
   const v = positiveNumber(text, '--run-timeout');

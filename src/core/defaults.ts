@@ -19,3 +19,9 @@ export const DEFAULT_MAX_STEPS = 100_000;
 
 /** `choose`: candidates must reach target / safety (why 2: see SAFETY_NOTE in src/cli/decision-record.ts). */
 export const DEFAULT_SAFETY = 2;
+
+/**
+ * The longest --run-timeout: a day. Node's timers hold at most 2^31 - 1 ms (about 24.8 days; a
+ * longer delay fires after 1 ms), and certification waits four run timeouts.
+ */
+export const MAX_RUN_TIMEOUT_SECONDS = 86_400;

@@ -3,6 +3,7 @@
 // or hand-edited record fails with its field named instead of steering the sweep.
 import { requestedRtolProblem, requestedStepsProblem } from '../core/setting.js';
 import { Validator } from '../results/validate.js';
+import { MAX_RUN_TIMEOUT_SECONDS } from '../core/defaults.js';
 import type { SweepRequest } from './run.js';
 
 const CONTROLLERS = ['standard', 'pi'] as const;
@@ -36,7 +37,11 @@ export function requestFromRecord(record: unknown, where: string): ResumableRequ
     if (!CONTROLLERS.includes(r.controller as (typeof CONTROLLERS)[number])) v.fail('request.controller', `is ${JSON.stringify(r.controller)}, expected standard or pi`);
     req.controller = r.controller as (typeof CONTROLLERS)[number];
   }
-  if (r.runTimeoutSeconds !== undefined) req.runTimeoutSeconds = v.positive(r.runTimeoutSeconds, 'request.runTimeoutSeconds');
+  if (r.runTimeoutSeconds !== undefined) {
+    req.runTimeoutSeconds = v.positive(r.runTimeoutSeconds, 'request.runTimeoutSeconds');
+    // As --run-timeout (cli/options.ts): a longer one overflows Node's timers.
+    if (req.runTimeoutSeconds > MAX_RUN_TIMEOUT_SECONDS) v.fail('request.runTimeoutSeconds', `is ${req.runTimeoutSeconds}, expected at most ${MAX_RUN_TIMEOUT_SECONDS} (a day)`);
+  }
   if (r.shard !== undefined) {
     const s = v.object(r.shard, 'request.shard');
     const count = v.integer(s.count, 'request.shard.count', 1);
