@@ -53,3 +53,18 @@ describe('fixed rates', () => {
     expect(fixedCandidates(p, { stepSizes: [60] })).toEqual([{ steps: 1440, h: 60, rateHz: null }]);
   });
 });
+
+describe('catalogue problems with a certified reference', () => {
+  it('are certified when resolved, so a sweep or choose measures their error', async () => {
+    const { resolveProblems } = await import('../src/sweep/resolve.js');
+    const { items } = await resolveProblems('leo-j2,kepler-circular');
+    const leo = items.find((p) => p.id === 'leo-j2')!;
+    expect(leo.reference.kind).toBe('certified');
+    expect(leo.reference.points!.at(-1)!.t).toBe(86400);
+    expect(leo.reference.digits!).toBeGreaterThanOrEqual(8);
+    const run = measureRun(leo, findMethod('rk4')!, { steps: 5760 }, { maxSteps: 1e6 });
+    expect(run.error.final).not.toBeNull();
+    expect(run.orbitError!.final!.position).toBeGreaterThan(0);
+    expect(items.find((p) => p.id === 'kepler-circular')!.reference.kind).toBe('exact');
+  });
+});
