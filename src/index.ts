@@ -1,5 +1,7 @@
-// The public API of stepgauge as a library. Everything a user module, a script or a team's own
-// test suite needs is re-exported here; the CLI is a thin layer over the same functions.
+// The public API of stepgauge as a library: what a user module, a script or a team's own test
+// suite needs to author problems and methods, run sweeps, read results and gate on them
+// (README, "Library API"). Internals (worker lanes, raw LU, the atomic folder writer) stay out;
+// the CLI is a thin layer over the same functions.
 
 // Shared types and small helpers
 export type * from './core/types.js';
@@ -7,7 +9,6 @@ export { zeroCounts, isAdaptiveSetting } from './core/types.js';
 export type { ResultsFile, RunResult, RunSetting, ProblemRecord, Environment, DriftTrace } from './results/contract.js';
 export { RESULTS_FORMAT, RESULTS_VERSION, runKey } from './results/contract.js';
 export { InputError, isInputError } from './core/errors.js';
-export { luFactor, luSolve } from './core/lu.js';
 
 // Authoring problems and methods
 export { defineProblem, stableText, type ProblemSpec } from './authoring/define-problem.js';
@@ -26,7 +27,6 @@ export { withCertifiedReference, certify } from './measure/certify.js';
 export { roundTripError } from './measure/round-trip.js';
 export { stiffnessRatio } from './measure/stiffness.js';
 export { runSweep, type SweepRequest } from './sweep/run.js';
-export { prestartLanes, type PrestartedLanes } from './sweep/lanes.js';
 export { planSweep, DEFAULT_TOLERANCES, DEFAULT_STEPS, type PlannedRun, type SweepPlan } from './sweep/plan.js';
 export { chooseMethod, type Choice, type Candidate, type ChooseOptions } from './sweep/choose.js';
 export { selectShard, parseShardSpec } from './sweep/shard.js';
@@ -37,7 +37,6 @@ export { readResultsFile, validateResults } from './results/read.js';
 export { resultsCsv } from './results/csv.js';
 export { resultsJson } from './results/json.js';
 export { writeReport } from './report/index.js';
-export { writeFileAtomic, writeFolderAtomically } from './results/atomic.js';
 export { compareResults, type Comparison, type CompareOptions } from './gate/compare.js';
 export { makeBaseline, serializeBaseline, readBaselineFile, type Baseline } from './gate/baseline.js';
 export { junitXml } from './gate/junit.js';

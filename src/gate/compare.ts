@@ -178,7 +178,7 @@ export function compareResults(baseline: Baseline | ResultsFile, current: Baseli
       if (opt.allowMissing) {
         rc.notes.push('not in the current results (allowed by --allow-missing)');
       } else {
-        rc.regressions.push(finding(key, b, 'missing', 'run', 'present', 'missing', null, 'present', 'run: in the baseline, missing from the current results'));
+        rc.regressions.push(finding(key, b, { kind: 'missing', metric: 'run', old: 'present', new: 'missing', factor: null, limit: 'present', text: 'run: in the baseline, missing from the current results' }));
       }
     } else {
       compareRun(rc, b, c, opt, base, cur);
@@ -255,26 +255,19 @@ function emptyRun(key: string, r: BaselineRun, state: RunComparison['state']): R
   return { key, problem: r.problem, method: r.method, setting: r.setting, state, regressions: [], improvements: [], notes: [] };
 }
 
-function finding(
-  key: string,
-  r: BaselineRun,
-  kind: FindingKind,
-  metric: string,
-  oldV: number | string | null,
-  newV: number | string | null,
-  factor: number | null,
-  limit: string,
-  text: string,
-): Finding {
-  return { key, problem: r.problem, method: r.method, setting: r.setting, kind, metric, old: oldV, new: newV, factor, limit, text };
+/** What a comparison found about one run (the run itself comes from the baseline record). */
+type FindingFacts = Omit<Finding, 'key' | 'problem' | 'method' | 'setting'>;
+
+function finding(key: string, r: BaselineRun, facts: FindingFacts): Finding {
+  return { key, problem: r.problem, method: r.method, setting: r.setting, ...facts };
 }
 
 function compareRun(rc: RunComparison, b: BaselineRun, c: BaselineRun, opt: ResolvedOptions, base: GateSet, cur: GateSet): void {
   const key = rc.key;
   if (b.status !== c.status) {
     const text = `status: ${b.status} -> ${c.status}`;
-    if (b.status === 'ok') rc.regressions.push(finding(key, b, 'status', 'status', b.status, c.status, null, 'ok', text));
-    else if (c.status === 'ok') rc.improvements.push(finding(key, b, 'status', 'status', b.status, c.status, null, 'ok', text));
+    if (b.status === 'ok') rc.regressions.push(finding(key, b, { kind: 'status', metric: 'status', old: b.status, new: c.status, factor: null, limit: 'ok', text }));
+    else if (c.status === 'ok') rc.improvements.push(finding(key, b, { kind: 'status', metric: 'status', old: b.status, new: c.status, factor: null, limit: 'ok', text }));
     else rc.notes.push(text);
   }
   // Numbers of a failed run (or a baseline that failed) describe a different computation.
@@ -285,7 +278,7 @@ function compareRun(rc: RunComparison, b: BaselineRun, c: BaselineRun, opt: Reso
     const newOk = newV !== null && Number.isFinite(newV);
     if (!oldOk && !newOk) return;
     if (!newOk) {
-      rc.regressions.push(finding(key, b, kind, metric, oldV, newV, null, `x${factor}`, `${metric}: ${num3(oldV)} -> ${num3(newV)} (measured in the baseline, not now)`));
+      rc.regressions.push(finding(key, b, { kind, metric, old: oldV, new: newV, factor: null, limit: `x${factor}`, text: `${metric}: ${num3(oldV)} -> ${num3(newV)} (measured in the baseline, not now)` }));
       return;
     }
     if (!oldOk) {
@@ -295,10 +288,10 @@ function compareRun(rc: RunComparison, b: BaselineRun, c: BaselineRun, opt: Reso
     const r = Math.max(Math.abs(newV), opt.floor) / Math.max(Math.abs(oldV), opt.floor);
     const text = `${metric}: ${num3(oldV)} -> ${num3(newV)} (x${num3(r)}, limit x${factor})`;
     if (r > factor) {
-      if (canRegress) rc.regressions.push(finding(key, b, kind, metric, oldV, newV, r, `x${factor}`, text));
+      if (canRegress) rc.regressions.push(finding(key, b, { kind, metric, old: oldV, new: newV, factor: r, limit: `x${factor}`, text }));
       else rc.notes.push(`${text}; not a regression: the error is below what the reference resolves`);
     } else if (r < 1 / factor) {
-      rc.improvements.push(finding(key, b, kind, metric, oldV, newV, r, `x${factor}`, text));
+      rc.improvements.push(finding(key, b, { kind, metric, old: oldV, new: newV, factor: r, limit: `x${factor}`, text }));
     }
   };
   const belowRef = c.errorBelowReference === true;
@@ -315,8 +308,8 @@ function compareRun(rc: RunComparison, b: BaselineRun, c: BaselineRun, opt: Reso
     const factor = o > 0 ? n / o : null;
     const change = o > 0 ? `${n >= o ? '+' : ''}${num3(((n - o) / o) * 100)}%` : `from 0`;
     const text = `counts.${k}: ${o} -> ${n} (${change}, limit ${pct})`;
-    if (n > o * (1 + opt.workFraction)) rc.regressions.push(finding(key, b, 'work', `counts.${k}`, o, n, factor, pct, text));
-    else if (n < o * (1 - opt.workFraction)) rc.improvements.push(finding(key, b, 'work', `counts.${k}`, o, n, factor, pct, text));
+    if (n > o * (1 + opt.workFraction)) rc.regressions.push(finding(key, b, { kind: 'work', metric: `counts.${k}`, old: o, new: n, factor, limit: pct, text }));
+    else if (n < o * (1 - opt.workFraction)) rc.improvements.push(finding(key, b, { kind: 'work', metric: `counts.${k}`, old: o, new: n, factor, limit: pct, text }));
   }
 
   if (opt.timeFactor !== null) {
@@ -327,8 +320,8 @@ function compareRun(rc: RunComparison, b: BaselineRun, c: BaselineRun, opt: Reso
     } else {
       const r = rcur / rb;
       const text = `time: ${num3(rb)} -> ${num3(rcur)} calibration units (x${num3(r)}, limit x${opt.timeFactor})`;
-      if (r > opt.timeFactor) rc.regressions.push(finding(key, b, 'time', 'time', rb, rcur, r, `x${opt.timeFactor}`, text));
-      else if (r < 1 / opt.timeFactor) rc.improvements.push(finding(key, b, 'time', 'time', rb, rcur, r, `x${opt.timeFactor}`, text));
+      if (r > opt.timeFactor) rc.regressions.push(finding(key, b, { kind: 'time', metric: 'time', old: rb, new: rcur, factor: r, limit: `x${opt.timeFactor}`, text }));
+      else if (r < 1 / opt.timeFactor) rc.improvements.push(finding(key, b, { kind: 'time', metric: 'time', old: rb, new: rcur, factor: r, limit: `x${opt.timeFactor}`, text }));
     }
   }
 }

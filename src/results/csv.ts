@@ -2,20 +2,10 @@
 // later columns are extras.
 //
 // The text follows RFC 4180 (a field holding a comma, a double quote or a line break is quoted,
-// its quotes doubled; rows end in a line feed), written here rather than by csv-stringify: that
-// library took 17-42 ms for the catalogue sweep's 864 rows, after the last run, where this takes
-// about one. test/csv.test.ts checks the text against csv-stringify and reads it back with
-// csv-parse.
+// its quotes doubled; rows end in a line feed), written here rather than by csv-stringify, which
+// cost tens of milliseconds at the end of every sweep (README, "Stack"). test/csv.test.ts checks
+// the text against csv-stringify and reads it back with csv-parse.
 import type { ResultsFile, RunResult } from './contract.js';
-
-export const CSV_COLUMNS = [
-  'problem', 'method', 'rtol', 'atol', 'steps', 'h', 'status',
-  'error_final', 'error_max', 'drift_max', 'nfev', 'njev', 'nlu', 'accepted', 'rejected', 'time_median_s',
-  'time_samples', 'error_below_reference', 'round_trip', 'message',
-  'orbit_position_final', 'orbit_radial_final', 'orbit_in_track_final', 'orbit_cross_track_final', 'orbit_position_max', 'orbit_in_track_max',
-  'event_time_error_max', 'events_missed', 'events_extra', 'effective_rtol',
-  'error_outputs', 'unresolved', 'landing',
-] as const;
 
 function cell(v: number | null | undefined): string {
   return v === null || v === undefined || Number.isNaN(v) ? '' : String(v);
@@ -37,45 +27,53 @@ function eventTimeMax(run: RunResult): number | null {
   return values.length === 0 ? null : Math.max(...values);
 }
 
+/** One column: its header and how a run fills it. Defined once, so header and rows cannot drift apart. */
+type Column = readonly [name: string, value: (run: RunResult) => string];
+
+const adaptive = (run: RunResult) => ('rtol' in run.setting ? run.setting : null);
+const fixed = (run: RunResult) => ('steps' in run.setting ? run.setting : null);
+
+const COLUMNS: readonly Column[] = [
+  ['problem', (r) => r.problem],
+  ['method', (r) => r.method],
+  ['rtol', (r) => cell(adaptive(r)?.rtol)],
+  ['atol', (r) => { const atol = adaptive(r)?.atol; return typeof atol === 'object' ? atol.join(' ') : cell(atol); }],
+  ['steps', (r) => cell(fixed(r)?.steps)],
+  ['h', (r) => cell(fixed(r)?.h)],
+  ['status', (r) => r.status],
+  ['error_final', (r) => cell(r.error.final)],
+  ['error_max', (r) => cell(r.error.max)],
+  ['drift_max', (r) => cell(driftMax(r))],
+  ['nfev', (r) => cell(r.counts.nfev)],
+  ['njev', (r) => cell(r.counts.njev)],
+  ['nlu', (r) => cell(r.counts.nlu)],
+  ['accepted', (r) => cell(r.counts.accepted)],
+  ['rejected', (r) => cell(r.counts.rejected)],
+  ['time_median_s', (r) => cell(r.time.medianSeconds)],
+  ['time_samples', (r) => cell(r.time.samples)],
+  ['error_below_reference', (r) => (r.errorBelowReference ? 'true' : '')],
+  ['round_trip', (r) => cell(r.roundTrip)],
+  ['message', (r) => r.message ?? ''],
+  ['orbit_position_final', (r) => cell(r.orbitError?.final?.position)],
+  ['orbit_radial_final', (r) => cell(r.orbitError?.final?.radial)],
+  ['orbit_in_track_final', (r) => cell(r.orbitError?.final?.inTrack)],
+  ['orbit_cross_track_final', (r) => cell(r.orbitError?.final?.crossTrack)],
+  ['orbit_position_max', (r) => cell(r.orbitError?.max?.position)],
+  ['orbit_in_track_max', (r) => cell(r.orbitError?.max?.inTrack)],
+  ['event_time_error_max', (r) => cell(eventTimeMax(r))],
+  ['events_missed', (r) => cell(eventCount(r, 'missed'))],
+  ['events_extra', (r) => cell(eventCount(r, 'extra'))],
+  ['effective_rtol', (r) => cell(r.effectiveTolerance?.rtol)],
+  ['error_outputs', (r) => cell(r.error.outputs)],
+  ['unresolved', (r) => (r.unresolved ?? []).join(' ')],
+  ['landing', (r) => r.landing ?? ''],
+];
+
+/** The header row: the contract's columns first (DESIGN.md), extras after. */
+export const CSV_COLUMNS: readonly string[] = COLUMNS.map(([name]) => name);
+
 function row(run: RunResult): string[] {
-  const o = run.orbitError;
-  const s = run.setting;
-  const adaptive = 'rtol' in s;
-  return [
-    run.problem,
-    run.method,
-    adaptive ? cell(s.rtol) : '',
-    adaptive ? (typeof s.atol === 'number' ? cell(s.atol) : s.atol.join(' ')) : '',
-    adaptive ? '' : cell(s.steps),
-    adaptive ? '' : cell(s.h),
-    run.status,
-    cell(run.error.final),
-    cell(run.error.max),
-    cell(driftMax(run)),
-    cell(run.counts.nfev),
-    cell(run.counts.njev),
-    cell(run.counts.nlu),
-    cell(run.counts.accepted),
-    cell(run.counts.rejected),
-    cell(run.time.medianSeconds),
-    cell(run.time.samples),
-    run.errorBelowReference ? 'true' : '',
-    cell(run.roundTrip),
-    run.message ?? '',
-    cell(o?.final?.position),
-    cell(o?.final?.radial),
-    cell(o?.final?.inTrack),
-    cell(o?.final?.crossTrack),
-    cell(o?.max?.position),
-    cell(o?.max?.inTrack),
-    cell(eventTimeMax(run)),
-    cell(eventCount(run, 'missed')),
-    cell(eventCount(run, 'extra')),
-    cell(run.effectiveTolerance?.rtol),
-    cell(run.error.outputs),
-    (run.unresolved ?? []).join(' '),
-    run.landing ?? '',
-  ];
+  return COLUMNS.map(([, value]) => value(run));
 }
 
 const NEEDS_QUOTES = /[",\r\n]/;

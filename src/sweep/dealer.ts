@@ -1,17 +1,13 @@
 // Which run a parallel sweep's worker (a lane) gets next, and the order a sweep on one process
-// runs in. V8 compiles each method's step code and each problem's right-hand side per process,
-// and the catalogue's runs take milliseconds, so a schedule that deals single runs, or even
-// (problem, method) groups, pays most of that warm-up in every worker (measured on the
-// catalogue: the workers' summed run time fell from 6.7 to about 5.9 s when they took whole
-// methods; bench/README.md). A lane therefore claims a whole method's runs, costliest method
-// first, and works through them in plan order: problem by problem, each problem's settings from
-// the loosest (cheapest) up. That order is measured too: in one process the catalogue's runs
-// took 5.7-5.95 s so against 6.4 s with each problem's costliest run first, the parallel sweep
-// 3.3-3.4 s against 3.85-3.9 s, and `--jobs 1`, which now runs in the same order, 5.4-5.5 s
-// against 5.8 s in plan order (which of V8's compilations and deoptimisations it saves was not
-// traced). A lane that finds nothing left to claim takes the back half of the largest remaining
-// claim, so one method's sweep (or one method that outweighs the rest) still spreads over every
-// lane, and an expected cost that was badly wrong costs at most the tail of one claim.
+// runs in. V8 compiles each method's step code and each problem's right-hand side per process, and
+// the catalogue's runs take milliseconds, so a schedule that deals single runs, or even (problem,
+// method) groups, pays most of that warm-up in every worker. A lane therefore claims a whole
+// method's runs, costliest method first, and works through them in plan order: problem by problem,
+// each problem's settings from the loosest (cheapest) up (both measured: bench/README.md, "History
+// kept out of the code"). A lane that finds nothing left to claim takes the back half of the
+// largest remaining claim, so one method's sweep (or one method that outweighs the rest) still
+// spreads over every lane, and an expected cost that was badly wrong costs at most the tail of one
+// claim.
 import type { PlannedRun } from './plan.js';
 import { costOf } from './shard.js';
 

@@ -4,17 +4,8 @@
 // a run's timeout clock starts when it really starts; a run past its timeout has its worker
 // terminated and replaced, the run is recorded with status `timeout` and the sweep goes on.
 //
-// The workers are single-threaded child processes (lanes.ts says why). Measured on the catalogue
-// sweep (bench/README.md), --jobs 2 over --jobs 1: worker threads gave 1.0-1.3x, single-threaded
-// child processes 1.4x, 1.56-1.60x with the dealer's whole-method claims, 1.62-1.69x with each
-// method's runs in plan order, 1.73-1.82x (five pairs in one quiet spell) with short runs batched
-// and every problem in one object layout (src/problems/uniform.ts), which saved a quarter of the
-// compile time the workers spend on the cores the runs need; over 24 pairs on a busier VM the
-// median was 1.67-1.68, the command included or not; 1.71 for the command and 1.735 for the
-// library over 40 pairs once the sweep's end stopped waiting on work it can do during the runs,
-// and about 1.6 once faster integrators had taken a second of run time off both sides (the
-// workers' start and compile stay). With the runs timed, as `stepgauge run` does by default,
-// 1.86-1.97x (bench/README.md, "Reading the targets").
+// The workers are single-threaded child processes (lanes.ts says why). What each of these choices
+// bought on the catalogue sweep is in bench/README.md ("History kept out of the code").
 import type Tinypool from 'tinypool';
 import type { Problem } from '../core/types.js';
 import type { RunResult } from '../results/contract.js';
