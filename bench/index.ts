@@ -196,6 +196,30 @@ async function main(): Promise<void> {
     (out.targets as Row[]).push(...targets);
     show(table('dispersion targets', targets, ['target', 'measured', 'limit', 'met']));
   }
+  const compiled = await optional<{ rows: Row[]; notes: string[] }>('compiled-peers.js', 'runCompiledPeersBench');
+  if (compiled) {
+    const { rows, notes } = await compiled();
+    out.compiledPeers = { rows, notes };
+    for (const n of notes) show(`note: ${n}`);
+    show(table('compiled peers at matched final error (Boost.Odeint, SUNDIALS CVODE; stepgauge as `stepgauge run` records it)', rows, ['problem', 'target', 'side', 'method', 'met', 'rtol', 'achieved', 'nfev', 'medianMs', 'nsPerEval', 'note']));
+    const targetsOf = await optional<Row[]>('compiled-peers.js', 'compiledTargets');
+    if (targetsOf) {
+      const t = await targetsOf(rows);
+      (out.targets as Row[]).push(...t);
+      show(table('compiled peer targets', t, ['target', 'stepgauge', 'peer', 'measured', 'limit', 'met']));
+    }
+  }
+  const isolation = await optional<Row[]>('isolation.js', 'runIsolationBench');
+  if (isolation) {
+    const rows = await isolation();
+    out.isolation = rows;
+    show(table('isolation: a run timed inside the catalogue sweep against the same run swept alone (stepgauge run)', rows, Object.keys(rows[0] ?? {})));
+    const ratios = rows.map((r) => Number(r.ratio)).filter(Number.isFinite);
+    const worst = ratios.reduce((w, r) => (Math.abs(r - 1) > Math.abs(w - 1) ? r : w), 1);
+    const target: Row = { target: 'time recorded inside the catalogue sweep / the same run swept alone, worst row', measured: worst, limit: '0.9-1.1', met: rows.every((r) => r.withinTenPercent) };
+    (out.targets as Row[]).push(target);
+    show(table('isolation target', [target], ['target', 'measured', 'limit', 'met']));
+  }
 
   const env = machine(loadStart);
   show(`machine: ${env.cpu}, ${env.cores} cores, node ${env.node}, ${env.date}, load average ${env.loadAverageStart.map((v) => v.toFixed(2)).join(' ')} (start) / ${env.loadAverageEnd.map((v) => v.toFixed(2)).join(' ')} (end)`);

@@ -14,6 +14,7 @@ import { leoJ2 } from './leo-j2.js';
 import { arenstorfOrbit } from './arenstorf-orbit.js';
 import { tetheredPair } from './tethered-pair.js';
 import { decayingOrbitDrag } from './decaying-orbit-drag.js';
+import { brusselator1d } from './brusselator-1d.js';
 
 export const catalogue: Problem[] = [
   harmonicOscillator,
@@ -28,6 +29,7 @@ export const catalogue: Problem[] = [
   arenstorfOrbit,
   tetheredPair,
   decayingOrbitDrag,
+  brusselator1d,
 ].map(uniformProblem);
 
 export function findProblem(id: string): Problem | undefined {

@@ -100,6 +100,12 @@ export interface Reference {
   readonly floor?: number;
 }
 
+/** Lower and upper bandwidth of a Jacobian (0, 0: diagonal). */
+export interface JacobianBand {
+  readonly lower: number;
+  readonly upper: number;
+}
+
 /** Index split for separable problems q' = g(p), p' = h(t, q) (symplectic methods need it). */
 export interface SeparableSplit {
   /** Indices of position-like states, whose derivatives depend only on `velocities`. */
@@ -135,6 +141,12 @@ export interface Problem {
   readonly y0: readonly number[];
   readonly f: Rhs;
   readonly jacobian?: JacobianFn;
+  /**
+   * df/dy is zero outside `lower` diagonals below and `upper` above the main one (method-of-lines
+   * models, chains): implicit methods then factor band matrices and difference only
+   * lower + upper + 1 grouped columns for a Jacobian.
+   */
+  readonly jacobianBand?: JacobianBand;
   /** True when the problem is meant for stiff methods; sweeps pair it with those by default. */
   readonly stiff: boolean;
   readonly invariants: readonly Invariant[];
@@ -157,6 +169,11 @@ export interface Problem {
    * asymptotic range of this problem (the sweep's default ladder otherwise).
    */
   readonly defaultSteps?: readonly number[];
+  /**
+   * Tolerances for adaptive methods when the user gives none (the sweep's 1e-3..1e-10
+   * otherwise): a costly problem can stop where its runs stay affordable.
+   */
+  readonly defaultTolerances?: readonly number[];
   /** Absolute tolerance to use when the user gives only rtol: atol = rtol * atolScale (default 1). */
   readonly atolScale?: number | readonly number[];
   /** Outputs computed from the state; the error is measured on them when errorOn is 'outputs'. */

@@ -55,6 +55,39 @@ function trialPoint(run: RunResult, o: ChooseOptions): TrialPoint {
   return { setting: run.setting, status: run.status, error: measureOf(run, o.measure), nfev: run.counts.nfev };
 }
 
+/**
+ * The loosest rtol whose trial passes: the first passing value of the decade grid, refined by
+ * bisections of log10 rtol against the grid value before it; null when none passes. `onGridFail`
+ * sees each failing grid trial. The plain form of searchAdaptive's grid and bisections, for
+ * callers that measure the error themselves (the bench's compiled peers, matched to a target on
+ * the same grid); choose's own search adds its confirmation rules on top.
+ */
+export function loosestRtol<T>(tryAt: (rtol: number) => T, passes: (r: T) => boolean, onGridFail?: (r: T) => void): { rtol: number; result: T } | null {
+  let failing: number | null = null;
+  for (const rtol of RTOL_GRID) {
+    const run = tryAt(rtol);
+    if (passes(run)) {
+      let hi = Math.log10(rtol);
+      let best = run;
+      if (failing !== null) {
+        let lo = Math.log10(failing);
+        for (let k = 0; k < RTOL_BISECTIONS; k++) {
+          const mid: number = (lo + hi) / 2;
+          const r = tryAt(10 ** mid);
+          if (passes(r)) {
+            hi = mid;
+            best = r;
+          } else lo = mid;
+        }
+      }
+      return { rtol: 10 ** hi, result: best };
+    }
+    failing = rtol;
+    onGridFail?.(run);
+  }
+  return null;
+}
+
 function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
   let trials = 0;
   const tried: TrialPoint[] = [];
@@ -65,7 +98,6 @@ function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
     tried.push(trialPoint(run, o));
     return run;
   };
-  let failing: number | null = null;
   let closest: RunResult | null = null;
   let lastOk: RunResult | null = null;
   for (const rtol of RTOL_GRID) {

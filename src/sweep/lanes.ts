@@ -75,7 +75,16 @@ export function createLane(filename = workerFile()): Tinypool {
   return pool;
 }
 
-function newPool(filename: string): Tinypool {
+/**
+ * The clocks of a timed sweep (clocks.ts): `count` worker processes of the lanes' kind, each
+ * ended after one task and replaced by a fresh one, so every task runs in a process that has
+ * run nothing before it.
+ */
+export function createClocks(count: number, filename = workerFile()): Tinypool {
+  return newPool(filename, { isolate: true, workers: Math.max(1, count) });
+}
+
+function newPool(filename: string, clocks?: { isolate: true; workers: number }): Tinypool {
   return new Tinypool({
     filename,
     runtime: 'child_process',
@@ -91,12 +100,16 @@ function newPool(filename: string): Tinypool {
     // runs reach optimised code sooner; the catalogue's --jobs 2 sweep took 2-3% less time
     // (19 alternating pairs, bench/README.md). It changes when code is optimised, never a result.
     execArgv: ['--single-threaded', '--max-semi-space-size=4', '--no-lazy-feedback-allocation'],
+    // tinypool gives a child process only its own worker id as environment unless told: the
+    // workers see the user's environment, as a sweep on one process does (STEPGAUGE_CACHE, a
+    // user module's own settings).
+    env: Object.fromEntries(Object.entries(process.env).filter((e): e is [string, string] => e[1] !== undefined)),
     // Structured clone, as between threads: JSON would turn a NaN or infinite error into null.
     serialization: 'advanced',
-    minThreads: 1,
-    maxThreads: 1,
-    concurrentTasksPerWorker: LANE_DEPTH,
-    isolateWorkers: false,
+    minThreads: clocks ? 0 : 1,
+    maxThreads: clocks ? clocks.workers : 1,
+    concurrentTasksPerWorker: clocks ? 1 : LANE_DEPTH,
+    isolateWorkers: clocks !== undefined,
   });
 }
 

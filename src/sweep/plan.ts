@@ -32,7 +32,8 @@ export interface SweepPlan {
 export interface PlanRequest {
   problems: readonly Problem[];
   methods: readonly Method[];
-  tolerances: readonly number[];
+  /** Tolerances the user gave; undefined: each problem's own list, else DEFAULT_TOLERANCES. */
+  tolerances: readonly number[] | undefined;
   /** Step counts the user gave; undefined: each problem's own ladder, else DEFAULT_STEPS. */
   steps: readonly number[] | undefined;
   /** Methods the user named: they run even where the default pairing would leave them out. */
@@ -77,7 +78,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
   if (req.problems.length === 0) throw new InputError('no problems selected', '--problem');
   if (req.methods.length === 0) throw new InputError('no methods selected', '--method');
   // The same rules as the CLI's flags (core/setting.ts), for library callers and resumed sweeps.
-  for (const rtol of req.tolerances) {
+  for (const rtol of req.tolerances ?? []) {
     const problem = requestedRtolProblem(rtol);
     if (problem) throw new InputError(problem, '--tolerances');
   }
@@ -98,7 +99,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
         continue;
       }
       const settings: Setting[] = method.adaptive
-        ? req.tolerances.map((rtol) => ({ rtol, atol: absoluteTolerance(problem, rtol, req.atol) }))
+        ? (req.tolerances ?? problem.defaultTolerances ?? DEFAULT_TOLERANCES).map((rtol) => ({ rtol, atol: absoluteTolerance(problem, rtol, req.atol) }))
         : (req.steps ?? problem.defaultSteps ?? DEFAULT_STEPS).map((steps) => ({ steps }));
       for (const setting of settings) {
         runs.push({ problem: problem.id, method: method.id, setting, planIndex: runs.length, expectedCost: costOf(method, setting) });

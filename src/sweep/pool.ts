@@ -38,7 +38,7 @@ type Outcome = { ok: true; value: unknown } | { ok: false; error: unknown; timed
  * One task on a pool, within limitMs (no limit when 0), counted from when the lane's worker has
  * started. A lane whose worker never starts throws LaneStartError, which ends the sweep.
  */
-async function runLimited(pool: Tinypool, task: unknown, limitMs: number): Promise<Outcome> {
+export async function runLimited(pool: Tinypool, task: unknown, limitMs: number): Promise<Outcome> {
   await laneStarted(pool);
   const controller = new AbortController();
   const timer = limitMs > 0 ? setTimeout(() => controller.abort(), limitMs) : undefined;

@@ -11,9 +11,10 @@ import { executeRun, type SweepOptions } from './execute.js';
 import { failedRun } from '../measure/run-one.js';
 import type { SweepInputs } from './inputs.js';
 import { messageOf } from '../core/errors.js';
-import { DEFAULT_TOLERANCES, planSweep, type PlannedRun, type SweepPlan } from './plan.js';
+import { planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
 import { CERTIFY_TIMEOUT_RUNS, certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
+import { timeOnClocks } from './clocks.js';
 import { executionOrder } from './dealer.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from './lanes.js';
 import { selectShard } from './shard.js';
@@ -208,7 +209,7 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   const plan = planSweep({
     problems: problems.items,
     methods: methods.items,
-    tolerances: req.tolerances ?? DEFAULT_TOLERANCES,
+    tolerances: req.tolerances,
     steps: req.steps,
     methodsNamed: methods.named,
     ...(req.atol !== undefined ? { atol: req.atol } : {}),
@@ -217,29 +218,61 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   req.onPlan?.(plan, selected, methods.items);
   const done = new Map((req.finished ?? []).map((r) => [r.planIndex, r]));
   const todo = selected.filter((r) => !done.has(r.planIndex));
-  const options: SweepOptions = {
+  const runOptions = {
     maxSteps: req.maxSteps ?? DEFAULT_MAX_STEPS,
-    timing: req.timing ?? null,
     ...(req.controller ? { controller: req.controller } : {}),
     ...(req.runTimeoutSeconds ? { runTimeoutSeconds: req.runTimeoutSeconds } : {}),
-    ...(req.onRun ? { onRun: req.onRun } : {}),
+  };
+  // Runs are reported (progress, journal) once complete: a timed run after its timing phase.
+  const timing = req.timing ?? null;
+  const report = progressCounter(todo.length, req.onRun);
+  const measured: { run: RunResult; planned: PlannedRun }[] = [];
+  const byIndex = new Map(todo.map((r) => [r.planIndex, r]));
+  const options: SweepOptions = {
+    ...runOptions,
+    // The measuring phase never times: the clocks do (clocks.ts).
+    timing: null,
+    onRun: (p) => {
+      if (timing && p.last.status === 'ok') measured.push({ run: p.last, planned: byIndex.get(p.last.planIndex!)! });
+      else report(p.last);
+    },
     ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
   };
   const environment = environmentFingerprint();
   const problemMap = new Map(problems.items.map((p) => [p.id, p]));
-  const execution =
+  const problemEntries = absoluteEntries(problems.entries);
+  const methodEntries = absoluteEntries(methods.entries);
+  const measuring =
     lanes > 0
       ? executeOnPool({
           runs: todo,
           jobs: lanes,
           problems: problemMap,
-          problemEntries: absoluteEntries(problems.entries),
-          methodEntries: absoluteEntries(methods.entries),
+          problemEntries,
+          methodEntries,
           options,
           ...(uncertified ? { uncertified } : {}),
           ...(req.lanes ? { lanes: req.lanes } : {}),
         })
       : executePlan(executionOrder(todo), problemMap, new Map(methods.items.map((m) => [m.id, m])), options);
+  const execution = measuring.then(async (runs) => {
+    if (!timing) return runs;
+    await timeOnClocks({
+      runs: measured.sort((a, b) => a.planned.planIndex - b.planned.planIndex),
+      jobs: Math.max(1, req.jobs ?? 1),
+      problems: problemMap,
+      problemEntries,
+      methodEntries,
+      options: runOptions,
+      timing,
+      ...(uncertified ? { uncertified } : {}),
+      onTimed: report,
+      ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
+    });
+    // A run measured but not timed before a stop is left out, so a resumed sweep runs it again.
+    const timed = new Set(report.reported());
+    return runs.filter((r) => timed.has(r));
+  });
   // The problems' stiffness ratios are computed while the runs go: on a parallel sweep this
   // process is idle then, and after the last run it would hold the sweep's end for tens of
   // milliseconds. User models under a run timeout get theirs on a worker, after the runs.
@@ -262,6 +295,18 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   if (req.shard) results.shard = { index: req.shard.index, count: req.shard.count, planSha256: plan.sha256 };
   results.request = sweepRequestRecord(req);
   return results;
+}
+
+/** Numbers each completed run for the caller's progress callback, and remembers which were reported. */
+function progressCounter(total: number, onRun: SweepRequest['onRun']): ((run: RunResult) => void) & { reported(): RunResult[] } {
+  const seen: RunResult[] = [];
+  let failed = 0;
+  const report = (run: RunResult): void => {
+    if (run.status !== 'ok') failed++;
+    seen.push(run);
+    onRun?.({ done: seen.length, total, failed, last: run });
+  };
+  return Object.assign(report, { reported: () => seen });
 }
 
 /**

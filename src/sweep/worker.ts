@@ -9,6 +9,9 @@ import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
 import { resolveMethods, resolveProblems } from './resolve.js';
 import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
+import { timeRun, type TimingOptions, type TimingResult } from '../measure/timing.js';
+import type { RunOptions } from '../measure/run-one.js';
+import type { Setting } from '../core/types.js';
 import type { PingTask } from './lanes.js';
 
 export interface WorkerTask {
@@ -116,8 +119,33 @@ async function runOne(task: WorkerTask): Promise<RunResult> {
   return executeRun(problem, method, task.planned, task.options);
 }
 
-export default async function runTask(task: BatchTask | StiffnessTask | CertifyTask | PingTask): Promise<BatchAnswer | number | string | null> {
+/**
+ * Timed repeats of one (problem, method) pair's measured runs, on a clock process that runs
+ * nothing else (see clocks.ts). Answers each setting's timing, null when none came out.
+ */
+export interface TimeTask {
+  kind: 'time';
+  problemEntry: string;
+  methodEntry: string;
+  uncertified?: string;
+  settings: Setting[];
+  options: RunOptions;
+  timing: TimingOptions;
+}
+
+async function timeGroup(task: TimeTask): Promise<(TimingResult | null)[]> {
+  const problem = await problemFor(task.problemEntry, task.uncertified);
+  const method = await methodFor(task.methodEntry);
+  const out: (TimingResult | null)[] = [];
+  for (const setting of task.settings) out.push(await timeRun(problem, method, setting, task.options, task.timing));
+  return out;
+}
+
+export default async function runTask(
+  task: BatchTask | StiffnessTask | CertifyTask | PingTask | TimeTask,
+): Promise<BatchAnswer | number | string | null | (TimingResult | null)[]> {
   if (task.kind === 'ping') return null;
+  if (task.kind === 'time') return timeGroup(task);
   if (task.kind === 'batch') return runBatch(task);
   if (task.kind === 'certify') return (await problemFor(task.problemEntry, undefined)).reference.unavailable ?? null;
   return problemStiffnessRatio(await problemFor(task.problemEntry, task.problemId, task.uncertified));

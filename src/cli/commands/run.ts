@@ -48,7 +48,7 @@ function resumeState(dir: string): { request: ResumableRequest; finished: Result
 interface RunFlags {
   problem?: string;
   method?: string;
-  tolerances: string;
+  tolerances?: string;
   steps?: string;
   out?: string;
   timing: boolean;
@@ -73,7 +73,7 @@ export function requestFromFlags(flags: RunFlags): SweepRequest {
     throw new InputError(`'${flags.controller}' is not a controller; expected standard or pi`, '--controller');
   }
   const req: SweepRequest = {
-    tolerances: parseTolerances(flags.tolerances),
+    ...(flags.tolerances === undefined ? {} : { tolerances: parseTolerances(flags.tolerances) }),
     ...(flags.atol === undefined ? {} : { atol: parseAtol(flags.atol) }),
     ...(flags.steps === undefined ? {} : { steps: parseSteps(flags.steps) }),
     maxSteps: parsePositiveInt(flags.maxSteps, '--max-steps'),
@@ -110,7 +110,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .description('integrate the selected problems with the selected methods over a tolerance/step sweep')
     .option('-p, --problem <list>', 'problem ids or files, comma-separated (default: the whole catalogue)')
     .option('-m, --method <list>', 'method ids or module files, comma-separated (default: all that apply)')
-    .option('-t, --tolerances <list>', 'rtol values: a list 1e-4,1e-8 or a range 1e-3..1e-12 (one per decade)', `${DEFAULT_TOLERANCE_RANGE.loose.toExponential()}..${DEFAULT_TOLERANCE_RANGE.tight.toExponential()}`)
+    .option('-t, --tolerances <list>', `rtol values: a list 1e-4,1e-8 or a range 1e-3..1e-12 (one per decade) (default: each problem's own list, else ${DEFAULT_TOLERANCE_RANGE.loose.toExponential()}..${DEFAULT_TOLERANCE_RANGE.tight.toExponential()})`)
     .option('--atol <list>', "absolute tolerance with every rtol: one value, or one per state (default: rtol, scaled where the problem says so)")
     .option('-s, --steps <list>', `equal-step counts for fixed-step methods (default: each problem's own doubling ladder, else ${DEFAULT_STEPS.join(',')})`)
     .option('-o, --out <dir>', 'output folder (default reports/<date>-<time>, with reports/latest pointing at it)')

@@ -4,8 +4,8 @@
 // sum_j D_j, corrector gamma_k (y - y_pred) + sum_j gamma_j D_j = h f, local error
 // ||y - y_pred|| / (k + 1), order chosen among k-1, k, k+1 after k+1 steps of constant size,
 // simplified Newton with the Jacobian kept until Newton fails.
-import { luFactor, luSolve } from '../../core/lu.js';
-import { makeJacobianSource } from '../../core/jacobian.js';
+import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { RealIterationMatrix } from './iteration-matrix.js';
 import { inverseScales, weightedRms } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { rescaleDifferences } from './bdf-rescale.js';
@@ -40,11 +40,9 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const yPred = lease.float64(n), psi = lease.float64(n), dcor = lease.float64(n);
   const ycur = lease.float64(n), fcur = lease.float64(n), delta = lease.float64(n);
   const w = lease.float64(n), fy = lease.float64(n);
-  const M = lease.float64(n * n);
-  const piv = lease.int32(n);
   const work = lease.float64(3 * (MAX_ORDER + 1) ** 2 + (MAX_ORDER + 1) * n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
-  const jac = jacSrc.jac;
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+  const M = new RealIterationMatrix(jacSrc, n, lease);
   const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
 
   let k = 1;
@@ -81,7 +79,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       f(t + h, ycur, fcur);
       counts.nfev++;
       for (let i = 0; i < n; i++) delta[i] = c * fcur[i]! - psi[i]! - dcor[i]!;
-      luSolve(M, n, piv, delta);
+      M.solve(delta);
       const dy = norm(delta);
       st.iters = it + 1;
       if (!Number.isFinite(dy)) return false;
@@ -173,10 +171,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     }
     const c = h / GAMMA[k]!;
     if (!luValid) {
-      for (let q = 0; q < n * n; q++) M[q] = -c * jac[q]!;
-      for (let i = 0; i < n; i++) M[i * n + i] = M[i * n + i]! + 1;
       counts.nlu++;
-      if (!luFactor(M, n, piv)) {
+      if (!M.factor(1, c)) {
         if (!jacCurrent) needJac = true;
         return propose(proposal, false, 0.5 * h);
       }

@@ -5,8 +5,8 @@
 // polynomial (8.16), convergence-rate monitoring with theta and eta (8.10)-(8.13), embedded
 // error estimate (8.19)-(8.20) with its second, filtered evaluation on first and rejected steps,
 // and the predictive step-size controller of Gustafsson (8.25).
-import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/lu.js';
-import { makeJacobianSource } from '../../core/jacobian.js';
+import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { ComplexIterationMatrix, RealIterationMatrix } from './iteration-matrix.js';
 import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
@@ -84,10 +84,9 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const cont1 = lease.float64(n), cont2 = lease.float64(n), cont3 = lease.float64(n);
   const scal = lease.float64(n);
   const yEnd = lease.float64(n);
-  const e1 = lease.float64(n * n), e2r = lease.float64(n * n), e2i = lease.float64(n * n);
-  const piv1 = lease.int32(n), piv2 = lease.int32(n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
-  const jac = jacSrc.jac;
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+  const e1 = new RealIterationMatrix(jacSrc, n, lease);
+  const e2 = new ComplexIterationMatrix(jacSrc, n, lease);
   const fnewt = Math.max((10 * EPS) / rtol, KAPPA);
   const cfac = SAFE * (1 + 2 * NIT);
 
@@ -104,20 +103,10 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     const fac1 = GAM / h;
     const alphn = ALPH / h;
     const betan = BETA / h;
-    for (let k = 0; k < n * n; k++) {
-      e1[k] = -jac[k]!;
-      e2r[k] = -jac[k]!;
-      e2i[k] = 0;
-    }
-    for (let i = 0; i < n; i++) {
-      e1[i * n + i] = e1[i * n + i]! + fac1;
-      e2r[i * n + i] = e2r[i * n + i]! + alphn;
-      e2i[i * n + i] = betan;
-    }
     counts.nlu++;
     st.hLU = NaN;
-    if (!luFactor(e1, n, piv1)) return false;
-    if (!complexLuFactor(e2r, e2i, n, piv2)) return false;
+    if (!e1.factor(fac1, 1)) return false;
+    if (!e2.factor(alphn, betan)) return false;
     st.hLU = h;
     return true;
   }
@@ -184,8 +173,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
         g2[i] = x2 - alphn * w2[i]! + betan * w3[i]!;
         g3[i] = x3 - betan * w2[i]! - alphn * w3[i]!;
       }
-      luSolve(e1, n, piv1, g1);
-      complexLuSolve(e2r, e2i, n, piv2, g2, g3);
+      e1.solve(g1);
+      e2.solve(g2, g3);
       let s = 0;
       for (let i = 0; i < n; i++) {
         const q = 1 / scal[i]!;
@@ -237,14 +226,14 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       g1[i] = f0[i]! + c;
       yEnd[i] = y[i]! + z3[i]!;
     }
-    luSolve(e1, n, piv1, g1);
+    e1.solve(g1);
     let err = errorNorm(g1);
     if (err >= 1 && (first || reject)) {
       for (let i = 0; i < n; i++) ytmp[i] = y[i]! + g1[i]!;
       f(t, ytmp, g2);
       counts.nfev++;
       for (let i = 0; i < n; i++) g2[i] = g2[i]! + ftmp[i]!;
-      luSolve(e1, n, piv1, g2);
+      e1.solve(g2);
       err = errorNorm(g2);
     }
     st.err = err;

@@ -7,8 +7,8 @@
 //   y1 = y + sum m_i u_i, error estimate u_6.
 // df/dt is taken by a forward difference (one f evaluation per step, counted) since problems do
 // not declare whether they are autonomous.
-import { luFactor, luSolve } from '../../core/lu.js';
-import { makeJacobianSource } from '../../core/jacobian.js';
+import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { RealIterationMatrix } from './iteration-matrix.js';
 import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { EPS, solveAdaptive, propose, type Stepper, type Tolerances } from './common.js';
@@ -62,10 +62,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const u: Float64Array[] = [];
   for (let s = 0; s < STAGES; s++) u.push(lease.float64(n));
   const ytmp = lease.float64(n), ftmp = lease.float64(n), ynew = lease.float64(n);
-  const M = lease.float64(n * n);
-  const piv = lease.int32(n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
-  const jac = jacSrc.jac;
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+  const M = new RealIterationMatrix(jacSrc, n, lease);
   const { gamma, alpha, gammaSum, a, c, m } = RODAS4;
   let f0Valid = false;
   let jacValid = false;
@@ -94,10 +92,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       st.tLast = t;
     }
     const fac = 1 / (h * gamma);
-    for (let q = 0; q < n * n; q++) M[q] = -jac[q]!;
-    for (let i = 0; i < n; i++) M[i * n + i] = M[i * n + i]! + fac;
     counts.nlu++;
-    if (!luFactor(M, n, piv)) {
+    if (!M.factor(fac, 1)) {
       reject = true;
       return propose(proposal, false, 0.5 * h);
     }
@@ -122,7 +118,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
         for (let j = 0; j < s; j++) v += (cs[j]! / h) * u[j]![i]!;
         us[i] = v;
       }
-      luSolve(M, n, piv, us);
+      M.solve(us);
     }
     for (let i = 0; i < n; i++) {
       let v = y[i]!;

@@ -5,8 +5,8 @@
 // (a stiff start, where the explicit start value and the start's Jacobian are far off), the step
 // is retried from the step's start value with the Jacobian refreshed at every iterate (full
 // Newton) before a failure is declared: the failure must be the method's, not the iteration's.
-import { luFactor, luSolve } from '../../core/lu.js';
 import type { JacobianSource } from '../../core/jacobian.js';
+import { RealIterationMatrix } from './iteration-matrix.js';
 import type { Counts, Rhs } from '../../core/types.js';
 import type { WorkLease } from '../work-lease.js';
 
@@ -23,17 +23,16 @@ export interface NewtonBuffers {
   readonly z: Float64Array;
   readonly fz: Float64Array;
   readonly delta: Float64Array;
-  readonly m: Float64Array;
-  readonly piv: Int32Array;
+  readonly m: RealIterationMatrix;
 }
 
-export function newtonBuffers(n: number, lease: WorkLease): NewtonBuffers {
+/** `jac` is the source the stage's Jacobian comes from (dense or banded). */
+export function newtonBuffers(n: number, lease: WorkLease, jac: JacobianSource): NewtonBuffers {
   return {
     z: lease.float64(n),
     fz: lease.float64(n),
     delta: lease.float64(n),
-    m: lease.float64(n * n),
-    piv: lease.int32(n),
+    m: new RealIterationMatrix(jac, n, lease),
   };
 }
 
@@ -62,20 +61,16 @@ export function solveStage(
 }
 
 /** Iteration matrix I - ch J from the Jacobian just evaluated, factored; false when singular. */
-function factorIteration(jac: JacobianSource, ch: number, buf: NewtonBuffers, n: number, counts: Counts): boolean {
-  const { m, piv } = buf;
-  const J = jac.jac;
-  for (let q = 0; q < n * n; q++) m[q] = -ch * J[q]!;
-  for (let i = 0; i < n; i++) m[i * n + i] = m[i * n + i]! + 1;
+function factorIteration(ch: number, buf: NewtonBuffers, counts: Counts): boolean {
   counts.nlu++;
-  return luFactor(m, n, piv);
+  return buf.m.factor(1, ch);
 }
 
 /** One Newton correction of z with f(tz, z) in fz: 'done', 'going' or a failure message. */
 function correct(ch: number, base: Float64Array, buf: NewtonBuffers, n: number): 'done' | 'going' | string {
-  const { z, fz, delta, m, piv } = buf;
+  const { z, fz, delta, m } = buf;
   for (let i = 0; i < n; i++) delta[i] = base[i]! + ch * fz[i]! - z[i]!;
-  luSolve(m, n, piv, delta);
+  m.solve(delta);
   let dmax = 0;
   let zmax = 0;
   for (let i = 0; i < n; i++) {
@@ -102,7 +97,7 @@ function simplifiedNewton(
   counts: Counts,
 ): string | undefined {
   jac.evaluate(t, y, fy);
-  if (!factorIteration(jac, ch, buf, n, counts)) return 'singular iteration matrix';
+  if (!factorIteration(ch, buf, counts)) return 'singular iteration matrix';
   for (let it = 0; it < MAX_ITER; it++) {
     f(tz, buf.z, buf.fz);
     counts.nfev++;
@@ -119,7 +114,7 @@ function fullNewton(f: Rhs, jac: JacobianSource, tz: number, ch: number, base: F
     f(tz, buf.z, buf.fz);
     counts.nfev++;
     jac.evaluate(tz, buf.z, buf.fz);
-    if (!factorIteration(jac, ch, buf, n, counts)) return 'singular iteration matrix';
+    if (!factorIteration(ch, buf, counts)) return 'singular iteration matrix';
     const r = correct(ch, base, buf, n);
     if (r === 'done') return undefined;
     if (r !== 'going') return r;

@@ -29,8 +29,8 @@
 // factor (1e-3/rtol)^(1/6) more than without the map (6.8 at rtol 1e-8), which is what second
 // order costs for a global error near the request; long spans at rtol <= 1e-9 need more than
 // 100000 steps.
-import { luFactor, luSolve } from '../../core/lu.js';
-import { makeJacobianSource } from '../../core/jacobian.js';
+import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { RealIterationMatrix } from './iteration-matrix.js';
 import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { DECIDE_BAND, EPS, dampedTimesWithin, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
@@ -109,10 +109,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const f1 = lease.float64(n), f2 = lease.float64(n), f3 = lease.float64(n);
   const z = lease.float64(n), rhs = lease.float64(n), delta = lease.float64(n);
   const fz = lease.float64(n), scal = lease.float64(n), est = lease.float64(n);
-  const M = lease.float64(n * n);
-  const piv = lease.int32(n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length));
-  const jac = jacSrc.jac;
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+  const M = new RealIterationMatrix(jacSrc, n, lease);
   const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
   let needJac = true;
   let jacCurrent = false;
@@ -141,7 +139,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       f(tz, z, fz);
       counts.nfev++;
       for (let i = 0; i < n; i++) delta[i] = rhs[i]! + dh * fz[i]! - z[i]!;
-      luSolve(M, n, piv, delta);
+      M.solve(delta);
       const dy = norm(delta);
       if (!Number.isFinite(dy)) return false;
       if (it > 0) {
@@ -170,12 +168,9 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       st.hLU = NaN;
     }
     if (h !== st.hLU) {
-      const dh = DIAG * h;
-      for (let q = 0; q < n * n; q++) M[q] = -dh * jac[q]!;
-      for (let i = 0; i < n; i++) M[i * n + i] = M[i * n + i]! + 1;
       counts.nlu++;
       st.hLU = NaN;
-      if (!luFactor(M, n, piv)) {
+      if (!M.factor(1, DIAG * h)) {
         if (!jacCurrent) needJac = true;
         return propose(proposal, false, 0.5 * h);
       }
@@ -206,7 +201,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       return propose(proposal, false, 0.5 * h);
     }
     for (let i = 0; i < n; i++) est[i] = h * (E[0]! * f1[i]! + E[1]! * f2[i]! + E[2]! * f3[i]!);
-    luSolve(M, n, piv, est);
+    M.solve(est);
     const err = scaledRmsNorm(est, y, z, rtol, atol, n);
     if (!(err <= 1)) {
       reject = true;

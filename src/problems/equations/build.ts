@@ -20,6 +20,7 @@ import { dependencyGraph } from './dependency-graph.js';
 import { symbolicJacobian } from './jacobian.js';
 import { expandVectors } from './vectors.js';
 import { isolateTableCalls, type FileTables } from '../tables/file-tables.js';
+import { detectedBand } from './band.js';
 import { checkName, makeScope } from './names.js';
 import { checkSeparableSplit, findSeparableSplit, type Dependencies } from './separable.js';
 
@@ -119,6 +120,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     usesTime: reach.map((r) => r.usesTime),
   };
   const { separable, separableReason } = separability(site, spec, dependencies);
+  const jacobianBand = detectedBand(dependencies.deps);
 
   const derivativeScope = makeScope({ time: true, states, parameters, definitions: visibleDefs, functions: new Map([...DERIVATIVE_FUNCTIONS, ...(tables?.valueRules ?? [])]) });
   const jac = symbolicJacobian(graph, equations.map((e) => e.node), derivativeScope, tables?.slopeRules);
@@ -136,6 +138,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     y0,
     f,
     ...(jacobian ? { jacobian } : {}),
+    ...(jacobianBand ? { jacobianBand } : {}),
     jacobianSource: jacobian ? 'symbolic' : 'finite-difference',
     ...('reason' in jac ? { jacobianNote: jac.reason } : {}),
     stiff: spec.stiff ?? false,

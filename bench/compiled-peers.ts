@@ -1,0 +1,232 @@
+// Compiled peers side by side with stepgauge at matched achieved error: Boost.Odeint (Fehlberg
+// 7(8) and Dormand-Prince 5 controlled, Bulirsch-Stoer, Rosenbrock 4) and SUNDIALS CVODE (BDF,
+// dense and band direct solvers), built here from bench/compiled/peers.cpp with g++ -O2 against
+// the Debian packages (libboost-dev, libsundials-dev). Not part of npm test; a missing compiler
+// or package skips its peers with a note.
+//
+// Matching: for every peer and every stepgauge method the loosest rtol whose final error meets
+// the target is found exactly as `stepgauge choose` finds it (loosestRtol of src/sweep/choose.ts:
+// the decade grid 1e-2..1e-15, then 8 bisections of log10 rtol; atol = rtol times the problem's
+// atolScale), with the error in the problem's own scale against its own reference. stepgauge's
+// chosen setting is then timed as `stepgauge run` records it (the run swept alone, timed in its
+// own process); a peer's by the compiled program itself (median of repeated solves, creating the
+// integrator's objects included, as a user's program would).
+import { execFileSync, spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { Method, Problem } from '../src/core/types.js';
+import { absoluteTolerance } from '../src/core/tolerance.js';
+import { errorMeter } from '../src/measure/error-norm.js';
+import { DEFAULT_TIMING } from '../src/measure/timing.js';
+import { findMethod } from '../src/methods/registry.js';
+import { chooseMethod, loosestRtol } from '../src/sweep/choose.js';
+import { findProblem } from '../problems/index.js';
+
+const here = dirname(fileURLToPath(import.meta.url));
+const root = join(here, here.endsWith(join('dist', 'bench')) ? '../..' : '..');
+const source = join(root, 'bench', 'compiled', 'peers.cpp');
+const cli = join(root, 'bin', 'stepgauge.js');
+/** Timing budget of each timed setting, ms (the compiled program and `stepgauge run --time-budget` alike). */
+const BUDGET_MS = 1000;
+
+interface Peer {
+  problem: string;
+  method: string;
+  library: 'boost' | 'cvode';
+}
+
+export const COMPILED_PEERS: readonly Peer[] = [
+  { problem: 'kepler-eccentric', method: 'boost-rkf78', library: 'boost' },
+  { problem: 'kepler-eccentric', method: 'boost-bulirsch-stoer', library: 'boost' },
+  { problem: 'kepler-eccentric', method: 'boost-dopri5', library: 'boost' },
+  { problem: 'robertson', method: 'boost-rosenbrock4', library: 'boost' },
+  { problem: 'robertson', method: 'cvode-dense', library: 'cvode' },
+  { problem: 'brusselator-1d', method: 'cvode-band', library: 'cvode' },
+];
+
+/** The targets of the issue: problem, final error, stepgauge methods matched there. */
+export const COMPILED_TARGETS: readonly { problem: string; target: number; methods: readonly string[] }[] = [
+  { problem: 'kepler-eccentric', target: 1e-8, methods: ['verner-87', 'verner-76', 'dormand-prince-853', 'verner-65', 'dormand-prince-54', 'tsitouras-54'] },
+  { problem: 'kepler-eccentric', target: 1e-10, methods: ['verner-87', 'verner-76', 'dormand-prince-853', 'verner-65'] },
+  { problem: 'robertson', target: 1e-7, methods: ['hairer-wanner-rodas4', 'radau-iia-5', 'bdf-variable', 'trapezoidal-bdf2'] },
+  { problem: 'brusselator-1d', target: 1e-6, methods: ['hairer-wanner-rodas4', 'radau-iia-5', 'bdf-variable'] },
+];
+
+export interface CompiledPeerRow {
+  problem: string;
+  target: number;
+  side: 'stepgauge' | 'boost' | 'cvode';
+  method: string;
+  met: boolean;
+  rtol: number | null;
+  achieved: number | null;
+  nfev: number | null;
+  medianMs: number | null;
+  nsPerEval: number | null;
+  note?: string;
+}
+
+interface Build {
+  binary: string | null;
+  cvode: boolean;
+  notes: string[];
+}
+
+function has(cmd: string, args: string[]): boolean {
+  return spawnSync(cmd, args, { stdio: 'ignore' }).status === 0;
+}
+
+/** Compiles peers.cpp (cached by its hash), with CVODE when its headers are installed. */
+export function buildPeers(): Build {
+  const notes: string[] = [];
+  if (!has('g++', ['--version'])) return { binary: null, cvode: false, notes: ['g++ not found: compiled peers skipped'] };
+  if (!existsSync('/usr/include/boost/numeric/odeint.hpp')) return { binary: null, cvode: false, notes: ['Boost.Odeint headers not found (Debian libboost-dev): compiled peers skipped'] };
+  const cvode = existsSync('/usr/include/cvode/cvode.h');
+  if (!cvode) notes.push('SUNDIALS CVODE headers not found (Debian libsundials-dev): CVODE peers skipped');
+  const text = readFileSync(source, 'utf8');
+  const dir = join(tmpdir(), 'stepgauge-compiled-peers');
+  mkdirSync(dir, { recursive: true });
+  const binary = join(dir, `peers-${createHash('sha256').update(text).update(String(cvode)).digest('hex').slice(0, 16)}`);
+  if (!existsSync(binary)) {
+    const libs = cvode ? ['-DWITH_CVODE', '-lsundials_cvode', '-lsundials_nvecserial', '-lsundials_sunmatrixdense', '-lsundials_sunmatrixband', '-lsundials_sunlinsoldense', '-lsundials_sunlinsolband'] : [];
+    // Libraries after the source, where the linker needs them.
+    const args = ['-O2', '-std=c++17', ...libs.filter((l) => l.startsWith('-D')), source, '-o', binary, ...libs.filter((l) => l.startsWith('-l'))];
+    const r = spawnSync('g++', args, { encoding: 'utf8' });
+    if (r.status !== 0) return { binary: null, cvode, notes: [...notes, `g++ failed: ${r.stderr.split('\n').slice(0, 3).join(' ')}`] };
+  }
+  return { binary, cvode, notes };
+}
+
+interface PeerSolve {
+  nfev: number;
+  medianMs: number;
+  y: number[];
+}
+
+function peerSolve(binary: string, peer: Peer, rtol: number, atol: number, budgetMs: number): PeerSolve {
+  const out = execFileSync(binary, [peer.problem, peer.method, String(rtol), String(atol), String(budgetMs)], { encoding: 'utf8', maxBuffer: 64 << 20 });
+  return JSON.parse(out) as PeerSolve;
+}
+
+/** The problem's reference state at tEnd. */
+function referenceAtEnd(p: Problem): Float64Array {
+  const out = new Float64Array(p.dimension);
+  if (p.reference.exact) p.reference.exact(p.tEnd, out);
+  else out.set(p.reference.points!.find((q) => q.t === p.tEnd)!.y);
+  return out;
+}
+
+function peerRow(binary: string, peer: Peer, p: Problem, target: number): CompiledPeerRow {
+  const meter = errorMeter(p);
+  const ref = referenceAtEnd(p);
+  const errorAt = (rtol: number) => {
+    const s = peerSolve(binary, peer, rtol, atolFor(p, rtol), 0);
+    return { s, e: meter(p.tEnd, Float64Array.from(s.y), ref) };
+  };
+  const found = loosestRtol(errorAt, (r) => r.e <= target);
+  const base = { problem: p.id, target, side: peer.library, method: peer.method };
+  if (!found) return { ...base, met: false, rtol: null, achieved: null, nfev: null, medianMs: null, nsPerEval: null, note: 'target not reached down to rtol 1e-15' };
+  const timed = peerSolve(binary, peer, found.rtol, atolFor(p, found.rtol), BUDGET_MS);
+  return {
+    ...base,
+    met: true,
+    rtol: found.rtol,
+    achieved: found.result.e,
+    nfev: timed.nfev,
+    medianMs: timed.medianMs,
+    nsPerEval: (timed.medianMs * 1e6) / timed.nfev,
+  };
+}
+
+function atolFor(p: Problem, rtol: number): number {
+  const a = absoluteTolerance(p, rtol);
+  if (typeof a === 'number') return a;
+  // The compiled program takes one atol: every catalogue problem here scales all states alike.
+  return a[0]!;
+}
+
+/** The time `stepgauge run` records for this one run, swept alone (ms), and its nfev. */
+function timedAsRun(problem: string, method: string, rtol: number): { ms: number | null; nfev: number | null } {
+  const dir = mkdtempSync(join(tmpdir(), 'stepgauge-compiled-peers-'));
+  try {
+    execFileSync(process.execPath, [cli, 'run', '-p', problem, '-m', method, '-t', String(rtol), '--time-budget', String(BUDGET_MS / 1000), '--max-steps', '10000000', '--no-report', '-q', '-o', join(dir, 'out')], {
+      stdio: ['ignore', 'ignore', 'inherit'],
+    });
+    const run = (JSON.parse(readFileSync(join(dir, 'out', 'results.json'), 'utf8')) as { runs: { time: { medianSeconds: number | null } | null; counts: { nfev: number } }[] }).runs[0];
+    const s = run?.time?.medianSeconds;
+    return { ms: typeof s === 'number' ? s * 1000 : null, nfev: run?.counts.nfev ?? null };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+async function stepgaugeRows(p: Problem, target: number, ids: readonly string[]): Promise<CompiledPeerRow[]> {
+  const methods = ids.map((id) => findMethod(id)).filter((m): m is Method => m !== undefined);
+  const choice = await chooseMethod(p, methods, { target, measure: 'final', cost: 'nfev', maxSteps: 10_000_000, timing: DEFAULT_TIMING });
+  return choice.candidates.map((c) => {
+    const base = { problem: p.id, target, side: 'stepgauge' as const, method: c.method };
+    const setting = c.run?.setting;
+    if (!c.met || !setting || !('rtol' in setting)) {
+      return { ...base, met: false, rtol: null, achieved: c.achieved, nfev: null, medianMs: null, nsPerEval: null, note: c.note ?? 'target not reached' };
+    }
+    const t = timedAsRun(p.id, c.method, setting.rtol);
+    return {
+      ...base,
+      met: true,
+      rtol: setting.rtol,
+      achieved: c.achieved,
+      nfev: t.nfev,
+      medianMs: t.ms,
+      nsPerEval: t.ms !== null && t.nfev ? (t.ms * 1e6) / t.nfev : null,
+    };
+  });
+}
+
+export async function runCompiledPeersBench(): Promise<{ rows: CompiledPeerRow[]; notes: string[] }> {
+  const build = buildPeers();
+  const rows: CompiledPeerRow[] = [];
+  for (const { problem, target, methods } of COMPILED_TARGETS) {
+    const p = findProblem(problem);
+    if (!p) continue;
+    rows.push(...(await stepgaugeRows(p, target, methods)));
+    for (const peer of COMPILED_PEERS.filter((x) => x.problem === problem)) {
+      if (!build.binary || (peer.library === 'cvode' && !build.cvode)) continue;
+      rows.push(peerRow(build.binary, peer, p, target));
+    }
+  }
+  return { rows, notes: build.notes };
+}
+
+/** Ratios of the issue's targets from the rows (null where a side is missing). */
+export function compiledTargets(rows: readonly CompiledPeerRow[]): Record<string, unknown>[] {
+  const fastest = (problem: string, target: number, side: string, method?: string) =>
+    rows
+      .filter((r) => r.problem === problem && r.target === target && r.side === side && r.met && r.medianMs !== null && (!method || r.method === method))
+      .sort((a, b) => a.medianMs! - b.medianMs!)[0];
+  const ratio = (a?: CompiledPeerRow, b?: CompiledPeerRow) => (a && b ? a.medianMs! / b.medianMs! : null);
+  const out: Record<string, unknown>[] = [];
+  const add = (target: string, a: CompiledPeerRow | undefined, b: CompiledPeerRow | undefined, limit: number) => {
+    const r = ratio(a, b);
+    out.push({ target, stepgauge: a?.method ?? null, peer: b?.method ?? null, measured: r, limit, met: r !== null && r <= limit });
+  };
+  for (const t of [1e-8, 1e-10]) add(`kepler-eccentric ${t}: fastest stepgauge / fastest Boost`, fastest('kepler-eccentric', t, 'stepgauge'), fastest('kepler-eccentric', t, 'boost'), 1);
+  add('robertson 1e-7: fastest stepgauge / Boost Rosenbrock 4', fastest('robertson', 1e-7, 'stepgauge'), fastest('robertson', 1e-7, 'boost', 'boost-rosenbrock4'), 1);
+  add('robertson 1e-7: fastest stepgauge / CVODE dense', fastest('robertson', 1e-7, 'stepgauge'), fastest('robertson', 1e-7, 'cvode', 'cvode-dense'), 0.5);
+  add('brusselator-1d 1e-6: fastest stepgauge implicit / CVODE band', fastest('brusselator-1d', 1e-6, 'stepgauge'), fastest('brusselator-1d', 1e-6, 'cvode', 'cvode-band'), 1.5);
+  const dp54 = fastest('kepler-eccentric', 1e-8, 'stepgauge', 'dormand-prince-54');
+  const dopri5 = fastest('kepler-eccentric', 1e-8, 'boost', 'boost-dopri5');
+  const per = dp54?.nsPerEval && dopri5?.nsPerEval ? dp54.nsPerEval / dopri5.nsPerEval : null;
+  out.push({ target: 'kepler-eccentric 1e-8: dormand-prince-54 / Boost dopri5, time per evaluation', stepgauge: 'dormand-prince-54', peer: 'boost-dopri5', measured: per, limit: 1.3, met: per !== null && per <= 1.3 });
+  return out;
+}
+
+// By hand: node dist/bench/compiled-peers.js
+if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  const { rows, notes } = await runCompiledPeersBench();
+  for (const n of notes) console.log(`note: ${n}`);
+  for (const r of rows) console.log(JSON.stringify(r));
+  for (const t of compiledTargets(rows)) console.log(JSON.stringify(t));
+}

@@ -1,0 +1,29 @@
+// Certifies the reference of brusselator-1d (src/measure/certify.ts: radau-iia-5 and bdf-variable
+// at rtol = atol = 1e-12, agreement in digits) and writes it to brusselator-1d-reference.ts.
+// By hand, after changing the problem: npm run build && node dist/problems/brusselator-1d-certify.js
+import { writeFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { sha256 } from '../src/core/hash.js';
+import { certify } from '../src/measure/certify.js';
+import { brusselator1d } from './brusselator-1d.js';
+
+const started = performance.now();
+const cert = certify({ ...brusselator1d, reference: { kind: 'certified' }, checkTimes: [9] });
+const y = cert.points.at(-1)!.y;
+const text = y.map((v) => String(v)).join(',');
+const out = [
+  '// Written by problems/brusselator-1d-certify.ts; do not edit by hand.',
+  `// ${cert.methods.join(' and ')} at rtol = atol = ${cert.rtol} agree to ${cert.digits} digits (worst state, relative to the largest), ${new Date().toISOString().slice(0, 10)}.`,
+  'export const BRUSSELATOR_REFERENCE = {',
+  `  digits: ${cert.digits},`,
+  `  source: 'certified: ${cert.methods.join(' and ')} at rtol = atol = ${cert.rtol} agree to ${cert.digits} digits at t = 9 and 10',`,
+  `  sha256: '${sha256(text)}',`,
+  `  y: [${text}],`,
+  '};',
+  '',
+].join('\n');
+const here = dirname(fileURLToPath(import.meta.url));
+const src = here.endsWith(join('dist', 'problems')) ? join(here, '..', '..', 'problems') : here;
+writeFileSync(join(src, 'brusselator-1d-reference.ts'), out);
+console.log(`certified ${cert.digits} digits in ${((performance.now() - started) / 1000).toFixed(1)} s`);
