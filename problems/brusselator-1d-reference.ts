@@ -1,4 +1,4 @@
-// Written by problems/brusselator-1d-certify.ts; do not edit by hand.
+// Written by bench/certify-brusselator.ts; do not edit by hand.
 // radau-iia-5 and bdf-variable at rtol = atol = 1e-12 agree to 8 digits (worst state, relative to the largest), 2026-12-05.
 export const BRUSSELATOR_REFERENCE = {
   digits: 8,

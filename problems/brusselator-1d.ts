@@ -10,8 +10,8 @@
 // above the main one (jacobianBand), and the implicit methods factor band matrices.
 // Reference: certified here (no published values at t = 10 to our knowledge): radau-iia-5 and
 // bdf-variable at rtol = atol = 1e-12 (src/measure/certify.ts), the certificate written into
-// REFERENCE below by `node dist/problems/brusselator-1d-certify.js`; test/catalogue-brusselator.test.ts
-// recomputes a coarser agreement on every run. Error: absolute (u and v are O(1)).
+// brusselator-1d-reference.ts by `node dist/bench/certify-brusselator.js`; test/catalogue-brusselator.test.ts
+// checks it against hairer-wanner-rodas4, which is not one of the certifying pair. Error: absolute.
 // Invariants: none. Stiff: the diffusion's eigenvalues reach -4 alpha (N+1)^2, about -2e4.
 import type { Problem } from '../src/core/types.js';
 import { BRUSSELATOR_REFERENCE } from './brusselator-1d-reference.js';

@@ -1,19 +1,20 @@
 // Certifies the reference of brusselator-1d (src/measure/certify.ts: radau-iia-5 and bdf-variable
 // at rtol = atol = 1e-12, agreement in digits) and writes it to brusselator-1d-reference.ts.
-// By hand, after changing the problem: npm run build && node dist/problems/brusselator-1d-certify.js
+// Not a benchmark: it lives in bench/ because the catalogue's layer may not import the measuring
+// layer. By hand, after changing the problem: npm run build && node dist/bench/certify-brusselator.js
 import { writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { sha256 } from '../src/core/hash.js';
 import { certify } from '../src/measure/certify.js';
-import { brusselator1d } from './brusselator-1d.js';
+import { brusselator1d } from '../problems/brusselator-1d.js';
 
 const started = performance.now();
 const cert = certify({ ...brusselator1d, reference: { kind: 'certified' }, checkTimes: [9] });
 const y = cert.points.at(-1)!.y;
 const text = y.map((v) => String(v)).join(',');
 const out = [
-  '// Written by problems/brusselator-1d-certify.ts; do not edit by hand.',
+  '// Written by bench/certify-brusselator.ts; do not edit by hand.',
   `// ${cert.methods.join(' and ')} at rtol = atol = ${cert.rtol} agree to ${cert.digits} digits (worst state, relative to the largest), ${new Date().toISOString().slice(0, 10)}.`,
   'export const BRUSSELATOR_REFERENCE = {',
   `  digits: ${cert.digits},`,
@@ -24,6 +25,6 @@ const out = [
   '',
 ].join('\n');
 const here = dirname(fileURLToPath(import.meta.url));
-const src = here.endsWith(join('dist', 'problems')) ? join(here, '..', '..', 'problems') : here;
+const src = join(here, here.endsWith(join('dist', 'bench')) ? '../..' : '..', 'problems');
 writeFileSync(join(src, 'brusselator-1d-reference.ts'), out);
 console.log(`certified ${cert.digits} digits in ${((performance.now() - started) / 1000).toFixed(1)} s`);
