@@ -13,6 +13,7 @@
 #include <cstdio>
 #include <cstdlib>
 #include <cstring>
+#include <exception>
 #include <string>
 #include <vector>
 
@@ -221,7 +222,13 @@ int main(int argc, char **argv) {
   }
   const double rtol = std::atof(argv[3]), atol = std::atof(argv[4]), budgetMs = std::atof(argv[5]);
   g_nfev = 0;
-  std::vector<double> y = solve(rtol, atol);
+  std::vector<double> y;
+  try {
+    y = solve(rtol, atol);
+  } catch (const std::exception &e) {
+    std::fprintf(stderr, "peers: %s %s at rtol %g failed: %s\n", argv[1], argv[2], rtol, e.what());
+    return 1;
+  }
   const long nfev = g_nfev;
   std::vector<double> ms;
   using clock = std::chrono::steady_clock;
