@@ -7,6 +7,12 @@ import { bandWidth } from './band-lu.js';
 
 const EPS = 2.220446049250313e-16;
 
+/** The difference increment for a state of value yj (the header's rule). */
+function increment(yj: number): number {
+  const a = Math.abs(yj);
+  return Math.sqrt(EPS * (a > 1e-5 ? a : 1e-5));
+}
+
 /**
  * Forward-difference Jacobian written row-major into jac (jac[i*n + j] = dfi/dyj). fy must hold
  * f(t, y); yWork and fWork are caller buffers of length n. y is left unchanged. Costs n
@@ -25,9 +31,7 @@ export function finiteDifferenceJacobian(
   for (let i = 0; i < n; i++) yWork[i] = y[i]!;
   for (let j = 0; j < n; j++) {
     const yj = y[j]!;
-    const a = Math.abs(yj);
-    const delta = Math.sqrt(EPS * (a > 1e-5 ? a : 1e-5));
-    yWork[j] = yj + delta;
+    yWork[j] = yj + increment(yj);
     // The increment actually represented in floating point, so the quotient is consistent.
     const d = yWork[j]! - yj;
     f(t, yWork, fWork);
@@ -65,8 +69,7 @@ export function bandedFiniteDifferenceJacobian(
   for (let g = 0; g < groups; g++) {
     for (let j = g; j < n; j += groups) {
       const yj = y[j]!;
-      const a = Math.abs(yj);
-      yWork[j] = yj + Math.sqrt(EPS * (a > 1e-5 ? a : 1e-5));
+      yWork[j] = yj + increment(yj);
       dWork[j] = yWork[j]! - yj;
     }
     f(t, yWork, fWork);

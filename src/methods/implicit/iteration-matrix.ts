@@ -8,36 +8,39 @@ import type { JacobianSource } from '../../core/jacobian.js';
 import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/lu.js';
 import type { WorkLease } from '../work-lease.js';
 
-/** Storage length and diagonal positions of one matrix for a source. */
-function layout(src: JacobianSource, n: number): { length: number; diagStart: number; diagStride: number; ml: number; mu: number } {
-  if (!src.band) return { length: n * n, diagStart: 0, diagStride: n + 1, ml: 0, mu: 0 };
-  const { lower: ml, upper: mu } = src.band;
-  const w = bandWidth(ml, mu);
-  return { length: n * w, diagStart: ml, diagStride: w, ml, mu };
+/** Storage of one matrix for a source: its length, where the diagonal lies, the band (0, 0 dense). */
+class Layout {
+  readonly length: number;
+  readonly diagStart: number;
+  readonly diagStride: number;
+  readonly ml: number;
+  readonly mu: number;
+  readonly banded: boolean;
+
+  constructor(src: JacobianSource, n: number) {
+    this.banded = src.band !== null;
+    this.ml = src.band?.lower ?? 0;
+    this.mu = src.band?.upper ?? 0;
+    const w = this.banded ? bandWidth(this.ml, this.mu) : n;
+    this.length = n * w;
+    this.diagStart = this.banded ? this.ml : 0;
+    this.diagStride = this.banded ? w : n + 1;
+  }
 }
 
 export class RealIterationMatrix {
+  private readonly l: Layout;
   private readonly m: Float64Array;
   private readonly piv: Int32Array;
-  private readonly banded: boolean;
-  private readonly ml: number;
-  private readonly mu: number;
-  private readonly diagStart: number;
-  private readonly diagStride: number;
 
   constructor(
     private readonly src: JacobianSource,
     private readonly n: number,
     lease: WorkLease,
   ) {
-    const l = layout(src, n);
-    this.m = lease.float64(l.length);
+    this.l = new Layout(src, n);
+    this.m = lease.float64(this.l.length);
     this.piv = lease.int32(n);
-    this.banded = src.band !== null;
-    this.ml = l.ml;
-    this.mu = l.mu;
-    this.diagStart = l.diagStart;
-    this.diagStride = l.diagStride;
   }
 
   /** M = d I - s J from the source's current Jacobian, factored; false when singular. */
@@ -47,41 +50,33 @@ export class RealIterationMatrix {
     const len = m.length;
     for (let q = 0; q < len; q++) m[q] = -s * jac[q]!;
     const n = this.n;
-    for (let i = 0, q = this.diagStart; i < n; i++, q += this.diagStride) m[q] = m[q]! + d;
-    return this.banded ? bandLuFactor(m, n, this.ml, this.mu, this.piv) : luFactor(m, n, this.piv);
+    const l = this.l;
+    for (let i = 0, q = l.diagStart; i < n; i++, q += l.diagStride) m[q] = m[q]! + d;
+    return l.banded ? bandLuFactor(m, n, l.ml, l.mu, this.piv) : luFactor(m, n, this.piv);
   }
 
   /** b := M^{-1} b with the last factors. */
   solve(b: Float64Array): void {
-    if (this.banded) bandLuSolve(this.m, this.n, this.ml, this.mu, this.piv, b);
+    if (this.l.banded) bandLuSolve(this.m, this.n, this.l.ml, this.l.mu, this.piv, b);
     else luSolve(this.m, this.n, this.piv, b);
   }
 }
 
 export class ComplexIterationMatrix {
+  private readonly l: Layout;
   private readonly mr: Float64Array;
   private readonly mi: Float64Array;
   private readonly piv: Int32Array;
-  private readonly banded: boolean;
-  private readonly ml: number;
-  private readonly mu: number;
-  private readonly diagStart: number;
-  private readonly diagStride: number;
 
   constructor(
     private readonly src: JacobianSource,
     private readonly n: number,
     lease: WorkLease,
   ) {
-    const l = layout(src, n);
-    this.mr = lease.float64(l.length);
-    this.mi = lease.float64(l.length);
+    this.l = new Layout(src, n);
+    this.mr = lease.float64(this.l.length);
+    this.mi = lease.float64(this.l.length);
     this.piv = lease.int32(n);
-    this.banded = src.band !== null;
-    this.ml = l.ml;
-    this.mu = l.mu;
-    this.diagStart = l.diagStart;
-    this.diagStride = l.diagStride;
   }
 
   /** M = (dr + i di) I - J from the source's current Jacobian, factored; false when singular. */
@@ -95,16 +90,17 @@ export class ComplexIterationMatrix {
       mi[q] = 0;
     }
     const n = this.n;
-    for (let i = 0, q = this.diagStart; i < n; i++, q += this.diagStride) {
+    const l = this.l;
+    for (let i = 0, q = l.diagStart; i < n; i++, q += l.diagStride) {
       mr[q] = mr[q]! + dr;
       mi[q] = di;
     }
-    return this.banded ? complexBandLuFactor(mr, mi, n, this.ml, this.mu, this.piv) : complexLuFactor(mr, mi, n, this.piv);
+    return l.banded ? complexBandLuFactor(mr, mi, n, l.ml, l.mu, this.piv) : complexLuFactor(mr, mi, n, this.piv);
   }
 
   /** (br + i bi) := M^{-1} (br + i bi) with the last factors. */
   solve(br: Float64Array, bi: Float64Array): void {
-    if (this.banded) complexBandLuSolve(this.mr, this.mi, this.n, this.ml, this.mu, this.piv, br, bi);
+    if (this.l.banded) complexBandLuSolve(this.mr, this.mi, this.n, this.l.ml, this.l.mu, this.piv, br, bi);
     else complexLuSolve(this.mr, this.mi, this.n, this.piv, br, bi);
   }
 }
