@@ -126,7 +126,7 @@ function peerRow(binary: string, peer: Peer, p: Problem, target: number): Compil
   const errorAt = (rtol: number) => {
     try {
       const s = peerSolve(binary, peer, rtol, atolFor(p, rtol), 0);
-      return { s, e: meter(p.tEnd, Float64Array.from(s.y), ref) };
+      return { s, e: meter.error(p.tEnd, Float64Array.from(s.y), ref) };
     } catch {
       return { s: null, e: NaN }; // the solver gave up at this setting: the target is not met there
     }

@@ -98,6 +98,7 @@ function searchAdaptive(p: Problem, m: Method, o: ChooseOptions): Search {
     tried.push(trialPoint(run, o));
     return run;
   };
+  let failing: number | null = null;
   let closest: RunResult | null = null;
   let lastOk: RunResult | null = null;
   for (const rtol of RTOL_GRID) {

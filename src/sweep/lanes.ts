@@ -100,10 +100,6 @@ function newPool(filename: string, clocks?: { isolate: true; workers: number }):
     // runs reach optimised code sooner; the catalogue's --jobs 2 sweep took 2-3% less time
     // (19 alternating pairs, bench/README.md). It changes when code is optimised, never a result.
     execArgv: ['--single-threaded', '--max-semi-space-size=4', '--no-lazy-feedback-allocation'],
-    // tinypool gives a child process only its own worker id as environment unless told: the
-    // workers see the user's environment, as a sweep on one process does (STEPGAUGE_CACHE, a
-    // user module's own settings).
-    env: Object.fromEntries(Object.entries(process.env).filter((e): e is [string, string] => e[1] !== undefined)),
     // Structured clone, as between threads: JSON would turn a NaN or infinite error into null.
     serialization: 'advanced',
     minThreads: clocks ? 0 : 1,
