@@ -38,7 +38,10 @@ function independentEnd(p: Problem): { y: Float64Array; uncertainty: number } {
 }
 
 describe('choose on every catalogue problem (final error)', () => {
-  it.each(catalogue.map((p) => [p.id, p] as const))('%s: the recommendation meets the target against an independent reference', async (_id, given) => {
+  // brusselator-1d (1000 stiff states) is left out: odex, the independent reference here, is
+  // explicit and would take minutes on it; test/catalogue-brusselator.test.ts checks its reference
+  // against a method that did not certify it.
+  it.each(catalogue.filter((p) => p.id !== 'brusselator-1d').map((p) => [p.id, p] as const))('%s: the recommendation meets the target against an independent reference', async (_id, given) => {
     const p = withCertifiedReference(given);
     const TARGET = targetOf(p);
     const methods = (p.stiff ? ['radau-iia-5', 'hairer-wanner-rodas4'] : ['dormand-prince-54', 'rk4']).map((m) => findMethod(m)!);
