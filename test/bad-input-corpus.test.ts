@@ -14,6 +14,10 @@ import { createHash } from 'node:crypto';
 import { availableParallelism, hostname } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { execFileSync } from 'node:child_process';
+import { readResultsFile } from '../src/results/read.js';
+import { MAX_PROBLEM_FILE_BYTES } from '../src/problems/file/read-limited.js';
+import { MAX_FILE_STATES } from '../src/problems/equations/names.js';
 import { runCli, type CliResult } from './helpers/cli.js';
 import { loadProblemFile } from '../src/problems/load-file.js';
 
@@ -129,7 +133,7 @@ const PROBLEM_FILES: readonly (readonly [string, string, RegExp])[] = [
   ['linear-csv-ragged.yaml', resolve(BAD, 'cells-ragged.csv'), /row 2 has 1 cells, row 1 has 2 \(ragged matrix for linear\.A\)$/],
   ['linear-csv-bad-quote.yaml', resolve(BAD, 'cells-bad-quote.csv'), /CSV syntax error for linear\.A: Quote Not Closed/],
   ['linear-csv-missing.yaml', 'linear-csv-missing.yaml:5:6', /linear\.A: cannot read matrix file no-such-matrix\.csv \(ENOENT\)$/],
-  ['linear-csv-directory.yaml', 'linear-csv-directory.yaml:5:6', /linear\.A: cannot read matrix file a-folder\.csv \(EISDIR\)$/],
+  ['linear-csv-directory.yaml', 'linear-csv-directory.yaml:5:6', /linear\.A: cannot read matrix file a-folder\.csv \(a folder, not a regular file\)$/],
   ['linear-csv-empty.yaml', 'linear-csv-empty.yaml:5:6', /linear\.A: matrix has no rows$/],
   // folders and missing files where a problem file is expected
   ['folder-problem.yaml', `--problem ${BAD}/folder-problem.yaml`, /expected a file, found a folder$/],
@@ -151,12 +155,31 @@ const PROBLEM_FILES: readonly (readonly [string, string, RegExp])[] = [
   ['module-exports-nothing.ts', `${BAD}/module-exports-nothing.ts`, /exports neither a problem nor a method/],
 ];
 
+// Issue 22, model files: paths a problem file refers to, prototype names. [fixture, where, says]
+const MODEL_FILES: readonly (readonly [string, string, RegExp])[] = [
+  ['linear-csv-outside.yaml', 'linear-csv-outside.yaml:6:6', /linear\.A: cannot read matrix file \.\.\/\.\.\/\.\.\/package\.json \(outside the problem file's folder \(after resolving links\)/],
+  ['linear-csv-absolute.yaml', 'linear-csv-absolute.yaml:6:6', /linear\.A: cannot read matrix file \/dev\/zero \(an absolute path; give a path relative to the problem file/],
+  ['linear-csv-symlink-outside.yaml', 'linear-csv-symlink-outside.yaml:6:6', /linear\.A: cannot read matrix file cells-link-outside\.csv \(outside the problem file's folder/],
+  ['proto-parameter.yaml', 'proto-parameter.yaml:5:26', /parameters\.__proto__: '__proto__' cannot be used as a name or key \(it is special to JavaScript objects\)$/],
+  ['proto-invariant.yaml', 'proto-invariant.yaml:11:16', /invariants\.constructor: 'constructor' cannot be used as a name or key/],
+  ['proto-state.yaml', 'proto-state.yaml:7:14', /equations\.prototype: 'prototype' cannot be used as a name or key/],
+  ['proto-json-key.json', 'proto-json-key.json:5:56', /equations\.__proto__: '__proto__' cannot be used as a name or key/],
+];
+
+// Issue 22, results validated before they are written: [fixture, method, what the run records].
+const RECORDED_FILES: readonly (readonly [string, string, string, RegExp])[] = [
+  ['module-method-returns-nan.ts', 'robertson', 'diverged', /^returns-nan reported ok, but its final state is not finite \(y\[0\] = NaN at t = 100000000000\)$/],
+  ['module-method-returns-status.ts', 'robertson', 'error', /^returns-status returned status "finished", which is not one of ok, diverged, step-underflow, step-limit, timeout, error$/],
+  ['module-method-returns-counts.ts', 'robertson', 'error', /^returns-counts returned impossible counts \(nfev -3, rejected 1\.5\); every count is a whole number, 0 or more$/],
+  ['linear-exact-overflow.yaml', 'rk4', 'error', /^the reference is not finite at t = 1 \(component \[0\] = Infinity\); error not measured$/],
+];
+
 describe('bad problem files: exit 2, one line naming file and field, nothing written', () => {
   it('the corpus holds at least 40 bad files', () => {
     expect(PROBLEM_FILES.length).toBeGreaterThanOrEqual(40);
     // Every fixture named in the table exists, and the table names every problem-like fixture.
     const onDisk = new Set(readdirSync(BAD));
-    const named = new Set(PROBLEM_FILES.map(([f]) => f));
+    const named = new Set([...PROBLEM_FILES, ...MODEL_FILES, ...RECORDED_FILES].map(([f]) => f));
     for (const f of named) if (f !== 'no-such-problem.yaml') expect(onDisk.has(f), f).toBe(true);
     const helpers = /^(cells-.*\.csv|a-folder\.csv|valid-.*|linear-valid-.*|results-.*\.json|module-method-.*)$/;
     for (const f of onDisk) if (!helpers.test(f)) expect(named.has(f), `${f} is not in the table`).toBe(true);
@@ -613,5 +636,108 @@ describe('flags: --run-timeout bounded, --jobs capped, workers see the environme
     }
     // The same environment in the main process (--jobs 1) and on the workers (--jobs 2).
     expect(messages).toEqual([['mark=seen', 'mark=seen'], ['mark=seen', 'mark=seen']]);
+  });
+});
+
+describe('issue 22, model files: references stay in the folder, prototype names refused, sizes capped', () => {
+  it.each(MODEL_FILES)('%s', async (fixture, where, says) => {
+    const { r, dir } = await runOn(join(BAD, fixture));
+    expectRefused(r, dir, where, says);
+    // Nothing of the file a path points at reaches the message.
+    expect(r.stderr).not.toContain('"name"');
+  });
+
+  it('a matrix path to a .env file beside the problem quotes no more than a short cell', async () => {
+    const dir = freshDir();
+    writeFileSync(join(dir, '.env'), 'API_KEY=sk-not-a-real-secret-0123456789\n');
+    writeFileSync(join(dir, 'model.yaml'), 'id: leak\nstates: [q]\nlinear:\n  A: .env\ninitial: [1]\nspan: [0, 1]\n');
+    const out = freshDir();
+    const r = await runCli(['run', '--problem', join(dir, 'model.yaml'), '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--out', join(out, 'out')]);
+    expectRefused(r, out, join(dir, '.env'), /row 1, column 1: a 39-character cell is not a number \(matrix linear\.A\)$/);
+    expect(r.stderr).not.toContain('sk-not');
+    expect(r.stderr).not.toContain('API_KEY');
+  });
+
+  it('a matrix path that is a FIFO is refused at once, without opening it', async () => {
+    const dir = freshDir();
+    try {
+      execFileSync('mkfifo', [join(dir, 'pipe.csv')]);
+    } catch {
+      return; // no mkfifo here (not a POSIX system): nothing to check
+    }
+    writeFileSync(join(dir, 'model.yaml'), 'id: pipe\nstates: [q]\nlinear:\n  A: pipe.csv\ninitial: [1]\nspan: [0, 1]\n');
+    const out = freshDir();
+    const r = await runCli(['run', '--problem', join(dir, 'model.yaml'), '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--out', join(out, 'out')]);
+    expectRefused(r, out, `${join(dir, 'model.yaml')}:4:6`, /linear\.A: cannot read matrix file pipe\.csv \(a FIFO \(named pipe\), not a regular file\)$/);
+  });
+
+  it('a problem file that is a FIFO is refused, naming --problem', async () => {
+    const dir = freshDir();
+    try {
+      execFileSync('mkfifo', [join(dir, 'model.yaml')]);
+    } catch {
+      return;
+    }
+    const out = freshDir();
+    const r = await runCli(['run', '--problem', join(dir, 'model.yaml'), '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--out', join(out, 'out')]);
+    expectRefused(r, out, `--problem ${join(dir, 'model.yaml')}`, /expected a file, found a FIFO \(named pipe\)$/);
+  });
+
+  it(`a problem file over ${MAX_PROBLEM_FILE_BYTES} bytes is refused before it is parsed`, async () => {
+    const dir = freshDir();
+    const path = join(dir, 'huge.yaml');
+    const head = 'id: huge\nstates: [x]\nequations: { x: -x }\ninitial: { x: 1 }\nspan: [0, 1]\n';
+    writeFileSync(path, head + '#'.repeat(MAX_PROBLEM_FILE_BYTES) + '\n');
+    const out = freshDir();
+    const r = await runCli(['run', '--problem', path, '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--out', join(out, 'out')]);
+    expectRefused(r, out, path, new RegExp(`cannot read problem file: ${MAX_PROBLEM_FILE_BYTES + head.length + 1} bytes, larger than the 1 MB allowed$`));
+  });
+
+  it(`a problem file with more than ${MAX_FILE_STATES} states is refused, naming states`, async () => {
+    const dir = freshDir();
+    const path = join(dir, 'wide.yaml');
+    const names = Array.from({ length: MAX_FILE_STATES + 1 }, (_, k) => `x${k}`);
+    writeFileSync(path, `id: wide\nstates: [${names.join(', ')}]\nequations: { ${names.map((n) => `${n}: -${n}`).join(', ')} }\ninitial: { ${names.map((n) => `${n}: 1`).join(', ')} }\nspan: [0, 1]\n`);
+    const out = freshDir();
+    const r = await runCli(['run', '--problem', path, '-m', 'rk4', '-s', '10', '--no-timing', '-q', '--out', join(out, 'out')]);
+    expectRefused(r, out, `${path}:2:9`, new RegExp(`states: lists ${MAX_FILE_STATES + 1} states; a problem file may have at most ${MAX_FILE_STATES}`));
+  });
+
+  it('a file without a title loads with its id as the title', async () => {
+    const p = await loadProblemFile(join(BAD, 'valid-no-title.yaml'));
+    expect(p.title).toBe('spring-untitled');
+  });
+
+  it('a symbolic link in the corpus points outside its folder (the case above depends on it)', () => {
+    expect(readFileSync(join(BAD, 'cells-link-outside.csv'), 'utf8')).toContain('"name": "stepgauge"');
+  });
+});
+
+describe('issue 22, results validated before they are written: the failure is recorded, the sweep ends 3', () => {
+  it.each(RECORDED_FILES)('%s on %s', async (fixture, other, status, says) => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    const module = fixture.endsWith('.ts');
+    const args = module ? ['--problem', other, '-m', join(BAD, fixture)] : ['--problem', join(BAD, fixture), '-m', other];
+    const r = await runCli(['run', ...args, '--jobs', '1', '-s', '10', '--no-timing', '-q', '--no-report', '--out', out]);
+    expect(r.code, r.stderr).toBe(3);
+    // The tool's own reader accepts what was written.
+    const results = readResultsFile(join(out, 'results.json'));
+    expect(results.runs).toHaveLength(1);
+    const run = results.runs[0]!;
+    expect(run.status).toBe(status);
+    expect(run.message).toMatch(says);
+    expect(run.error).toEqual({ final: null, max: null });
+    for (const k of ['nfev', 'njev', 'nlu', 'accepted', 'rejected'] as const) expect(Number.isSafeInteger(run.counts[k]) && run.counts[k] >= 0).toBe(true);
+  });
+
+  it('a module message that starts like a formula is written to results.csv as text; numbers stay numbers', async () => {
+    const dir = freshDir();
+    const out = join(dir, 'out');
+    const r = await runCli(['run', '--problem', 'robertson', '-m', join(BAD, 'module-method-formula-message.ts'), '--jobs', '1', '-s', '10', '--no-timing', '-q', '--no-report', '--out', out]);
+    expect(r.code, r.stderr).toBe(3);
+    const csv = readFileSync(join(out, 'results.csv'), 'utf8').trimEnd().split('\n');
+    // The message is the last cell, quoted (it holds commas and quotes), with the apostrophe first.
+    expect(csv[1]!.endsWith(`,"'=HYPERLINK(""http://example.invalid"",""x"")"`)).toBe(true);
   });
 });

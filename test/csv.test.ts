@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { stringify } from 'csv-stringify/sync';
 import { parse } from 'csv-parse/sync';
-import { csvText, resultsCsv, CSV_COLUMNS } from '../src/results/csv.js';
+import { csvText, neutralised, resultsCsv, CSV_COLUMNS } from '../src/results/csv.js';
 import { runSweep } from '../src/sweep/run.js';
 
 // Characters that matter to CSV (separator, quote, both line breaks, space) mixed with plain ones.
@@ -35,5 +35,20 @@ describe('results.csv text', () => {
     expect(rows).toHaveLength(results.runs.length + 1);
     expect(rows[1]![CSV_COLUMNS.indexOf('message')]).toBe('a "quoted", two-line\nmessage');
     expect(text).toBe(stringify(rows));
+  });
+
+  it('neutralises text cells a spreadsheet would run as formulas, and leaves number cells alone (issue 22)', async () => {
+    // The leading characters and the apostrophe prefix are the OWASP "CSV Injection" page's advice.
+    for (const lead of ['=', '+', '-', '@', '\t', '\r']) expect(neutralised(`${lead}SUM(A1:A2)`)).toBe(`'${lead}SUM(A1:A2)`);
+    expect(neutralised('diverged at t = 3')).toBe('diverged at t = 3');
+    const results = await runSweep({ problem: 'robertson', method: 'rk4', steps: [10], timing: null });
+    const run = results.runs[0]!;
+    run.message = '-1.5e-3 is what the method said';
+    run.error = { final: -1.5e-3, max: -1.5e-3 };
+    const rows = parse(resultsCsv(results)) as string[][];
+    expect(rows[1]![CSV_COLUMNS.indexOf('message')]).toBe("'-1.5e-3 is what the method said");
+    // A number cell keeps its sign and reads back as the same number.
+    expect(rows[1]![CSV_COLUMNS.indexOf('error_final')]).toBe('-0.0015');
+    expect(Number(rows[1]![CSV_COLUMNS.indexOf('error_max')])).toBe(-1.5e-3);
   });
 });

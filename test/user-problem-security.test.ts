@@ -66,13 +66,19 @@ test('hostile text in a definition or invariant is refused the same way', async 
 });
 
 test('state names that look like JavaScript never reach generated code', async () => {
-  // A state called `constructor` with a hostile-looking name is only a map key; the generated
+  // A state called `toString` (a name every object inherits) is only a map key; the generated
   // function refers to it as s0. f(t, [2]) = 3 * 2 = 6 (hand computed).
   const path = join(dir, 'names.yaml');
-  writeFileSync(path, 'id: h\ntitle: H\nstates: [constructor]\nequations: { constructor: 3 * constructor }\ninitial: { constructor: 2 }\nspan: [0, 1]\n');
+  writeFileSync(path, 'id: h\ntitle: H\nstates: [toString]\nequations: { toString: 3 * toString }\ninitial: { toString: 2 }\nspan: [0, 1]\n');
   const p = await loadProblemFile(path);
   const dy = new Float64Array(1);
   p.f(0, Float64Array.of(2), dy);
   expect(dy[0]).toBe(6);
-  expect(p.f.toString()).not.toContain('constructor');
+  expect(p.f.toString()).not.toContain('toString');
+});
+
+test('prototype names (constructor, __proto__, prototype) are refused as names, naming the field (issue 22)', async () => {
+  const path = join(dir, 'proto-state.yaml');
+  writeFileSync(path, 'id: h\ntitle: H\nstates: [constructor]\nequations: { x: 1 }\ninitial: { x: 2 }\nspan: [0, 1]\n');
+  await expect(loadProblemFile(path)).rejects.toThrow(`${path}:3:10: states[0]: state name 'constructor' cannot be used (it is special to JavaScript objects)`);
 });

@@ -226,6 +226,8 @@ export type Setting =
   | { readonly steps: number };
 
 export type Status = 'ok' | 'diverged' | 'step-underflow' | 'step-limit' | 'timeout' | 'error';
+/** Every status, in the order reports list them. */
+export const STATUSES: readonly Status[] = ['ok', 'diverged', 'step-underflow', 'step-limit', 'timeout', 'error'];
 
 /** Exact, deterministic work counters; part of every result. */
 export interface Counts {

@@ -6,7 +6,7 @@ import { parseJsonText } from '../core/json-text.js';
 import { readFileSync } from 'node:fs';
 import { InputError } from '../core/errors.js';
 import { runKey, type ResultsFile, type RunResult, type RunSetting } from '../results/contract.js';
-import type { Counts, Status } from '../core/types.js';
+import { STATUSES, type Counts, type Status } from '../core/types.js';
 import { Validator } from '../results/validate.js';
 import { resultsConfiguration, type Configuration } from './configuration.js';
 
@@ -14,7 +14,6 @@ export const BASELINE_FORMAT = 'stepgauge-baseline';
 export const BASELINE_VERSION = 1;
 export const READABLE_BASELINE = `${BASELINE_FORMAT} version ${BASELINE_VERSION}`;
 
-const STATUSES: readonly Status[] = ['ok', 'diverged', 'step-underflow', 'step-limit', 'timeout', 'error'];
 
 export interface BaselineRun {
   problem: string;

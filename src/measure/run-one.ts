@@ -14,6 +14,7 @@ import { solveOptions, type RunOptions } from './run-options.js';
 import { eventRecords } from './events.js';
 import { orbitErrorInto } from './orbit-error.js';
 import type { OrbitErrorParts } from '../results/contract.js';
+import { nonFiniteComponent, unsoundSolveResult } from './result-check.js';
 
 export type { RunOptions } from './run-options.js';
 export { solveOptions } from './run-options.js';
@@ -58,6 +59,13 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   } catch (e) {
     return failedRun(problem, method, setting, `${method.id} threw: ${messageOf(e)}`);
   }
+  let unsound: string | undefined;
+  try {
+    unsound = unsoundSolveResult(result, problem.dimension);
+  } catch (e) {
+    unsound = `a solve result that cannot be read (${messageOf(e)})`;
+  }
+  if (unsound) return failedRun(problem, method, setting, `${method.id} returned ${unsound}`);
   const run: RunResult = {
     problem: problem.id,
     method: method.id,
@@ -78,7 +86,12 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   if (trace) run.trace = trace;
   const found = watch.eventsFound();
   if (found) run.events = eventRecords(problem, found);
-  if (result.status !== 'ok') return run;
+  const nonFinite = result.status === 'ok' ? nonFiniteComponent(result.yFinal) : undefined;
+  if (nonFinite) {
+    run.status = 'diverged';
+    run.message = appendMessage(run.message, `${method.id} reported ok, but its final state is not finite (y${nonFinite} at t = ${result.tFinal})`);
+  }
+  if (run.status !== 'ok') return run;
   try {
     run.roundTrip = roundTripError(problem, method, setting, result.yFinal, options);
   } catch (e) {
@@ -88,10 +101,23 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   const ref = new Float64Array(problem.dimension);
   const res = new Float64Array(problem.dimension);
   if (referenceLookup(problem).at(problem.tEnd, ref, res)) {
+    const badReference = nonFiniteComponent(ref);
+    if (badReference) {
+      run.status = 'error';
+      run.message = appendMessage(run.message, `the reference is not finite at t = ${problem.tEnd} (component ${badReference}); error not measured`);
+      return run;
+    }
     const meter = errorMeter(problem);
     const final: Figure = { value: meter.error(problem.tEnd, result.yFinal, ref, res), resolution: meter.resolution };
     const along = watch.along();
     const max = along === null || !(along.value >= final.value) ? final : along;
+    if (!Number.isFinite(final.value) || (along !== null && !Number.isFinite(along.value))) {
+      // The state and reference are finite at the end, so a non-finite error comes from along the
+      // run (a reference or state that overflowed at a check time) or from their difference.
+      run.status = 'error';
+      run.message = appendMessage(run.message, `the measured error is not finite (final ${final.value}, along the run ${along?.value}); a state or the reference overflowed`);
+      return run;
+    }
     const outputs = watch.outputs();
     const kind = watch.outputInterpolant();
     run.error = { final: final.value, max: max.value, ...(outputs ? { outputs: outputs.value } : {}) };

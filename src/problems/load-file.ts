@@ -9,6 +9,7 @@ import { expandDispersion } from './dispersion/expand.js';
 import type { Problem } from '../core/types.js';
 import { validateShape } from './file/validate-shape.js';
 import { fail } from './file/fail.js';
+import { prototypeKeyPath } from './file/prototype-keys.js';
 import { buildLinearProblem } from './linear/build.js';
 import type { UserProblem } from './user-problem.js';
 import { readTables } from './tables/file-tables.js';
@@ -42,6 +43,8 @@ async function loadChecked(path: string): Promise<LoadedProblemFile> {
   const file = await readStructuredFile(path);
   const data = file.data;
   if (!data || typeof data !== 'object' || Array.isArray(data)) fail(file, [], 'a problem file must hold a mapping of fields (id, title, states, ...)');
+  const prototypeKey = prototypeKeyPath(data);
+  if (prototypeKey) fail(file, prototypeKey, `'${String(prototypeKey.at(-1))}' cannot be used as a name or key (it is special to JavaScript objects)`);
   if ('base' in data) fail(file, ['base'], 'a file with `base` disperses a built-in problem; give it to --problem directly');
   let build: (spec: EquationFile | LinearFile) => Promise<UserProblem>;
   let spec: EquationFile | LinearFile;

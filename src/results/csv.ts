@@ -11,6 +11,15 @@ function cell(v: number | null | undefined): string {
   return v === null || v === undefined || Number.isNaN(v) ? '' : String(v);
 }
 
+/**
+ * A text cell a spreadsheet would run as a formula (it starts with =, +, -, @, a tab or a carriage
+ * return) gets a leading apostrophe, as the OWASP guidance on CSV injection recommends. Only text
+ * cells (ids, messages) pass through here; numbers such as -1.5e-3 are written as they are.
+ */
+export function neutralised(text: string): string {
+  return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
+}
+
 function driftMax(run: RunResult): number | null {
   const values = Object.values(run.drift);
   return values.length === 0 ? null : Math.max(...values);
@@ -34,8 +43,8 @@ const adaptive = (run: RunResult) => ('rtol' in run.setting ? run.setting : null
 const fixed = (run: RunResult) => ('steps' in run.setting ? run.setting : null);
 
 const COLUMNS: readonly Column[] = [
-  ['problem', (r) => r.problem],
-  ['method', (r) => r.method],
+  ['problem', (r) => neutralised(r.problem)],
+  ['method', (r) => neutralised(r.method)],
   ['rtol', (r) => cell(adaptive(r)?.rtol)],
   ['atol', (r) => { const atol = adaptive(r)?.atol; return typeof atol === 'object' ? atol.join(' ') : cell(atol); }],
   ['steps', (r) => cell(fixed(r)?.steps)],
@@ -53,7 +62,7 @@ const COLUMNS: readonly Column[] = [
   ['time_samples', (r) => cell(r.time.samples)],
   ['error_below_reference', (r) => (r.errorBelowReference ? 'true' : '')],
   ['round_trip', (r) => cell(r.roundTrip)],
-  ['message', (r) => r.message ?? ''],
+  ['message', (r) => neutralised(r.message ?? '')],
   ['orbit_position_final', (r) => cell(r.orbitError?.final?.position)],
   ['orbit_radial_final', (r) => cell(r.orbitError?.final?.radial)],
   ['orbit_in_track_final', (r) => cell(r.orbitError?.final?.inTrack)],

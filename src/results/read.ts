@@ -13,14 +13,13 @@ import {
   type RunResult,
   type RunSetting,
 } from './contract.js';
-import type { Status } from '../core/types.js';
+import { STATUSES, type Status } from '../core/types.js';
 import { stepsProblem, toleranceProblem } from '../core/setting.js';
 import { Validator } from './validate.js';
 
 /** What this reader understands; quoted in every "cannot read" message. */
 export const READABLE_RESULTS = `${RESULTS_FORMAT} version ${RESULTS_VERSION}`;
 
-const STATUSES: readonly Status[] = ['ok', 'diverged', 'step-underflow', 'step-limit', 'timeout', 'error'];
 const REFERENCE_KINDS = ['exact', 'published', 'certified'] as const;
 
 /** Reads and validates a results file; throws InputError naming the file and field. */

@@ -5,13 +5,15 @@ import type { Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { loadProblemFileWithSamples } from '../problems/load-file.js';
 import { loadDispersionOfBuiltin } from './dispersion-file.js';
+import { kindOf } from '../problems/file/read-limited.js';
 import { loadMethodModule, loadProblemModule } from '../authoring/module-loader.js';
 
 const MODULE = /\.(?:[cm]?[jt]s)$/i;
 
 function assertFile(path: string, flag: string): void {
   if (!existsSync(path)) throw new InputError(`file not found`, `${flag} ${path}`);
-  if (!statSync(path).isFile()) throw new InputError(`expected a file, found a folder`, `${flag} ${path}`);
+  const s = statSync(path);
+  if (!s.isFile()) throw new InputError(`expected a file, found ${kindOf(s)}`, `${flag} ${path}`);
 }
 
 /** The problem of a file, or one problem per sample when the file disperses one. */

@@ -193,6 +193,7 @@ async function sweepAndWrite(
     if (selected.length === 0) throw new InputError('the selection pairs no method with any problem', req.method ? '--method' : '--problem');
     progress = progressLine(selected.length, Boolean(flags.quiet || flags.json));
     journal = new Journal(outDir, { planSha256: plan.sha256, request: sweepRequestRecord(req) }, req.finished ?? []);
+    listenForSignals();
   };
   req.onWarning = (message) => process.stderr.write(`stepgauge: warning: ${message}\n`);
   if (!flags.quiet) req.onNote = (message) => process.stderr.write(`stepgauge: ${message}\n`);
@@ -210,8 +211,13 @@ async function sweepAndWrite(
     stopping = true;
     process.stderr.write('\nstepgauge: stopping after the runs in flight (press Ctrl-C again to quit now)\n');
   };
-  process.on('SIGINT', onSignal);
-  process.on('SIGTERM', onSignal);
+  // Only once the runs start: loading problem files and certifying their references happen before,
+  // in this process, and until then Ctrl-C keeps its default meaning (quit at once; nothing has
+  // been written yet), so no problem file can make those steps ignore it.
+  const listenForSignals = () => {
+    process.on('SIGINT', onSignal);
+    process.on('SIGTERM', onSignal);
+  };
   req.shouldStop = () => stopping;
   let results: ResultsFile;
   try {

@@ -16,22 +16,28 @@ import { compileJacobian, compileScalarFunction, compileTimeFunction, compileVec
 import { readCheckTimes, readErrorScale, readReferencePoints, readSpan } from './common-fields.js';
 import { constantValue, emitField, evaluateParameters } from './constants.js';
 import { definitionOrderProblem } from './definition-order.js';
-import { dependencyGraph } from './dependency-graph.js';
+import { dependencyGraph, reachedStates } from './dependency-graph.js';
 import { symbolicJacobian } from './jacobian.js';
 import { expandVectors } from './vectors.js';
 import { isolateTableCalls, type FileTables } from '../tables/file-tables.js';
 import { detectedBand } from './band.js';
-import { checkName, makeScope } from './names.js';
+import { checkName, makeScope, MAX_FILE_STATES } from './names.js';
 import { checkSeparableSplit, findSeparableSplit, type Dependencies } from './separable.js';
 
 type Expr = string | number;
 
 function keysMatchStates(site: StructuredFile, path: FieldPath, given: Record<string, Expr>, states: readonly string[], what: string): void {
+  const known = new Set(states);
   for (const key of Object.keys(given)) {
-    if (!states.includes(key)) fail(site, [...path, key], `'${key}' is not a state (states: ${states.join(', ')})`);
+    if (!known.has(key)) fail(site, [...path, key], `'${key}' is not a state (states: ${shortList(states)})`);
   }
-  const missing = states.find((s) => !(s in given));
+  const missing = states.find((s) => !Object.hasOwn(given, s));
   if (missing !== undefined) fail(site, path, `state '${missing}' has no ${what}`);
+}
+
+/** A list of names for a one-line message: the first dozen, then how many more. */
+function shortList(names: readonly string[]): string {
+  return names.length <= 12 ? names.join(', ') : `${names.slice(0, 12).join(', ')} and ${names.length - 12} more`;
 }
 
 export function buildEquationProblem(site: StructuredFile, given: EquationFile, tables?: FileTables): UserProblem {
@@ -42,6 +48,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
   const taken = new Map<string, string>();
   for (const name of tableNames) checkName(site, ['tables', name], name, taken, 'table');
   const states = spec.states;
+  if (states.length > MAX_FILE_STATES) fail(site, ['states'], `lists ${states.length} states; a problem file may have at most ${MAX_FILE_STATES} (write a larger model as a problem module)`);
   states.forEach((s, i) => checkName(site, ['states', i], s, taken, 'state'));
   const n = states.length;
   const parameters = evaluateParameters(site, spec.parameters, (path, name) => checkName(site, path, name, taken, 'parameter'));
@@ -116,7 +123,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
   const reach = equations.map((e) => graph.reachOf(e.node));
   const dependencies: Dependencies = {
     names: states,
-    deps: reach.map((r) => r.states),
+    deps: reach.map((r) => new Set(reachedStates(r))),
     usesTime: reach.map((r) => r.usesTime),
   };
   const { separable, separableReason } = separability(site, spec, dependencies);
@@ -128,7 +135,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
 
   return {
     id: spec.id,
-    title: spec.title,
+    title: spec.title ?? spec.id,
     source: spec.source ?? `user problem file ${basename(site.file)} (no source named)`,
     description: spec.description ?? describe(states, spec.equations, defSpecs),
     dimension: n,

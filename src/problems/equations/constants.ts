@@ -33,6 +33,7 @@ export function constantValue(site: Site, path: FieldPath, value: string | numbe
 export function evaluateParameters(site: Site, specs: Record<string, string | number> | undefined, checkName: (path: FieldPath, name: string) => void): Map<string, number> {
   const values = new Map<string, number>();
   const names = Object.keys(specs ?? {});
+  const position = new Map(names.map((name, k) => [name, k] as const));
   for (const name of names) {
     const path = ['parameters', name];
     checkName(path, name);
@@ -40,7 +41,7 @@ export function evaluateParameters(site: Site, specs: Record<string, string | nu
     if (typeof spec === 'string') {
       try {
         const node = parseExpression(spec);
-        const later = [...symbolsIn(node)].find((s) => names.indexOf(s) >= names.indexOf(name));
+        const later = [...symbolsIn(node)].find((s) => (position.get(s) ?? -1) >= position.get(name)!);
         if (later) fail(site, path, later === name ? `parameter '${name}' uses itself` : `parameter '${name}' uses '${later}', which is defined after it; parameters may use only earlier ones`);
       } catch (e) {
         if (e instanceof ExpressionRejected) fail(site, path, e.message);

@@ -57,9 +57,9 @@ export function symbolicJacobian(
   let work = 0;
   let chainTerms = 0;
   const plan = (node: AstNode, reach: Reach): void => {
-    const vars = reach.directStates.length + reach.directDefinitions.filter((u) => definitionReach[u]!.states.size > 0).length;
+    const vars = reach.directStates.length + reach.directDefinitions.filter((u) => definitionReach[u]!.stateCount > 0).length;
     if (vars > 0) work += derivativeCost(node) * vars;
-    for (const u of reach.directDefinitions) chainTerms += definitionReach[u]!.states.size;
+    for (const u of reach.directDefinitions) chainTerms += definitionReach[u]!.stateCount;
   };
   for (const k of needed) plan(definitions[k]!.node, definitionReach[k]!);
   equations.forEach((e, row) => plan(e, equationReach[row]!));
@@ -198,7 +198,7 @@ function neededWithReach(equationReach: readonly Reach[], definitionReach: reado
   for (const r of equationReach) for (const u of r.directDefinitions) needed[u] = true;
   for (let u = definitionReach.length - 1; u >= 0; u--) {
     if (!needed[u]) continue;
-    if (definitionReach[u]!.states.size === 0) needed[u] = false;
+    if (definitionReach[u]!.stateCount === 0) needed[u] = false;
     else for (const v of definitionReach[u]!.directDefinitions) needed[v] = true;
   }
   return needed.flatMap((yes, u) => (yes ? [u] : []));

@@ -4,11 +4,20 @@ import { RESERVED_NAMES, type FunctionRule } from '../expression/functions.js';
 import { numberLiteral, type EmitScope } from '../expression/emit.js';
 import { fail, type Site } from '../file/fail.js';
 import type { FieldPath } from '../file/read-structured.js';
+import { PROTOTYPE_NAMES } from '../file/prototype-keys.js';
 
 const IDENTIFIER = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
+/**
+ * Most states a problem file may have. Implicit methods factor a dense n x n matrix and a linear
+ * model's exact reference exponentiates one, so a larger file model would take minutes per run;
+ * larger models belong in a problem module, whose cost is its author's choice.
+ */
+export const MAX_FILE_STATES = 2000;
+
 export function checkName(site: Site, path: FieldPath, name: string, taken: Map<string, string>, kind: string): void {
   if (!IDENTIFIER.test(name)) fail(site, path, `${kind} name '${name}' must be a letter or _ followed by letters, digits or _`);
+  if (PROTOTYPE_NAMES.has(name)) fail(site, path, `${kind} name '${name}' cannot be used (it is special to JavaScript objects)`);
   if (RESERVED_NAMES.has(name)) fail(site, path, `${kind} name '${name}' is reserved (t, pi, e and function names cannot be used)`);
   const other = taken.get(name);
   if (other) fail(site, path, `${kind} name '${name}' is already used as a ${other}`);

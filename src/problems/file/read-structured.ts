@@ -1,9 +1,9 @@
 // Reads a YAML or JSON problem file into plain data plus a locator that maps a field path back to
 // the line and column it came from, so every later message can point into the file.
-import { readFile } from 'node:fs/promises';
 import { extname } from 'node:path';
-import { LineCounter, parseDocument, isNode, type Document } from 'yaml';
+import { LineCounter, parseDocument, isMap, isNode, isScalar, visit, type Document } from 'yaml';
 import { InputError } from '../../core/errors.js';
+import { MAX_PROBLEM_FILE_BYTES, readRegularFile, UnreadableFile } from './read-limited.js';
 
 export type FieldPath = readonly (string | number)[];
 
@@ -65,7 +65,9 @@ export function parseStructuredText(file: string, raw: string): StructuredFile {
     throw new InputError(`problem files must end in .yaml, .yml or .json (got '${ext || 'no extension'}')`, file);
   }
   const counter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter: counter, prettyErrors: true, uniqueKeys: true });
+  // The yaml library's own duplicate-key check compares every key with every other (minutes for
+  // a large file); duplicateKey below does the same check in linear time.
+  const doc = parseDocument(text, { lineCounter: counter, prettyErrors: true, uniqueKeys: false });
   let data: unknown;
   if (ext === '.json') {
     try {
@@ -76,13 +78,18 @@ export function parseStructuredText(file: string, raw: string): StructuredFile {
       throw new InputError(`JSON syntax error: ${message}`, at ? `${file}:${at.line}:${at.col}` : file);
     }
     // JSON.parse keeps the last of two equal keys silently; a repeated equation is a mistake.
-    const duplicate = doc.errors.find((e) => e.code === 'DUPLICATE_KEY');
-    if (duplicate) {
-      const pos = duplicate.linePos?.[0];
-      throw new InputError('a key appears twice in the same object', pos ? `${file}:${pos.line}:${pos.col}` : file);
+    const duplicate = doc.errors.length === 0 ? duplicateKey(doc) : undefined;
+    if (duplicate !== undefined) {
+      const { line, col } = counter.linePos(duplicate);
+      throw new InputError('a key appears twice in the same object', `${file}:${line}:${col}`);
     }
   } else {
     const first = doc.errors[0];
+    const duplicate = first ? undefined : duplicateKey(doc);
+    if (duplicate !== undefined) {
+      const { line, col } = counter.linePos(duplicate);
+      throw new InputError('YAML syntax error: Map keys must be unique', `${file}:${line}:${col}`);
+    }
     if (first) {
       const pos = first.linePos?.[0];
       // The location is already in front; drop the library's own " at line L, column C:".
@@ -103,12 +110,36 @@ export function parseStructuredText(file: string, raw: string): StructuredFile {
   return { file, data, locate };
 }
 
+/** Offset of the first key repeated within one mapping, or undefined. One pass, a set per map. */
+function duplicateKey(doc: Document): number | undefined {
+  let found: number | undefined;
+  visit(doc, {
+    Map(_, map) {
+      if (!isMap(map)) return undefined;
+      const seen = new Set<string>();
+      for (const pair of map.items) {
+        const key = pair.key;
+        // Keys are compared as the object property names they become (1 and '1' are one key).
+        const value = isScalar(key) ? String(key.value) : String(key);
+        if (seen.has(value)) {
+          found = isNode(key) && key.range ? key.range[0] : (map.range?.[0] ?? 0);
+          return visit.BREAK;
+        }
+        seen.add(value);
+      }
+      return undefined;
+    },
+  });
+  return found;
+}
+
 export async function readStructuredFile(file: string): Promise<StructuredFile> {
   let text: string;
   try {
-    text = await readFile(file, 'utf8');
+    text = await readRegularFile(file, MAX_PROBLEM_FILE_BYTES);
   } catch (e) {
-    throw new InputError(`cannot read problem file: ${(e as NodeJS.ErrnoException).code ?? String(e)}`, file);
+    if (e instanceof UnreadableFile) throw new InputError(`cannot read problem file: ${e.reason}`, file);
+    throw e;
   }
   return parseStructuredText(file, text);
 }

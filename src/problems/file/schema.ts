@@ -19,7 +19,8 @@ const atolScale = z.union([z.number().positive(), z.array(z.number().positive())
 
 const common = {
   id: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'must be kebab-case (lowercase letters, digits and single hyphens)'),
-  title: z.string().min(1),
+  /** The id when left out. */
+  title: z.string().min(1).optional(),
   source: z.string().optional(),
   description: z.string().optional(),
   parameters: namedExpressions.optional(),

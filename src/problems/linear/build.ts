@@ -6,10 +6,11 @@ import { canonicalJson } from '../file/canonical.js';
 import { fail } from '../file/fail.js';
 import type { StructuredFile } from '../file/read-structured.js';
 import type { LinearFile } from '../file/schema.js';
+import { PROTOTYPE_NAMES } from '../file/prototype-keys.js';
 import { readCheckTimes, readErrorScale, readReferencePoints, readSpan } from '../equations/common-fields.js';
 import { compileScalarFunction } from '../equations/codegen.js';
 import { constantValue, emitField, evaluateParameters } from '../equations/constants.js';
-import { checkName, makeScope } from '../equations/names.js';
+import { checkName, makeScope, MAX_FILE_STATES } from '../equations/names.js';
 import { findSeparableSplit } from '../equations/separable.js';
 import type { UserProblem } from '../user-problem.js';
 import { augmentedSystem, exactSolution, EXPM_FLOOR } from './exact.js';
@@ -22,6 +23,7 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
   const A = await readMatrix(site, ['linear', 'A'], spec.linear.A, absolutePath, parameters);
   if (A.rows !== A.cols) fail(site, ['linear', 'A'], `must be square (n x n, n = number of states); got ${A.rows} x ${A.cols}`);
   const n = A.rows;
+  if (n > MAX_FILE_STATES) fail(site, ['linear', 'A'], `is ${n} x ${n}; a problem file may have at most ${MAX_FILE_STATES} states (write a larger model as a problem module)`);
 
   const states = spec.states ?? Array.from({ length: n }, (_, i) => `x${i + 1}`);
   if (states.length !== n) fail(site, ['states'], `lists ${states.length} states but A is ${n} x ${n}`);
@@ -122,7 +124,7 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
 
   return {
     id: spec.id,
-    title: spec.title,
+    title: spec.title ?? spec.id,
     source: spec.source ?? `user problem file ${basename(site.file)} (no source named)`,
     description: spec.description ?? `linear state-space model x' = A x + B u, ${n} states, ${m} input(s)${C ? `, ${C.rows} output(s) y = C x + D u` : ''}`,
     dimension: n,
@@ -161,6 +163,9 @@ function linearOutputs(site: StructuredFile, spec: LinearFile, C: Matrix, D: Mat
   const p = C.rows;
   const names = spec.outputs ?? Array.from({ length: p }, (_, k) => `y${k + 1}`);
   if (names.length !== p) fail(site, ['outputs'], `names ${names.length} outputs but C has ${p} rows`);
+  names.forEach((name, k) => {
+    if (PROTOTYPE_NAMES.has(name)) fail(site, ['outputs', k], `output name '${name}' cannot be used (it is special to JavaScript objects)`);
+  });
   const c = C.data;
   const d = D?.data;
   const fn = (t: number, y: Float64Array, out: Float64Array): void => {

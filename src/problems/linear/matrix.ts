@@ -1,14 +1,13 @@
 // Matrices of a linear model: inline rows (numbers or parameter expressions) or a CSV file of
 // numbers relative to the problem file. Cells are checked one by one so a message can name the
 // CSV row and column.
-import { readFile } from 'node:fs/promises';
-import { resolve, dirname } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { InputError } from '../../core/errors.js';
 import { constantValue } from '../equations/constants.js';
 import { fail, type Site } from '../file/fail.js';
 import type { FieldPath } from '../file/read-structured.js';
 import type { MatrixSpec } from '../file/schema.js';
+import { MAX_MATRIX_FILE_BYTES, readRegularFile, referencedFile, UnreadableFile } from '../file/read-limited.js';
 
 export interface Matrix {
   readonly rows: number;
@@ -39,18 +38,20 @@ function inlineRows(site: Site, path: FieldPath, spec: readonly (readonly (strin
 
 /** Rows of numbers from a CSV file beside the problem file (shared by matrices and tables). */
 export async function readCsvRows(site: Site, path: FieldPath, relative: string, problemFile: string): Promise<number[][]> {
-  const csvPath = resolve(dirname(problemFile), relative);
+  let csvPath: string;
   let text: string;
   try {
-    text = await readFile(csvPath, 'utf8');
+    csvPath = await referencedFile(problemFile, relative);
+    text = await readRegularFile(csvPath, MAX_MATRIX_FILE_BYTES);
   } catch (e) {
-    fail(site, path, `cannot read matrix file ${relative} (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+    if (e instanceof UnreadableFile) fail(site, path, `cannot read matrix file ${shownPath(relative)} (${e.reason})`);
+    throw e;
   }
   let records: string[][];
   try {
     records = parseCsv(text, { bom: true, trim: true, skip_empty_lines: true, relax_column_count: true, comment: '#' }) as string[][];
   } catch (e) {
-    throw new InputError(`CSV syntax error for ${pathText(path)}: ${e instanceof Error ? e.message : String(e)}`, csvPath);
+    throw new InputError(`CSV syntax error for ${pathText(path)}: ${csvReason(e)}`, csvPath);
   }
   const width = records[0]?.length ?? 0;
   return records.map((record, i) => {
@@ -59,15 +60,36 @@ export async function readCsvRows(site: Site, path: FieldPath, relative: string,
     }
     return record.map((cell, j) => {
       if (!NUMBER_CELL.test(cell)) {
-        throw new InputError(`row ${i + 1}, column ${j + 1}: '${cell}' is not a number (matrix ${pathText(path)})`, csvPath);
+        throw new InputError(`row ${i + 1}, column ${j + 1}: ${shortCell(cell)} is not a number (matrix ${pathText(path)})`, csvPath);
       }
       const value = Number(cell);
       if (!Number.isFinite(value)) {
-        throw new InputError(`row ${i + 1}, column ${j + 1}: '${cell}' is too large for a double (it reads as ${value}) (matrix ${pathText(path)})`, csvPath);
+        throw new InputError(`row ${i + 1}, column ${j + 1}: ${shortCell(cell)} is too large for a double (it reads as ${value}) (matrix ${pathText(path)})`, csvPath);
       }
       return value;
     });
   });
+}
+
+/**
+ * A cell for a message: quoted when short and printable, else only its length. A file named as a
+ * matrix may be anything (a key file, say), so messages never carry more of it than one short cell.
+ */
+function shortCell(cell: string, max = 16): string {
+  return cell.length <= max && /^[\x20-\x7e]*$/.test(cell) ? `'${cell}'` : `a ${cell.length}-character cell`;
+}
+
+/** The path as the file wrote it, when short and printable. */
+function shownPath(path: string): string {
+  return path.length <= 120 && /^[\x20-\x7e]*$/.test(path) ? path : `(a path of ${path.length} characters)`;
+}
+
+/** csv-parse's reason without the text it quotes ("Quote Not Closed", "Invalid Opening Quote"), and the line. */
+function csvReason(e: unknown): string {
+  const message = e instanceof Error ? e.message : String(e);
+  const reason = (message.split(':')[0] ?? message).slice(0, 60);
+  const line = (e as { lines?: unknown }).lines;
+  return typeof line === 'number' ? `${reason} (line ${line})` : reason;
 }
 
 function pathText(path: FieldPath): string {
