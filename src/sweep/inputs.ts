@@ -3,7 +3,7 @@
 // results.json, and compared by `run --resume`, so a resumed sweep never mixes runs of an old and
 // a new model (or integrator, or stepgauge) under one results file.
 import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import { InputError } from '../core/errors.js';
 import { packageVersion } from '../core/version.js';
 import { fileEntries } from './resolve.js';
@@ -16,6 +16,9 @@ export interface SweepInputs {
 
 function fileSha256(path: string): string | null {
   try {
+    // Only a regular file is read: reading a FIFO would block this process for good (issue 22);
+    // the loader then says what the path is.
+    if (!statSync(path).isFile()) return null;
     return createHash('sha256').update(readFileSync(path)).digest('hex');
   } catch {
     return null;
