@@ -189,6 +189,8 @@ export interface Problem {
   readonly separableReason?: string;
   /** Units declared by the problem (shown on plot axes; nothing is converted). */
   readonly units?: ProblemUnits;
+  /** Named numeric parameters of the model, sent to external programs (empty when none). */
+  readonly parameters?: Readonly<Record<string, number>>;
   /** Canonical text of the definition, hashed (SHA-256) so auditors can tell two problems apart. */
   readonly definition: string;
   /**
@@ -273,6 +275,25 @@ export interface SolveResult {
   counts: Counts;
   /** Step size actually used, for fixed-step methods. */
   h?: number;
+  /** False when the method does not report its work (an external program without counts). */
+  countsReported?: boolean;
+  /** Number of states the method reported along the way (external programs), for the error note. */
+  reportedPoints?: number;
+  /** SHA-256 of everything the method reported (external programs), to find settings that change nothing. */
+  outputSha256?: string;
+}
+
+/** How a solve's time was obtained when the method times itself (external programs). */
+export type TimeBasis = 'reported' | 'wall-minus-start-up';
+
+/** What an external program's method record says about the program (kept in results.json). */
+export interface ProgramRecord {
+  /** The program file, as given on the command line. */
+  readonly file: string;
+  readonly sha256: string;
+  readonly argv: readonly string[];
+  readonly protocol: 'once' | 'lines';
+  readonly settings: 'steps' | 'tolerance';
 }
 
 export interface Method {
@@ -306,6 +327,15 @@ export interface Method {
    * actually controls to; atol is scaled by the same ratio. Recorded with every run.
    */
   readonly effectiveRtol?: (rtol: number) => number;
+  /** Set for a user's own program run through the program protocol (family `external`). */
+  readonly program?: ProgramRecord;
+  /** False when the method cannot be run backwards in time (no round-trip error). */
+  readonly roundTrip?: boolean;
+  /**
+   * For methods that time themselves (external programs): the seconds of one solve at this
+   * setting, and how they were obtained; null when there are none. Replaces repeated timing.
+   */
+  solveSeconds?(problem: Problem, setting: Setting, options: SolveOptions): { seconds: number; basis: TimeBasis } | null;
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult;
 }
 

@@ -33,7 +33,7 @@ export function reversedProblem(problem: Problem, yEnd: ArrayLike<number>): Prob
 }
 
 export function roundTripError(problem: Problem, method: Method, setting: Setting, yEnd: ArrayLike<number>, options: RunOptions): number | null {
-  if (problem.stiff) return null;
+  if (problem.stiff || method.roundTrip === false) return null;
   const back = reversedProblem(problem, yEnd);
   const r = method.solve(back, setting, { maxSteps: options.maxSteps, ...(options.controller ? { controller: options.controller } : {}) });
   if (r.status !== 'ok') return null;

@@ -82,6 +82,8 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   if (result.message) run.message = result.message;
   const effective = effectiveTolerance(method, setting);
   if (effective) run.effectiveTolerance = effective;
+  if (result.countsReported === false) run.countsReported = false;
+  if (result.outputSha256 !== undefined) run.outputSha256 = result.outputSha256;
   const trace = watch.trace();
   if (trace) run.trace = trace;
   const found = watch.eventsFound();
@@ -129,6 +131,13 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
     if (isUnresolved(outputs)) unresolved.push('outputs');
     if (unresolved.length > 0) run.unresolved = unresolved;
     if (unresolved.includes('final')) run.errorBelowReference = true;
+    const reported = result.reportedPoints;
+    if (reported !== undefined && watch.comparedPoints() < reported) {
+      run.message = appendMessage(
+        run.message,
+        `error checked at ${watch.comparedPoints()} of ${reported} reported times (the reference has no value at the others)`,
+      );
+    }
     if (problem.orbit) run.orbitError = orbitRecord(problem.orbit.unit, result.yFinal, ref, problem, watch.orbitAlong());
   } else if (problem.reference.untrusted) {
     run.message = appendMessage(run.message, `${problem.reference.untrusted}; error not measured`);

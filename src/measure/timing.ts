@@ -1,7 +1,7 @@
 // Wall time of a solve: tinybench median over repeated solves within a time budget per run.
 // Timed solves run without observers, so the clock sees only the integrator and the model.
 import { Bench } from 'tinybench';
-import type { Method, Problem, Setting } from '../core/types.js';
+import type { Method, Problem, Setting, TimeBasis } from '../core/types.js';
 import { solveOptions, type RunOptions } from './run-options.js';
 
 import type { TimingOptions } from '../core/defaults.js';
@@ -30,6 +30,8 @@ export interface TimingResult {
   samples: number;
   /** 95% relative margin of error of the median, percent. */
   rmePercent: number;
+  /** Set for methods that time themselves (external programs). */
+  basis?: TimeBasis;
 }
 
 export async function timeRun(
@@ -39,6 +41,11 @@ export async function timeRun(
   runOptions: RunOptions,
   timing: TimingOptions,
 ): Promise<TimingResult | null> {
+  if (method.solveSeconds) {
+    // A program times itself (or is timed by its process): one solve, its own figure.
+    const own = method.solveSeconds(problem, setting, solveOptions(problem, runOptions));
+    return own ? { medianSeconds: own.seconds, spreadSeconds: 0, samples: 1, rmePercent: Number.NaN, basis: own.basis } : null;
+  }
   const solve = () => {
     method.solve(problem, setting, solveOptions(problem, runOptions));
   };

@@ -64,6 +64,7 @@ export function uniformProblem(p: Problem): Problem {
     linear: p.linear,
     separableReason: p.separableReason,
     units: p.units,
+    parameters: p.parameters,
     definition: p.definition,
     exactFromState: p.exactFromState,
     dispersion: p.dispersion,

@@ -1,6 +1,6 @@
 // The results contract (format version 1): the only thing report, gate and merge read.
 // Field meanings are fixed by the design document; new fields may be added, never repurposed.
-import type { Counts, ReferenceKind, Status } from '../core/types.js';
+import type { Counts, ReferenceKind, Status, TimeBasis } from '../core/types.js';
 
 export const RESULTS_FORMAT = 'stepgauge-results';
 export const RESULTS_VERSION = 1;
@@ -72,7 +72,15 @@ export interface RunResult {
   outputInterpolant?: string;
   drift: Record<string, number>;
   counts: Counts;
-  time: { medianSeconds: number | null; samples: number; spreadSeconds?: number | null; rmePercent?: number | null; calibrationRatio?: number | null };
+  time: {
+    medianSeconds: number | null;
+    samples: number;
+    spreadSeconds?: number | null;
+    rmePercent?: number | null;
+    calibrationRatio?: number | null;
+    /** External programs: 'reported' (the program's own solve time) or 'wall-minus-start-up'. */
+    basis?: TimeBasis;
+  };
   tFinal: number;
   yFinal: number[];
   /** True when the final error is within reach of what the reference can resolve (see unresolved). */
@@ -91,6 +99,12 @@ export interface RunResult {
   orbitError?: OrbitErrorRecord;
   /** Event crossings located in the run, by event name (problems that declare events). */
   events?: Record<string, EventRecord>;
+  /** False when the method did not report its work (an external program): counts are not figures. */
+  countsReported?: boolean;
+  /** External programs: SHA-256 of the reported times and states (settings that change nothing). */
+  outputSha256?: string;
+  /** External programs: set when another setting gave exactly the same reported output. */
+  settingIgnored?: boolean;
 }
 
 export interface ProblemRecord {

@@ -36,6 +36,9 @@ function eventTimeMax(run: RunResult): number | null {
   return values.length === 0 ? null : Math.max(...values);
 }
 
+/** A count, or an empty cell when the method did not report its work (an external program). */
+const count = (r: RunResult, v: number): string => (r.countsReported === false ? '' : cell(v));
+
 /** One column: its header and how a run fills it. Defined once, so header and rows cannot drift apart. */
 type Column = readonly [name: string, value: (run: RunResult) => string];
 
@@ -53,11 +56,11 @@ const COLUMNS: readonly Column[] = [
   ['error_final', (r) => cell(r.error.final)],
   ['error_max', (r) => cell(r.error.max)],
   ['drift_max', (r) => cell(driftMax(r))],
-  ['nfev', (r) => cell(r.counts.nfev)],
-  ['njev', (r) => cell(r.counts.njev)],
-  ['nlu', (r) => cell(r.counts.nlu)],
-  ['accepted', (r) => cell(r.counts.accepted)],
-  ['rejected', (r) => cell(r.counts.rejected)],
+  ['nfev', (r) => count(r, r.counts.nfev)],
+  ['njev', (r) => count(r, r.counts.njev)],
+  ['nlu', (r) => count(r, r.counts.nlu)],
+  ['accepted', (r) => count(r, r.counts.accepted)],
+  ['rejected', (r) => count(r, r.counts.rejected)],
   ['time_median_s', (r) => cell(r.time.medianSeconds)],
   ['time_samples', (r) => cell(r.time.samples)],
   ['error_below_reference', (r) => (r.errorBelowReference ? 'true' : '')],

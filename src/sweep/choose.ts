@@ -250,11 +250,11 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
     const confirmed = measureRun(problem, m, search.setting, o);
     const achieved = errorOf(confirmed, o.measure);
     const ok = meets(confirmed, inner, problem, m, search.setting);
-    let cost: number | null = confirmed.counts.nfev;
+    let cost: number | null = confirmed.countsReported === false ? null : confirmed.counts.nfev;
     let timeMarginPercent: number | null = null;
     if (o.cost === 'time' && ok) {
       const t = await timeRun(problem, m, search.setting, o, o.timing);
-      if (t) confirmed.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent };
+      if (t) confirmed.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent, ...(t.basis ? { basis: t.basis } : {}) };
       cost = t ? t.medianSeconds : null;
       timeMarginPercent = t ? t.rmePercent : null;
     }

@@ -43,7 +43,7 @@ export async function executeRun(
   }
   if (options.timing && run.status === 'ok') {
     const t = await timeRun(problem, method, planned.setting, options, options.timing);
-    if (t) run.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent };
+    if (t) run.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent, ...(t.basis ? { basis: t.basis } : {}) };
   }
   return run;
 }

@@ -68,10 +68,14 @@ export function pairingGap(problem: Problem, method: Method): string | null {
   return null;
 }
 
+/** Order assumed for planning when a method states none (an external program). */
+const UNSTATED_ORDER = 4;
+
 function costOf(method: Method, setting: Setting): number {
-  if ('steps' in setting) return setting.steps * Math.max(1, method.order);
-  const growth = method.stepGrowth ?? 1 / Math.max(1, method.order + 1);
-  return 10 * Math.pow(1 / setting.rtol, growth) * Math.max(1, method.order);
+  const order = Number.isFinite(method.order) ? method.order : UNSTATED_ORDER;
+  if ('steps' in setting) return setting.steps * Math.max(1, order);
+  const growth = method.stepGrowth ?? 1 / Math.max(1, order + 1);
+  return 10 * Math.pow(1 / setting.rtol, growth) * Math.max(1, order);
 }
 
 export function planSweep(req: PlanRequest): SweepPlan {

@@ -75,6 +75,7 @@ export function problemRecord(p: Problem, stiffness?: ReadonlyMap<string, number
 export function methodRecord(m: Method): Record<string, unknown> {
   const rec: Record<string, unknown> = { id: m.id, name: m.name, family: m.family, order: m.order, source: m.source, adaptive: m.adaptive, stiff: m.stiff };
   if (m.embeddedOrder !== undefined) rec.embeddedOrder = m.embeddedOrder;
+  if (m.program) rec.program = m.program;
   // A fingerprint of what the method is and does: its record and its solve function's text
   // (so a baseline can tell that a method's code changed between two sweeps).
   rec.sha256 = sha256(`${JSON.stringify(rec)}\n${m.solve.toString()}`);

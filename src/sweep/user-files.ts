@@ -31,6 +31,11 @@ export async function loadUserProblem(path: string): Promise<Problem | Problem[]
 
 export async function loadUserMethod(path: string): Promise<Method> {
   assertFile(path, '--method');
-  if (!MODULE.test(path)) throw new InputError(`a method is a module; expected a .ts or .js file`, `--method ${path}`);
+  if (/\.ya?ml$/i.test(path)) {
+    const { loadProgramFile } = await import('../methods/program/file.js');
+    const { programMethod } = await import('../methods/program/method.js');
+    return programMethod(loadProgramFile(path));
+  }
+  if (!MODULE.test(path)) throw new InputError(`a method is a module (.ts or .js) or a program file (.yaml)`, `--method ${path}`);
   return loadMethodModule(path);
 }

@@ -163,6 +163,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     ...(events.length ? { events } : {}),
     ...(orbit ? { orbit } : {}),
     ...(spec.units ? { units: readUnits(site, spec.units, states, outputNames) } : {}),
+    parameters: Object.fromEntries(parameters),
     definition: canonicalJson(tables ? { file: site.data, tableValues: tables.canonical } : site.data),
     origin: site.file,
   };
