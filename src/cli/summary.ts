@@ -40,12 +40,16 @@ export function summaryText(results: ResultsFile): string {
         String(mr.filter((r) => r.status === 'ok').length),
         best ? sig3(best.error.final) + (best.errorBelowReference ? ' (below ref.)' : '') : '—',
         setting,
-        best ? String(best.counts.nfev) : '—',
+        best ? (best.countsReported === false ? 'not reported' : String(best.counts.nfev)) : '—',
         best && best.time.medianSeconds !== null ? `${sig3(best.time.medianSeconds * 1000)} ms` : '—',
         statusCounts(mr) || '—',
       ]);
     }
     lines.push(table(rows));
+    for (const [method, mr] of byMethod) {
+      const same = mr.filter((r) => r.settingIgnored);
+      if (same.length > 0) lines.push(`finding: ${method} reported the same trajectory at ${same.length} settings; its setting changes nothing (see the runs' messages)`);
+    }
   }
   if (samples.size > 0) lines.push(dispersionText(results));
   const failed = results.runs.filter((r) => r.status !== 'ok').length;

@@ -85,6 +85,7 @@ function summaryHtml(m: ReportModel): string {
   const s = m.summary;
   const failures = s.failures.length === 0 ? 'none' : s.failures.map(([st, n]) => `${h(st)}: ${n}`).join(', ');
   const flags: string[] = [];
+  for (const f of s.findings) flags.push(`<p class="flag">Finding: ${h(f)}</p>`);
   if (m.results.interrupted) flags.push('<p class="flag">This sweep was interrupted: not all planned runs finished.</p>');
   if (m.results.shard) {
     const sh = m.results.shard;

@@ -34,6 +34,7 @@ export function renderMarkdown(m: ReportModel): string {
   if (m.results.shard) out.push(`**This file is shard ${m.results.shard.index} of ${m.results.shard.count} of a sweep, not the whole sweep.**`, '');
   const failures = s.failures.length === 0 ? 'none' : s.failures.map(([st, n]) => `${e(st)}: ${n}`).join(', ');
   out.push(`- problems: ${s.problems}`, `- methods: ${s.methods}`, `- runs: ${s.runs} (ok: ${s.ok})`, `- failed: ${s.runs - s.ok} (${failures})`, '');
+  for (const f of s.findings) out.push(`**Finding:** ${e(f)}`, '');
   out.push('### Cheapest method reaching each error level', '');
   if (s.levels.length === 0) out.push('No ok run has a measured error, so there is no level to summarise.', '');
   else {

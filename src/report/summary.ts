@@ -43,6 +43,27 @@ export interface Summary {
   best: { problem: string; levels: BestAtLevel[] }[];
   /** True when the levels are the user's, not derived. */
   userLevels: boolean;
+  /** Plain findings the reader must not miss (a program whose setting changes nothing). */
+  findings: string[];
+}
+
+function settingWord(r: RunResult): string {
+  return 'rtol' in r.setting ? `rtol ${r.setting.rtol}` : `${r.setting.steps} steps`;
+}
+
+/** One finding per (problem, method) whose program reported the same trajectory at several settings. */
+function unchangedSettingFindings(results: ResultsFile): string[] {
+  const out: string[] = [];
+  const groups = new Map<string, RunResult[]>();
+  for (const r of results.runs) {
+    if (!r.settingIgnored) continue;
+    const key = `${r.method} on ${r.problem}`;
+    groups.set(key, [...(groups.get(key) ?? []), r]);
+  }
+  for (const [key, runs] of groups) {
+    out.push(`${key}: the program reported exactly the same trajectory at ${runs.map(settingWord).join(', ')}; changing its setting changed nothing, so these runs measure one solve, not a sweep.`);
+  }
+  return out;
 }
 
 /** Only an error the reference confirms reaches a level. */
@@ -80,7 +101,7 @@ export function summarize(results: ResultsFile, levels?: readonly number[]): Sum
       problem,
       levels: own.map((level) => {
         const hit = runs.filter((r) => reaches(r, level));
-        const byNfev = argmin(hit, (r) => r.counts.nfev, rank);
+        const byNfev = argmin(hit, (r) => (r.countsReported === false ? null : r.counts.nfev), rank);
         const byTime = argmin(hit, (r) => r.time.medianSeconds, rank);
         return { level, byNfev: byNfev && { run: byNfev }, byTime: byTime && { run: byTime } };
       }),
@@ -95,6 +116,7 @@ export function summarize(results: ResultsFile, levels?: readonly number[]): Sum
     levels: [...new Set(best.flatMap((b) => b.levels.map((l) => l.level)))].sort((a, b) => b - a),
     best,
     userLevels: levels !== undefined,
+    findings: unchangedSettingFindings(results),
   };
 }
 

@@ -36,6 +36,11 @@ export function maxDrift(run: RunResult): number | null {
   return Math.max(...values);
 }
 
+/** A count, or "not reported" for a program that reports no work. */
+function countCell(r: RunResult, v: number): Cell {
+  return r.countsReported === false ? { text: 'not reported', sort: null } : num(v, integer);
+}
+
 export const COLUMNS: readonly Column[] = [
   { key: 'method', header: 'method', numeric: false, cell: (r, m) => ({ text: m.get(r.method)?.name ?? r.method, sort: m.get(r.method)?.name ?? r.method }) },
   { key: 'setting', header: 'setting', numeric: true, cell: (r) => ({ text: settingLabel(r.setting) + (r.effectiveTolerance ? ` (controls to rtol ${sig3(r.effectiveTolerance.rtol)})` : ''), sort: tightness(r.setting) }) },
@@ -44,11 +49,11 @@ export const COLUMNS: readonly Column[] = [
   { key: 'errorMax', header: 'error.max', numeric: true, cell: (r) => errorCell(r, 'max') },
   { key: 'errorOutputs', header: 'error.outputs', numeric: true, cell: (r) => errorCell(r, 'outputs') },
   { key: 'drift', header: 'max drift', numeric: true, cell: (r) => num(maxDrift(r)) },
-  { key: 'nfev', header: 'nfev', numeric: true, cell: (r) => num(r.counts.nfev, integer) },
-  { key: 'njev', header: 'njev', numeric: true, cell: (r) => num(r.counts.njev, integer) },
-  { key: 'nlu', header: 'nlu', numeric: true, cell: (r) => num(r.counts.nlu, integer) },
-  { key: 'accepted', header: 'accepted', numeric: true, cell: (r) => num(r.counts.accepted, integer) },
-  { key: 'rejected', header: 'rejected', numeric: true, cell: (r) => num(r.counts.rejected, integer) },
+  { key: 'nfev', header: 'nfev', numeric: true, cell: (r) => countCell(r, r.counts.nfev) },
+  { key: 'njev', header: 'njev', numeric: true, cell: (r) => countCell(r, r.counts.njev) },
+  { key: 'nlu', header: 'nlu', numeric: true, cell: (r) => countCell(r, r.counts.nlu) },
+  { key: 'accepted', header: 'accepted', numeric: true, cell: (r) => countCell(r, r.counts.accepted) },
+  { key: 'rejected', header: 'rejected', numeric: true, cell: (r) => countCell(r, r.counts.rejected) },
   { key: 'time', header: 'median time [s]', numeric: true, cell: (r) => num(r.time.medianSeconds) },
   { key: 'message', header: 'message', numeric: false, cell: (r) => ({ text: r.message ?? '', sort: r.message ?? null }) },
 ];

@@ -11,6 +11,7 @@ import { executeRun, type SweepOptions } from './execute.js';
 import { failedRun } from '../measure/run-one.js';
 import type { SweepInputs } from './inputs.js';
 import { messageOf } from '../core/errors.js';
+import { markUnchangedSettings } from './unchanged-settings.js';
 import { planSweep, type PlannedRun, type SweepPlan } from './plan.js';
 import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
 import { CERTIFY_TIMEOUT_RUNS, certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
@@ -132,7 +133,7 @@ export async function assembleResults(input: AssembleInput): Promise<ResultsFile
     version: RESULTS_VERSION,
     createdAt: new Date().toISOString(),
     environment,
-    runs: [...input.runs].sort((a, b) => (a.planIndex ?? 0) - (b.planIndex ?? 0)),
+    runs: markUnchangedSettings([...input.runs].sort((a, b) => (a.planIndex ?? 0) - (b.planIndex ?? 0))),
     problems: input.problems.filter((p) => usedProblems.has(p.id) || input.plan.runs.length === 0).map((p) => problemRecord(p, input.stiffness)),
     methods: input.methods.map(methodRecord),
     plan: { sha256: input.plan.sha256, runs: input.plan.runs.length },

@@ -9,7 +9,8 @@ import type { PlotOutcome } from './spec.js';
 
 const ERROR: Measure = { label: 'error.final', get: (r) => r.error.final, figure: 'final' };
 const TIME: Measure = { label: 'time.medianSeconds', get: (r) => r.time.medianSeconds };
-const NFEV: Measure = { label: 'counts.nfev', get: (r) => r.counts.nfev };
+// A program that reports no counts has no point on the evaluation plot (its 0 is not a figure).
+const NFEV: Measure = { label: 'counts.nfev', get: (r) => (r.countsReported === false ? null : r.counts.nfev) };
 
 export function workPrecisionPlots(ctx: PlotContext, problem: string): PlotOutcome[] {
   const runs = runsOf(ctx, problem);
