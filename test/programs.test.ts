@@ -10,7 +10,7 @@ import { runSweep } from '../src/sweep/run.js';
 import { loadProgramFile } from '../src/methods/program/file.js';
 import { InputError } from '../src/core/errors.js';
 import { summaryText } from '../src/cli/summary.js';
-import { resultsCsv } from '../src/report/csv.js';
+import { resultsCsv } from '../src/results/csv.js';
 import { summarize } from '../src/report/summary.js';
 
 const EXAMPLES = resolve('examples/programs');
@@ -60,7 +60,7 @@ describe('the Node example program', () => {
         setting: { rtol, atol: rtol },
         outputTimes: [10800, 21600, 32400, 43200, 54000, 64800, 75600, 86400],
       };
-      const out = spawnSync('node', [join(EXAMPLES, 'node/propagate.mjs')], { input: JSON.stringify(request), encoding: 'utf8' });
+      const out = spawnSync('node', [join(EXAMPLES, 'node/propagate.mjs')], { input: JSON.stringify(request), encoding: 'utf8', maxBuffer: 1 << 28 });
       const response = JSON.parse(out.stdout) as { times: number[]; states: number[][]; counts: Record<string, number> };
       const errors = response.times.map((t, k) => Math.max(...orbit(t).map((v, i) => Math.abs(response.states[k]![i]! - v))));
       const final = errors.at(-1)!;

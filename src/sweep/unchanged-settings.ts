@@ -1,7 +1,7 @@
 // A setting that changes nothing is a finding: when an external program reports exactly the same
 // trajectory at different settings, it most likely never reads its tolerance or step argument
 // (a silent wrapper bug). Such runs are marked and say so in their message.
-import type { RunResult } from '../core/results.js';
+import type { RunResult } from '../results/contract.js';
 
 function settingText(r: RunResult): string {
   const s = r.setting;
