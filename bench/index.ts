@@ -141,6 +141,12 @@ async function main(): Promise<void> {
     out.stiff = rows;
     show(table('stiff: implicit methods on Robertson', rows, Object.keys(rows[0] ?? {})));
   }
+  const programs = await optional<Row[]>('programs.js', 'runProgramsBench');
+  if (programs) {
+    const rows = await programs();
+    out.programs = rows;
+    show(table('programs: external-program protocol overhead', rows, ['row', 'runs', 'medianMs', 'seconds', 'ratio', 'target', 'met', 'note']));
+  }
   const heap = await optional<Row[]>('heap.js', 'runHeapBench');
   if (heap) {
     const rows = await heap();

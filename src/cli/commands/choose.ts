@@ -50,6 +50,12 @@ function timeText(c: Candidate): string {
   return m == null ? `${sig3(t * 1000)} ms` : `${sig3(t * 1000)} ms ±${sig3(m)}%`;
 }
 
+/** A candidate's count, or "not reported" for a program that reports no work. */
+function countText(c: Candidate, key: 'nfev' | 'njev' | 'nlu'): string {
+  if (!c.run) return '—';
+  return c.run.countsReported === false ? 'not reported' : String(c.run.counts[key]);
+}
+
 export function choiceText(choice: Choice): string {
   const rows = [['rank', 'method', 'setting', 'achieved error', 'margin', 'nfev', 'njev', 'nlu', 'time', 'note']];
   for (const c of choice.candidates) {
@@ -60,9 +66,9 @@ export function choiceText(choice: Choice): string {
       c.met ? settingText(c) : '—',
       sig3(c.achieved),
       c.margin === null ? '—' : `${c.margin.toPrecision(3)}x`,
-      c.run ? String(c.run.counts.nfev) : '—',
-      c.run ? String(c.run.counts.njev) : '—',
-      c.run ? String(c.run.counts.nlu) : '—',
+      countText(c, 'nfev'),
+      countText(c, 'njev'),
+      countText(c, 'nlu'),
       timeText(c),
       [...notes, stepCostText(c)].filter(Boolean).join('; '),
     ]);
