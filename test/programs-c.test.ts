@@ -4,7 +4,7 @@
 import { spawnSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runSweep } from '../src/sweep/run.js';
 import { resolveMethods, resolveProblems } from '../src/sweep/resolve.js';
@@ -76,6 +76,29 @@ describe.skipIf(!compiler)('the C fixed-step RK4 program', () => {
     const at = (n: number) => measureRun(problem, rk4, { steps: n }, { maxSteps: 1e6 }).error.final!;
     expect(at(steps)).toBeLessThanOrEqual(target);
     expect(at(steps - 1)).toBeGreaterThan(target);
+  });
+
+  it('is checked against a reference trajectory at every reported time the trajectory has', async () => {
+    const results = await runSweep({ problem: resolve('examples/programs/leo-trajectory-reference.yaml'), method: good, steps: [8640], jobs: 1 });
+    const run = results.runs[0]!;
+    expect(run.status).toBe('ok');
+    // 10 s steps land on every 600 s row of leo-reference.csv: 144 times after t0.
+    expect(run.message).toMatch(/error checked at 144 of 8641 reported times/);
+    expect(results.problems[0]!.reference).toMatchObject({ kind: 'trajectory', digits: 15 });
+    // Recomputed from the program's own CSV and the circular-orbit formula at those times.
+    const csv = spawnSync(join(dirname(good), 'build', 'leo-rk4'), ['--steps', '8640'], { encoding: 'utf8', maxBuffer: 1 << 28 }).stdout.trim().split('\n').slice(1);
+    const mu = 398600.4418;
+    const r = 6778.137;
+    const n = Math.sqrt(mu / r ** 3);
+    let max = 0;
+    for (const line of csv) {
+      const [t, ...y] = line.split(',').map(Number);
+      if (t! <= 0 || Math.abs(t! / 600 - Math.round(t! / 600)) > 1e-9) continue;
+      const exact = [r * Math.cos(n * t!), r * Math.sin(n * t!), -r * n * Math.sin(n * t!), r * n * Math.cos(n * t!)];
+      max = Math.max(max, ...exact.map((v, i) => Math.abs(y[i]! - v)));
+    }
+    // The table carries 17 digits of positions near 6778 km: agreement to 1e-9 relative.
+    expect(Math.abs(run.error.max! - max) / max).toBeLessThan(1e-9);
   });
 
   it('check fails on a degraded build and passes on the unchanged one', () => {

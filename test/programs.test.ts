@@ -87,6 +87,34 @@ describe('the Node example program', () => {
   });
 });
 
+describe('models that only the program has', () => {
+  it('a self-reference is the program at rtol 1e-12, marked in the runs, the problem record and the report', async () => {
+    const model = programFile('oscillator-model.yaml', 'id: oscillator-model\ntitle: oscillator, model in the program\nmodel: program\nstates: [q, p]\ninitial: { q: 1, p: 0 }\nspan: [0, 20]\nerror: { scale: absolute }\nreference: { self: true }\n');
+    const results = await sweep(model, faulty('ok'), [1e-4, 1e-6]);
+    expect(results.runs.map((r) => r.status)).toEqual(['ok', 'ok']);
+    const run = results.runs[0]!;
+    expect(run.selfReference).toMatch(/faulty-ok at rtol 1e-12; trust 1\.80e-10 \(its disagreement with rtol 1e-11/);
+    expect(run.message).toMatch(/cannot reveal a model error or a bias shared by every setting/);
+    expect(results.problems[0]!.reference.kind).toBe('self');
+    expect(summarize(results).findings.join(' ')).toMatch(/oscillator-model is measured against a self-reference/);
+    // faulty.mjs reports q = cos(wt) + rtol * t: against itself at rtol 1e-12 the error at
+    // t = 20 is (rtol - 1e-12) * 20, whatever the model.
+    for (const r of results.runs) {
+      const rtol = (r.setting as { rtol: number }).rtol;
+      expect(Math.abs(r.error.final! - (rtol - 1e-12) * 20) / ((rtol - 1e-12) * 20)).toBeLessThan(1e-9);
+    }
+    // A built-in method cannot run a model it does not have: the pairing is refused.
+    const none = await sweep(model, 'rk4', [1e-6]);
+    expect(none.runs).toHaveLength(0);
+    expect(JSON.stringify(none.skipped)).toMatch(/oscillator-model has no equations .*only external programs can run it/);
+  });
+
+  it('a program-model file without a usable reference is bad input naming the field', async () => {
+    const file = programFile('model.yaml', 'id: m\ntitle: m\nmodel: program\nstates: [q]\ninitial: { q: 1 }\nspan: [0, 1]\nreference: { trajectory: none.csv }\n');
+    await expect(sweep(file, faulty('ok'), [1e-3])).rejects.toThrow(/reference\.digits.*needs `digits`/);
+  });
+});
+
 describe('faulty programs', () => {
   const problem = 'harmonic-oscillator';
 

@@ -20,7 +20,12 @@ export type ErrorScale =
   | { readonly kind: 'absolute' }
   | { readonly kind: 'relative'; readonly floor: number | readonly number[] };
 
-export type ReferenceKind = 'exact' | 'published' | 'certified';
+/**
+ * `trajectory`: a table from elsewhere (a higher-fidelity tool), with its digits and source.
+ * `self`: an external program at a much tighter setting; it cannot reveal a model error or a bias
+ * that every setting shares.
+ */
+export type ReferenceKind = 'exact' | 'published' | 'certified' | 'trajectory' | 'self';
 
 /**
  * Where a problem keeps one body's position and velocity (three indices each), so its error can
@@ -189,6 +194,8 @@ export interface Problem {
   readonly separableReason?: string;
   /** Units declared by the problem (shown on plot axes; nothing is converted). */
   readonly units?: ProblemUnits;
+  /** True when the model lives only in the user's program (a program-model file): no f to call. */
+  readonly modelOnlyInPrograms?: boolean;
   /** Named numeric parameters of the model, sent to external programs (empty when none). */
   readonly parameters?: Readonly<Record<string, number>>;
   /** Canonical text of the definition, hashed (SHA-256) so auditors can tell two problems apart. */

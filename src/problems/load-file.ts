@@ -4,7 +4,8 @@ import { resolve } from 'node:path';
 import { InputError } from '../core/errors.js';
 import { buildEquationProblem } from './equations/build.js';
 import { readStructuredFile } from './file/read-structured.js';
-import { equationFileSchema, linearFileSchema, type EquationFile, type LinearFile } from './file/schema.js';
+import { equationFileSchema, linearFileSchema, programModelFileSchema, type EquationFile, type LinearFile } from './file/schema.js';
+import { buildProgramModelProblem } from './program-model/build.js';
 import { expandDispersion } from './dispersion/expand.js';
 import type { Problem } from '../core/types.js';
 import { validateShape } from './file/validate-shape.js';
@@ -46,6 +47,10 @@ async function loadChecked(path: string): Promise<LoadedProblemFile> {
   const prototypeKey = prototypeKeyPath(data);
   if (prototypeKey) fail(file, prototypeKey, `'${String(prototypeKey.at(-1))}' cannot be used as a name or key (it is special to JavaScript objects)`);
   if ('base' in data) fail(file, ['base'], 'a file with `base` disperses a built-in problem; give it to --problem directly');
+  if ('model' in data) {
+    if ('equations' in data || 'linear' in data) fail(file, ['model'], '`model: program` means the equations live in your program: leave out `equations` and `linear`');
+    return { nominal: buildProgramModelProblem(file, validateShape(programModelFileSchema, file), resolve(path)) };
+  }
   let build: (spec: EquationFile | LinearFile) => Promise<UserProblem>;
   let spec: EquationFile | LinearFile;
   if ('linear' in data) {

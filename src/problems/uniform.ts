@@ -65,6 +65,7 @@ export function uniformProblem(p: Problem): Problem {
     separableReason: p.separableReason,
     units: p.units,
     parameters: p.parameters,
+    modelOnlyInPrograms: p.modelOnlyInPrograms,
     definition: p.definition,
     exactFromState: p.exactFromState,
     dispersion: p.dispersion,

@@ -51,6 +51,13 @@ function settingWord(r: RunResult): string {
   return 'rtol' in r.setting ? `rtol ${r.setting.rtol}` : `${r.setting.steps} steps`;
 }
 
+/** Problems measured against a self-reference: said at the top, with what it cannot show. */
+function selfReferenceFindings(results: ResultsFile): string[] {
+  return results.problems
+    .filter((p) => p.reference.kind === 'self')
+    .map((p) => `${p.id} is measured against a self-reference (each program at a much tighter setting, trust from its two tightest settings): the errors show how each program's answer moves with its setting, but cannot reveal a model error or a bias shared by every setting.`);
+}
+
 /** One finding per (problem, method) whose program reported the same trajectory at several settings. */
 function unchangedSettingFindings(results: ResultsFile): string[] {
   const out: string[] = [];
@@ -116,7 +123,7 @@ export function summarize(results: ResultsFile, levels?: readonly number[]): Sum
     levels: [...new Set(best.flatMap((b) => b.levels.map((l) => l.level)))].sort((a, b) => b - a),
     best,
     userLevels: levels !== undefined,
-    findings: unchangedSettingFindings(results),
+    findings: [...selfReferenceFindings(results), ...unchangedSettingFindings(results)],
   };
 }
 

@@ -105,6 +105,8 @@ export interface RunResult {
   outputSha256?: string;
   /** External programs: set when another setting gave exactly the same reported output. */
   settingIgnored?: boolean;
+  /** Set when the error was measured against the method itself at a much tighter setting: what that was. */
+  selfReference?: string;
 }
 
 export interface ProblemRecord {

@@ -20,7 +20,7 @@ import { Validator } from './validate.js';
 /** What this reader understands; quoted in every "cannot read" message. */
 export const READABLE_RESULTS = `${RESULTS_FORMAT} version ${RESULTS_VERSION}`;
 
-const REFERENCE_KINDS = ['exact', 'published', 'certified'] as const;
+const REFERENCE_KINDS = ['exact', 'published', 'certified', 'trajectory', 'self'] as const;
 
 /** Reads and validates a results file; throws InputError naming the file and field. */
 export function readResultsFile(path: string): ResultsFile {

@@ -4,6 +4,7 @@ import type { RunResult } from '../results/contract.js';
 import { appendMessage, measureRun, type RunOptions } from '../measure/run-one.js';
 import { timeRun, type TimingOptions } from '../measure/timing.js';
 import type { PlannedRun } from './plan.js';
+import { SELF_REFERENCE_CAUTION, selfReferenced } from './self-reference.js';
 
 export interface ExecuteOptions extends RunOptions {
   /** null skips timing (time stays null). */
@@ -29,8 +30,14 @@ export async function executeRun(
   planned: PlannedRun,
   options: ExecuteOptions,
 ): Promise<RunResult> {
-  const run = measureRun(problem, method, planned.setting, options);
+  const self = problem.reference.kind === 'self';
+  const measured = self ? selfReferenced(problem, method, options.maxSteps) : problem;
+  const run = measureRun(measured, method, planned.setting, options);
   run.planIndex = planned.planIndex;
+  if (self) {
+    run.selfReference = measured.reference.source ?? 'self-reference';
+    run.message = appendMessage(run.message, SELF_REFERENCE_CAUTION);
+  }
   // One drift trace per sample would make a dispersion's results mostly traces (about 11 kB a
   // run on an orbit); the drift maxima stay, and results.json says the traces were left out.
   // (Set to undefined, not deleted: a deleted property turns each run into a slower, larger dictionary object.)

@@ -59,6 +59,7 @@ export function decades(loose: number, tight: number): number[] {
 
 /** Why a method does not pair with a problem by default (null when it does). */
 export function pairingGap(problem: Problem, method: Method): string | null {
+  if (problem.modelOnlyInPrograms && !method.program) return `${problem.id} has no equations (its model lives only in the user's program): only external programs can run it`;
   if (method.needsSeparable && !problem.separable) {
     const why = problem.separableReason;
     return `${method.id} needs a separable problem (positions driven only by velocities, velocities only by positions and t)${why ? `: ${why}` : ''}`;
@@ -97,7 +98,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
       const gap = pairingGap(problem, method);
       // A named explicit method still runs on a stiff problem (its step limit is the result),
       // but a symplectic method cannot run at all without a separable split.
-      const hardGap = (method.needsSeparable && !problem.separable) || (method.needsLinear && !problem.linear);
+      const hardGap = (method.needsSeparable && !problem.separable) || (method.needsLinear && !problem.linear) || (problem.modelOnlyInPrograms === true && !method.program);
       if (gap && (hardGap || !req.methodsNamed)) {
         skipped.push({ problem: problem.id, method: method.id, reason: gap });
         continue;

@@ -134,3 +134,34 @@ export const dispersionFileSchema = z.strictObject({
   base: z.string().min(1),
   dispersion: dispersionSpec,
 });
+
+/**
+ * A model that only the user's own program has (`model: program`): no equations, so only external
+ * programs can run it, and its reference is a trajectory from elsewhere or the program itself at a
+ * much tighter setting (a self-reference).
+ */
+export const programModelFileSchema = z.strictObject({
+  id: common.id,
+  title: common.title,
+  source: common.source,
+  description: common.description,
+  parameters: common.parameters,
+  span: common.span,
+  checkTimes: common.checkTimes,
+  invariants: common.invariants,
+  error: common.error,
+  stiff: common.stiff,
+  atolScale: common.atolScale,
+  model: z.literal('program'),
+  states: z.array(z.string()).min(1),
+  initial: namedExpressions,
+  reference: z.strictObject({
+    /** CSV beside the problem file: header t,<states>, one row per time, the last at the span's end. */
+    trajectory: z.string().min(1).optional(),
+    /** The program itself at a much tighter setting. */
+    self: z.literal(true).optional(),
+    digits: z.number().int().min(1).max(17).optional(),
+    source: z.string().optional(),
+  }),
+});
+export type ProgramModelFile = z.infer<typeof programModelFileSchema>;
