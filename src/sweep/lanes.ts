@@ -89,8 +89,8 @@ function newPool(filename: string, clocks?: { isolate: true; workers: number }):
     filename,
     runtime: 'child_process',
     // tinypool starts its child processes with an empty environment unless given one; a worker
-    // must see what this process sees (STEPGAUGE_CACHE, anything a user module reads), or
-    // --jobs 1 and --jobs 2 would differ.
+    // must see what this process sees (STEPGAUGE_CACHE, anything a user module reads, the PATH
+    // an external program is started from), or --jobs 1 and --jobs 2 would differ.
     env: { ...process.env } as Record<string, string>,
     // A 4 MB young generation (V8's default grows to 16 MB per half): a worker's live data is a few
     // runs' buffers, and the smaller nursery keeps each worker near 60 MB resident instead of 90
