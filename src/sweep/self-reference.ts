@@ -61,7 +61,7 @@ export function selfReferenced(problem: Problem, method: Method, maxSteps: numbe
   if (a.status !== 'ok') return unavailable(`${method.id} at ${settingText(tight)} ended with ${a.status}${a.message ? ` (${a.message})` : ''}`);
   if (b.status !== 'ok') return unavailable(`${method.id} at ${settingText(next)} ended with ${b.status}${b.message ? ` (${b.message})` : ''}`);
   // Trust: the two tightest settings' disagreement at the end, on the problem's error scale.
-  const trust = errorMeter(problem)(problem.tEnd, b.yFinal, a.yFinal);
+  const trust = errorMeter(problem).error(problem.tEnd, b.yFinal, a.yFinal);
   let scale = 1;
   if (problem.errorScale.kind === 'absolute') for (const v of a.yFinal) scale = Math.max(scale, Math.abs(v));
   const digits = Math.max(1, Math.min(17, Math.floor(-Math.log10(Math.max(trust / scale, 1e-17)))));
