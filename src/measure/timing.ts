@@ -5,6 +5,7 @@ import type { Method, Problem, Setting, TimeBasis } from '../core/types.js';
 import { solveOptions, type RunOptions } from './run-options.js';
 
 import type { TimingOptions } from '../core/defaults.js';
+import type { RunResult } from '../results/contract.js';
 export type { TimingOptions } from '../core/defaults.js';
 
 /** Timing is extended until the relative margin of error is below this (runs under a second). */
@@ -23,6 +24,7 @@ const warmedPairs = new Set<string>();
 
 export { DEFAULT_TIMING } from '../core/defaults.js';
 
+
 export interface TimingResult {
   medianSeconds: number;
   /** Median absolute deviation of the samples, seconds. */
@@ -32,6 +34,11 @@ export interface TimingResult {
   rmePercent: number;
   /** Set for methods that time themselves (external programs). */
   basis?: TimeBasis;
+}
+
+/** The `time` record of a run from a timing (the results contract's shape). */
+export function timeRecord(t: TimingResult): RunResult['time'] {
+  return { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent, ...(t.basis ? { basis: t.basis } : {}) };
 }
 
 export async function timeRun(

@@ -6,7 +6,7 @@ import type { RunResult } from '../results/contract.js';
 import type { Candidate, Choice, ChooseOptions, ErrorMeasure, TrialPoint } from './choose-types.js';
 import type { FixedCandidate } from './fixed-rates.js';
 import { measureRun } from '../measure/run-one.js';
-import { timeRun } from '../measure/timing.js';
+import { timeRecord, timeRun } from '../measure/timing.js';
 import { pairingGap } from './plan.js';
 import { absoluteTolerance } from '../core/tolerance.js';
 import { InputError } from '../core/errors.js';
@@ -254,7 +254,7 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
     let timeMarginPercent: number | null = null;
     if (o.cost === 'time' && ok) {
       const t = await timeRun(problem, m, search.setting, o, o.timing);
-      if (t) confirmed.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent, ...(t.basis ? { basis: t.basis } : {}) };
+      if (t) confirmed.time = timeRecord(t);
       cost = t ? t.medianSeconds : null;
       timeMarginPercent = t ? t.rmePercent : null;
     }

@@ -10,7 +10,7 @@
 import type { Problem } from '../core/types.js';
 import type { RunResult } from '../results/contract.js';
 import { appendMessage, type RunOptions } from '../measure/run-one.js';
-import type { TimingOptions, TimingResult } from '../measure/timing.js';
+import { timeRecord, type TimingOptions, type TimingResult } from '../measure/timing.js';
 import type { PlannedRun } from './plan.js';
 import type { TimeTask } from './worker.js';
 import { createClocks } from './lanes.js';
@@ -55,7 +55,7 @@ function pairGroups(input: ClockInput): PairGroup[] {
 }
 
 export function setTime(run: RunResult, t: TimingResult): void {
-  run.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent };
+  run.time = timeRecord(t);
 }
 
 /** Times every run of `input` on clocks (see the header); the runs' `time` is filled in place. */

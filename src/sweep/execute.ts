@@ -2,7 +2,7 @@
 import type { Method, Problem } from '../core/types.js';
 import type { RunResult } from '../results/contract.js';
 import { appendMessage, measureRun, type RunOptions } from '../measure/run-one.js';
-import { timeRun, type TimingOptions } from '../measure/timing.js';
+import { timeRecord, timeRun, type TimingOptions } from '../measure/timing.js';
 import type { PlannedRun } from './plan.js';
 import { SELF_REFERENCE_CAUTION, selfReferenced } from './self-reference.js';
 
@@ -50,7 +50,7 @@ export async function executeRun(
   }
   if (options.timing && run.status === 'ok') {
     const t = await timeRun(problem, method, planned.setting, options, options.timing);
-    if (t) run.time = { medianSeconds: t.medianSeconds, samples: t.samples, spreadSeconds: t.spreadSeconds, rmePercent: t.rmePercent, ...(t.basis ? { basis: t.basis } : {}) };
+    if (t) run.time = timeRecord(t);
   }
   return run;
 }

@@ -92,7 +92,7 @@ export function buildProgramModelProblem(site: StructuredFile, spec: ProgramMode
   const id = spec.id;
   return {
     id,
-    title: spec.title,
+    title: spec.title ?? spec.id,
     source: spec.source ?? `user problem file ${basename(site.file)} (no source named)`,
     description: spec.description ?? `a model that lives in the user's program: states ${states.join(', ')}; no equations in stepgauge`,
     dimension: n,
