@@ -8,7 +8,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { treeRssKB } from './sweep.js';
+import { watchTreeRss } from './sweep.js';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const cli = join(here, '..', '..', 'bin', 'stepgauge.js');
@@ -27,13 +27,10 @@ function command(name: string, args: string[], runs: number | null, env: NodeJS.
   return new Promise((resolve, reject) => {
     const started = performance.now();
     const proc = spawn(process.execPath, [cli, ...args], { stdio: ['ignore', 'ignore', 'inherit'], env });
-    let peakKB = 0;
-    const timer = setInterval(() => {
-      if (proc.pid !== undefined) peakKB = Math.max(peakKB, treeRssKB(proc.pid));
-    }, SAMPLE_MS);
+    const rss = watchTreeRss(proc, SAMPLE_MS);
     proc.on('error', reject);
     proc.on('close', (code) => {
-      clearInterval(timer);
+      const peakKB = rss.stop();
       // 3: some runs failed (an older exit rule for a finished sweep); the sweep still counts.
       if (code !== 0 && code !== 3) return reject(new Error(`${name}: stepgauge exited with ${code}`));
       resolve({ name, runs, seconds: Math.round((performance.now() - started) / 10) / 100, peakTreeRssMB: Math.round(peakKB / 1024) });

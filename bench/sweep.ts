@@ -20,7 +20,7 @@
 // /proc, so Linux only) with `coreUse` = CPU seconds / (wall seconds x cores): a parallel sweep at
 // coreUse near 1 can only get faster by doing less work, and a sequential one above 1 / cores is
 // being helped by V8's own background threads (optimising compiler, garbage collector).
-import { spawn } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import { readdirSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
@@ -62,7 +62,7 @@ export interface SweepBenchRow {
 }
 
 /** Resident kilobytes of pid and every descendant, from /proc (0 for processes already gone). */
-export function treeRssKB(root: number): number {
+function treeRssKB(root: number): number {
   const parent = new Map<number, number>();
   const rss = new Map<number, number>();
   for (const entry of readdirSync('/proc')) {
@@ -89,18 +89,29 @@ export function treeRssKB(root: number): number {
   return total;
 }
 
+/** Samples the resident memory of `proc` and its descendants every `everyMs`; `stop` ends it and answers the peak in kB. */
+export function watchTreeRss(proc: ChildProcess, everyMs: number): { stop: () => number } {
+  let peakKB = 0;
+  const timer = setInterval(() => {
+    if (proc.pid !== undefined) peakKB = Math.max(peakKB, treeRssKB(proc.pid));
+  }, everyMs);
+  return {
+    stop() {
+      clearInterval(timer);
+      return peakKB;
+    },
+  };
+}
+
 function measureSweep(name: string, args: { jobs: number; synthetic?: boolean; cli?: boolean; defaults?: boolean }): Promise<SweepBenchRow> {
   return new Promise((resolve, reject) => {
     const proc = spawn(process.execPath, [child, JSON.stringify(args)], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';
-    let peakKB = 0;
     proc.stdout.on('data', (d: Buffer) => (out += d.toString('utf8')));
-    const timer = setInterval(() => {
-      if (proc.pid !== undefined) peakKB = Math.max(peakKB, treeRssKB(proc.pid));
-    }, SAMPLE_MS);
+    const rss = watchTreeRss(proc, SAMPLE_MS);
     proc.on('error', reject);
     proc.on('close', (code) => {
-      clearInterval(timer);
+      const peakKB = rss.stop();
       if (code !== 0) return reject(new Error(`sweep child exited with ${code}`));
       const row = JSON.parse(out.trim().split('\n').at(-1)!) as Omit<SweepBenchRow, 'name' | 'level' | 'peakTreeRssMB' | 'coreUse'>;
       const coreUse = row.cpuSeconds === null ? null : Math.round((row.cpuSeconds / (row.seconds * availableParallelism())) * 100) / 100;
