@@ -11,12 +11,10 @@ import { measureRun, type RunOptions } from '../measure/run-one.js';
 import { absoluteTolerance } from '../core/tolerance.js';
 import { quantileOf } from '../core/quantile.js';
 import { pairingGap } from './plan.js';
+import { MAX_STEPS, MIN_STEPS, RTOL_GRID } from './choose.js';
 
-/** The same decade grid as `choose` (1e-2 .. 1e-15) and fewer bisections: each trial costs every sample. */
-const RTOL_GRID = [1e-2, 1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10, 1e-11, 1e-12, 1e-13, 1e-14, 1e-15];
+/** `choose`'s decade grid and step range, with fewer bisections: each trial costs every sample. */
 const RTOL_BISECTIONS = 5;
-const MIN_STEPS = 4;
-const MAX_STEPS = 1 << 22;
 
 export interface EnvelopeOptions extends RunOptions {
   target: number;

@@ -22,12 +22,12 @@ import { confirmedError, isCertifyingSetting, meetsTarget, refusal, targetBelowR
  * the arithmetic holds. Tight targets need the last decades: on kepler-eccentric a final error of
  * 1e-10 takes rtol near 3e-14 with dormand-prince-853, since round-off grows with the step count.
  */
-const RTOL_GRID = [1e-2, 1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10, 1e-11, 1e-12, 1e-13, 1e-14, 1e-15];
+export const RTOL_GRID = [1e-2, 1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8, 1e-9, 1e-10, 1e-11, 1e-12, 1e-13, 1e-14, 1e-15];
 /** Bisection steps in log10(rtol) between the last failing and the first passing decade. */
 const RTOL_BISECTIONS = 8;
 /** Smallest and largest equal-step counts tried for fixed-step methods. */
-const MIN_STEPS = 4;
-const MAX_STEPS = 1 << 22;
+export const MIN_STEPS = 4;
+export const MAX_STEPS = 1 << 22;
 
 export type { Candidate, Choice, ChooseOptions, CostMeasure, ErrorMeasure, TrialPoint } from './choose-types.js';
 
