@@ -144,7 +144,8 @@ describe.skipIf(!haveChromium && !process.env.CI)('report.html in a browser', ()
     });
     await page.mouse.click(box.x, box.y);
     const visible = () => canvas.evaluate((c: HTMLCanvasElement) => (window as unknown as { Chart: { getChart(c: HTMLCanvasElement): any } }).Chart.getChart(c).isDatasetVisible(0));
-    expect(await visible()).toBe(false);
+    // chart.js handles pointer events on the next animation frame, so the click takes effect a frame later.
+    await expect.poll(visible, { timeout: 5000 }).toBe(false);
     await page.mouse.move(5, 5);
     await page.mouse.move(point.x, point.y);
     await page.waitForTimeout(200);
