@@ -14,21 +14,17 @@
 // (e.g. Szebehely, Theory of Orbits, 1967, ch. 4; chapter from memory).
 // Error: absolute (positions and velocities are O(1)).
 import type { Problem } from '../src/core/types.js';
+import { catalogueProblem } from './from-source.js';
 
 const MU = 0.012277471;
 const MU1 = 1 - MU;
 const PERIOD = 17.0652165601579625588917206249;
 const Y0 = [0.994, 0, 0, -2.00158510637908252240537862224];
 
-export const arenstorfOrbit: Problem = {
+export const arenstorfOrbit: Problem = catalogueProblem(import.meta.url, {
   id: 'arenstorf-orbit',
   title: 'Arenstorf periodic orbit, circular restricted three-body problem (Earth-Moon)',
   source: 'Hairer, Norsett and Wanner, Solving Ordinary Differential Equations I, 2nd ed., sec. II.0, pp. 129-130 (Arenstorf 1963)',
-  description:
-    "Planar restricted three-body problem in the rotating frame: x'' = x + 2y' - mu'(x+mu)/D1 - mu(x-mu')/D2, " +
-    "y'' = y - 2x' - mu' y/D1 - mu y/D2, mu = 0.012277471. Initial (0.994, 0, 0, -2.00158510637908252240537862224), one period " +
-    'T = 17.0652165601579625588917206249 (published, HNW I sec. II.0). Reference: y(T) = y(0), trusted to 8 digits. ' +
-    'Invariant: Jacobi constant. Error: absolute.',
   dimension: 4,
   stateNames: ['x', 'y', 'vx', 'vy'],
   t0: 0,
@@ -93,14 +89,4 @@ export const arenstorfOrbit: Problem = {
   // Equal steps from 1000 doubling (rk4 needs thousands on this orbit, HNW I sec. II.0 fig. 0.1).
   defaultSteps: [1000, 2000, 4000, 8000, 16000, 32000, 64000],
   separableReason: 'the Coriolis terms make each acceleration depend on the velocities',
-  definition: [
-    'id: arenstorf-orbit',
-    "equations: x'' = x + 2 y' - mu' (x + mu)/D1 - mu (x - mu')/D2; y'' = y - 2 x' - mu' y/D1 - mu y/D2",
-    'parameters: mu = 0.012277471, mu\' = 1 - mu',
-    'span: [0, 17.0652165601579625588917206249]',
-    'initial: (0.994, 0, 0, -2.00158510637908252240537862224)',
-    'reference: published periodicity y(T) = y(0), digits 8',
-    'error: absolute',
-    "invariants: jacobi-constant = x^2 + y^2 + 2 mu'/r1 + 2 mu/r2 - |v|^2",
-  ].join('\n'),
-};
+});

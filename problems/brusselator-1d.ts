@@ -15,6 +15,7 @@
 // Invariants: none. Stiff: the diffusion's eigenvalues reach -4 alpha (N+1)^2, about -2e4.
 import type { Problem } from '../src/core/types.js';
 import { BRUSSELATOR_REFERENCE } from './brusselator-1d-reference.js';
+import { catalogueProblem } from './from-source.js';
 
 export const BRUSSELATOR_N = 500;
 const ALPHA = 1 / 50;
@@ -43,15 +44,10 @@ export function brusselatorInitial(N: number): number[] {
   return y;
 }
 
-export const brusselator1d: Problem = {
+export const brusselator1d: Problem = catalogueProblem(import.meta.url, {
   id: 'brusselator-1d',
   title: 'Brusselator with diffusion, 1-D, N = 500 (1000 states, stiff, banded)',
   source: 'Hairer and Wanner, Solving ODEs II, 2nd ed., sec. IV.10, problem BRUSS (method of lines)',
-  description:
-    "u_i' = 1 + u_i^2 v_i - 4 u_i + alpha (N+1)^2 (u_{i-1} - 2 u_i + u_{i+1}), v_i' = 3 u_i - u_i^2 v_i + alpha (N+1)^2 (v_{i-1} - 2 v_i + v_{i+1}), " +
-    'alpha = 1/50, N = 500, u = 1 and v = 3 at both ends, u_i(0) = 1 + sin(2 pi i/(N+1)), v_i(0) = 3, t in [0, 10]; ' +
-    'states interleaved (u_1, v_1, ...), Jacobian band 2 below and 2 above. Reference: certified (radau-iia-5 and ' +
-    'bdf-variable at rtol 1e-12). Error: absolute. Invariants: none.',
   dimension: 2 * BRUSSELATOR_N,
   t0: 0,
   tEnd: 10,
@@ -72,16 +68,4 @@ export const brusselator1d: Problem = {
   // more per step than the small problems; -t and -s override these as everywhere.
   defaultTolerances: [1e-3, 1e-4, 1e-5, 1e-6, 1e-7],
   defaultSteps: [100, 200, 400, 800],
-  definition: [
-    'id: brusselator-1d',
-    "equations: u_i' = 1 + u_i^2 v_i - 4 u_i + alpha (N+1)^2 (u_{i-1} - 2 u_i + u_{i+1}); v_i' = 3 u_i - u_i^2 v_i + alpha (N+1)^2 (v_{i-1} - 2 v_i + v_{i+1})",
-    'parameters: alpha = 1/50, N = 500; u_0 = u_{N+1} = 1, v_0 = v_{N+1} = 3',
-    'span: [0, 10]',
-    'initial: u_i = 1 + sin(2 pi i / (N + 1)), v_i = 3, interleaved (u_1, v_1, ...)',
-    `reference: t = 10, certified, ${BRUSSELATOR_REFERENCE.digits} digits, sha256 of the values ${BRUSSELATOR_REFERENCE.sha256}`,
-    'error: absolute',
-    'jacobianBand: 2, 2',
-    'invariants: none',
-    'checkTimes: none',
-  ].join('\n'),
-};
+});

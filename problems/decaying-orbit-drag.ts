@@ -15,6 +15,7 @@ import type { Problem } from '../src/core/types.js';
 import { makeTable } from '../src/problems/tables/interpolant.js';
 import { EARTH_GM, EARTH_RADIUS, inclinedPlane } from './physics/earth.js';
 import { ATMOSPHERE_ALTITUDE_KM, ATMOSPHERE_DENSITY } from './physics/exponential-atmosphere.js';
+import { catalogueProblem } from './from-source.js';
 
 const B = (2.2 * 1) / 100;
 const R0 = EARTH_RADIUS + 210e3;
@@ -24,14 +25,10 @@ const { e1: E1, e2: E2 } = inclinedPlane((51.6 * Math.PI) / 180);
 const V0 = Math.sqrt(EARTH_GM / R0);
 const Y0 = [...E1.map((c) => R0 * c), ...E2.map((c) => V0 * c)];
 
-export const decayingOrbitDrag: Problem = {
+export const decayingOrbitDrag: Problem = catalogueProblem(import.meta.url, {
   id: 'decaying-orbit-drag',
   title: 'Low orbit decaying under drag through a tabulated exponential atmosphere, six hours',
   source: 'Two-body gravity and quadratic drag with the exponential atmosphere of Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., table 8-4, interpolated log-linearly; WGS 84 constants; reference certified by stepgauge',
-  description:
-    "r'' = -GM r/|r|^3 - rho(|r| - R_E) B |v| v / 2, metres and seconds, B = Cd A/m = 0.022 m^2/kg, atmosphere at rest; rho from the " +
-    'exponential atmosphere table (base altitudes and densities) interpolated log-linearly. Circular start at R_E + 210 km, inclined 51.6 deg; ' +
-    'six hours. Reference certified. Error: absolute (m, m/s) with the radial / in-track / cross-track split.',
   dimension: 6,
   stateNames: ['x', 'y', 'z', 'vx', 'vy', 'vz'],
   t0: 0,
@@ -81,15 +78,4 @@ export const decayingOrbitDrag: Problem = {
   defaultSteps: [180, 360, 720, 1440, 2880, 5760, 11520, 23040],
   separableReason: 'drag depends on the velocity',
   orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' },
-  definition: [
-    'id: decaying-orbit-drag',
-    "equations: r'' = -GM r/|r|^3 - rho(|r| - R_E) B |v| v / 2",
-    'parameters: GM = 3.986004418e14, R_E = 6378137, B = 0.022',
-    `atmosphere: log-linear table, altitude km (${ATMOSPHERE_ALTITUDE_KM.join(', ')}), density (${ATMOSPHERE_DENSITY.join(', ')})`,
-    `initial: (${Y0.join(', ')})`,
-    'span: [0, 21600]',
-    'reference: certified',
-    'error: absolute; orbit frame: position 0..2, velocity 3..5, unit m',
-    'checkTimes: 3600 k, k = 1..5',
-  ].join('\n'),
-};
+});

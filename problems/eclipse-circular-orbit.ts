@@ -16,6 +16,7 @@
 import type { Problem, ProblemEvent } from '../src/core/types.js';
 import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from './physics/two-body.js';
 import { EARTH_GM, EARTH_RADIUS, inclinedPlane } from './physics/earth.js';
+import { catalogueProblem } from './from-source.js';
 
 const R = EARTH_RADIUS + 700e3;
 const W = Math.sqrt(EARTH_GM / (R * R * R));
@@ -66,16 +67,10 @@ function build(betaDeg: number, shadow: ProblemEvent['fn'], TIMES: { entry: numb
     { name: 'eclipse-exit', fn: shadow, direction: 'falling' },
   ];
   const variant = betaDeg === 60 ? '' : `-beta-${betaDeg}`;
-  return {
+  return catalogueProblem(import.meta.url, {
     id: `eclipse-circular-orbit${variant.replace('.', '-')}`,
     title: 'Circular low Earth orbit through a cylindrical Earth shadow (eclipse events)',
     source: 'Exact circular two-body motion and cylindrical shadow geometry, Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., chs. 2 and 5; WGS 84 constants',
-    description:
-      "r'' = -GM r/|r|^3 in metres and seconds, GM = 3.986004418e14, circular orbit of radius R_E + 700 km (R_E = 6378137 m) " +
-      'inclined 51.6 degrees, three periods (about 1.65 h each). Sun fixed at ' + betaDeg + ' degrees above the orbit plane; shadow is a cylinder ' +
-      'of radius R_E behind Earth. Events: eclipse-entry (rising) and eclipse-exit (falling) of g = R_E - distance from the shadow axis ' +
-      '(from Earth\'s centre on the sunlit side), with analytic times. Error: absolute (m, m/s); radial / in-track / cross-track split. ' +
-      'Invariants: energy and angular-momentum magnitude.',
     dimension: 6,
     stateNames: ['x', 'y', 'z', 'vx', 'vy', 'vz'],
     t0: 0,
@@ -105,19 +100,7 @@ function build(betaDeg: number, shadow: ProblemEvent['fn'], TIMES: { entry: numb
     separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
     orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' },
     events: EVENTS,
-    definition: [
-      'id: eclipse-circular-orbit',
-      "equations: r'' = -GM r / |r|^3 (3-D), state (x, y, z, vx, vy, vz), metres and seconds",
-      `parameters: GM = 3.986004418e14, R_E = 6378137, radius R_E + 700e3, inclination 51.6 deg, sun ${betaDeg} deg above the plane`,
-      'span: [0, 3 periods]',
-      'initial: R e1, R w e2 with e1 = (1,0,0), e2 = (0, cos i, sin i)',
-      'reference: exact circular motion; eclipse entry/exit at w t = pi -/+ acos(sqrt(1 - (R_E/R)^2)/cos beta) + 2 pi k',
-      'error: absolute; orbit frame: position 0..2, velocity 3..5, unit m',
-      'events: eclipse-entry rising, eclipse-exit falling of g = R_E - (r.s < 0 ? |r - (r.s)s| : |r|)',
-      'invariants: energy = |v|^2/2 - GM/|r|; angular-momentum = |r cross v|',
-      'checkTimes: k*period/4, k = 1..11',
-    ].join('\n'),
-  };
+  }, { betaDeg });
 }
 
 export const eclipseCircularOrbit: Problem = eclipseOrbit(60);

@@ -5,20 +5,17 @@
 // Invariant: energy (p^2 + w^2 q^2) / 2 = w^2 / 2. Separable: q' depends on p only, p' on q only.
 // Checked once per period (period 1), so phase and amplitude errors are both visible.
 import type { Problem } from '../src/core/types.js';
+import { catalogueProblem } from './from-source.js';
 
 const W = 2 * Math.PI;
 const W2 = W * W;
 const T_END = 20;
 const CHECK_TIMES = Array.from({ length: T_END }, (_, k) => k + 1);
 
-export const harmonicOscillator: Problem = {
+export const harmonicOscillator: Problem = catalogueProblem(import.meta.url, {
   id: 'harmonic-oscillator',
   title: 'Harmonic oscillator',
   source: 'Analytic solution q = cos(wt), p = -w sin(wt); e.g. Hairer, Lubich and Wanner, Geometric Numerical Integration, sec. I.1',
-  description:
-    "q' = p, p' = -w^2 q, w = 2 pi, q(0) = 1, p(0) = 0, t in [0, 20] (20 periods). " +
-    'Exact solution q = cos(w t), p = -w sin(w t) (analytic). ' +
-    'Error: absolute in both components. Invariant: energy (p^2 + w^2 q^2)/2. Separable (q | p).',
   dimension: 2,
   stateNames: ['q', 'p'],
   t0: 0,
@@ -49,15 +46,4 @@ export const harmonicOscillator: Problem = {
   // Equal steps from 200 doubling: reaches rk4's asymptotic range (common practice, no source).
   defaultSteps: [200, 400, 800, 1600, 3200, 6400, 12800, 25600],
   separable: { positions: [0], velocities: [1] },
-  definition: [
-    'id: harmonic-oscillator',
-    "equations: q' = p; p' = -w^2 q",
-    'parameters: w = 2*pi',
-    'span: [0, 20]',
-    'initial: q = 1, p = 0',
-    'reference: exact, q = cos(w t), p = -w sin(w t)',
-    'error: absolute',
-    'invariants: energy = (p^2 + w^2 q^2)/2',
-    `checkTimes: ${CHECK_TIMES.join(', ')}`,
-  ].join('\n'),
-};
+});

@@ -9,6 +9,7 @@
 import type { Problem } from '../src/core/types.js';
 import { twoBodyReference } from './physics/kepler.js';
 import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from './physics/two-body.js';
+import { catalogueProblem } from './from-source.js';
 
 const MU = 1;
 const C30 = Math.cos(Math.PI / 6);
@@ -16,15 +17,10 @@ const S30 = Math.sin(Math.PI / 6);
 const T_END = 20 * Math.PI;
 const CHECK_TIMES = Array.from({ length: 40 }, (_, k) => ((k + 1) * Math.PI) / 2);
 
-export const keplerCircular: Problem = {
+export const keplerCircular: Problem = catalogueProblem(import.meta.url, {
   id: 'kepler-circular',
   title: 'Kepler problem, inclined circular orbit (3-D)',
   source: 'Exact circular two-body motion, e.g. Danby, Fundamentals of Celestial Mechanics, 2nd ed., ch. 6',
-  description:
-    "x'' = -mu x/|x|^3 in 3-D, state (x, y, z, vx, vy, vz), mu = 1; circular orbit of radius 1 inclined " +
-    '30 degrees to the x-y plane, x(0) = (1, 0, 0), v(0) = (0, cos 30, sin 30); t in [0, 20 pi] (10 periods). ' +
-    'Exact solution x = cos t e1 + sin t e2, v = -sin t e1 + cos t e2, e1 = (1,0,0), e2 = (0, cos 30, sin 30). ' +
-    'Error: absolute. Invariants: energy (-1/2) and angular-momentum magnitude (1). Separable (positions | velocities).',
   dimension: 6,
   stateNames: ['x', 'y', 'z', 'vx', 'vy', 'vz'],
   t0: 0,
@@ -54,15 +50,4 @@ export const keplerCircular: Problem = {
   // Equal steps from 200 doubling: reaches rk4's asymptotic range (common practice, no source).
   defaultSteps: [200, 400, 800, 1600, 3200, 6400, 12800, 25600],
   separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
-  definition: [
-    'id: kepler-circular',
-    "equations: x'' = -mu x / |x|^3 (3-D), state (x, y, z, vx, vy, vz)",
-    'parameters: mu = 1, radius 1, inclination 30 degrees',
-    'span: [0, 20*pi]',
-    'initial: (1, 0, 0, 0, cos(pi/6), sin(pi/6))',
-    'reference: exact, x = cos t e1 + sin t e2, e1 = (1,0,0), e2 = (0, cos(pi/6), sin(pi/6))',
-    'error: absolute',
-    'invariants: energy = |v|^2/2 - mu/|x|; angular-momentum = |x cross v|',
-    'checkTimes: k*pi/2, k = 1..40',
-  ].join('\n'),
-};
+});

@@ -8,6 +8,7 @@
 import type { Problem } from '../src/core/types.js';
 import { ellipticState, twoBodyReference } from './physics/kepler.js';
 import { twoBodyAngularMomentum, twoBodyEnergy, twoBodyJacobian, twoBodyRhs } from './physics/two-body.js';
+import { catalogueProblem } from './from-source.js';
 
 const MU = 1;
 const E = 0.6;
@@ -15,15 +16,10 @@ const A = 1;
 const T_END = 20 * Math.PI;
 const CHECK_TIMES = Array.from({ length: 40 }, (_, k) => ((k + 1) * Math.PI) / 2);
 
-export const keplerEccentric: Problem = {
+export const keplerEccentric: Problem = catalogueProblem(import.meta.url, {
   id: 'kepler-eccentric',
   title: 'Kepler problem, eccentric orbit e = 0.6 (planar)',
   source: "Kepler's equation solved by Newton to machine precision; Danby, Fundamentals of Celestial Mechanics, 2nd ed., sec. 6.3, 6.6",
-  description:
-    "x'' = -mu x/|x|^3 in the plane, state (x, y, vx, vy), mu = 1, e = 0.6, a = 1, start at periapsis " +
-    'x = 1 - e, y = 0, vx = 0, vy = sqrt((1 + e)/(1 - e)); t in [0, 20 pi] (10 periods). ' +
-    "Exact solution from Kepler's equation E - e sin E = t: x = cos E - e, y = sqrt(1 - e^2) sin E. " +
-    'Error: absolute. Invariants: energy (-1/2) and angular-momentum (0.8). Separable (positions | velocities).',
   dimension: 4,
   stateNames: ['x', 'y', 'vx', 'vy'],
   t0: 0,
@@ -46,15 +42,4 @@ export const keplerEccentric: Problem = {
   // Equal steps from 500 doubling: reaches rk4's asymptotic range (common practice, no source).
   defaultSteps: [500, 1000, 2000, 4000, 8000, 16000, 32000, 64000],
   separable: { positions: [0, 1], velocities: [2, 3] },
-  definition: [
-    'id: kepler-eccentric',
-    "equations: x'' = -mu x / |x|^3 (planar), state (x, y, vx, vy)",
-    'parameters: mu = 1, e = 0.6, a = 1',
-    'span: [0, 20*pi]',
-    'initial: (1 - e, 0, 0, sqrt((1 + e)/(1 - e)))',
-    "reference: exact, Kepler's equation E - e sin E = t; x = cos E - e, y = sqrt(1 - e^2) sin E",
-    'error: absolute',
-    'invariants: energy = |v|^2/2 - mu/|x|; angular-momentum = |x vy - y vx|',
-    'checkTimes: k*pi/2, k = 1..40',
-  ].join('\n'),
-};
+});

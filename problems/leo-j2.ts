@@ -13,6 +13,7 @@
 // radial / in-track / cross-track split. Checked every hour.
 import type { Invariant, JacobianFn, Problem, Rhs } from '../src/core/types.js';
 import { EARTH_GM, EARTH_J2, EARTH_RADIUS } from './physics/earth.js';
+import { catalogueProblem } from './from-source.js';
 
 const DAY = 86400;
 const DEG = Math.PI / 180;
@@ -99,15 +100,10 @@ export const polarAngularMomentum: Invariant = { name: 'angular-momentum-z', fn:
 
 const Y0 = elementsToState(EARTH_GM, EARTH_RADIUS + 500e3, 0.001, 51.6 * DEG, 30 * DEG, 45 * DEG, 0);
 
-export const leoJ2: Problem = {
+export const leoJ2: Problem = catalogueProblem(import.meta.url, {
   id: 'leo-j2',
   title: 'Low Earth orbit with the J2 zonal term, one day',
   source: 'J2 acceleration and potential, Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., ch. 8; WGS 84 GM and radius, EGM96 J2; reference certified by stepgauge',
-  description:
-    "r'' = -GM r/|r|^3 + J2 term, metres and seconds (GM = 3.986004418e14, R_E = 6378137, J2 = 0.0010826267). " +
-    'Orbit a = R_E + 500 km, e = 0.001, i = 51.6 deg, node 30 deg, perigee 45 deg, starting at perigee; one day (about 15.5 orbits). ' +
-    'Reference certified. Error: absolute (m, m/s) with the radial / in-track / cross-track split. ' +
-    'Invariants: energy with the J2 potential, and polar angular momentum h_z (the J2 field is symmetric about z).',
   dimension: 6,
   stateNames: ['x', 'y', 'z', 'vx', 'vy', 'vz'],
   t0: 0,
@@ -125,15 +121,4 @@ export const leoJ2: Problem = {
   defaultSteps: [720, 1440, 2880, 5760, 11520, 23040, 46080, 92160],
   separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
   orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' },
-  definition: [
-    'id: leo-j2',
-    "equations: r'' = -GM r/r^3 (1 + 1.5 J2 (R_E/r)^2 (1 - 5 z^2/r^2)) for x, y; (3 - 5 z^2/r^2) for z",
-    'parameters: GM = 3.986004418e14, R_E = 6378137, J2 = 0.0010826267',
-    `initial: a = R_E + 500e3, e = 0.001, i = 51.6, node 30, perigee 45, nu 0 (deg): (${Y0.join(', ')})`,
-    'span: [0, 86400]',
-    'reference: certified',
-    'error: absolute; orbit frame: position 0..2, velocity 3..5, unit m',
-    'invariants: energy = |v|^2/2 - GM/r + GM J2 R_E^2/(2 r^3) (3 z^2/r^2 - 1); angular-momentum-z = x vy - y vx',
-    'checkTimes: k*3600, k = 1..23',
-  ].join('\n'),
-};
+});

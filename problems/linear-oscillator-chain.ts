@@ -13,6 +13,7 @@
 // Not separable: v' depends on v through the dashpots.
 import type { Problem } from '../src/core/types.js';
 import { exactSolution, EXPM_FLOOR } from '../src/problems/linear/exact.js';
+import { catalogueProblem } from './from-source.js';
 
 const M1 = 1;
 const M2 = 1;
@@ -77,15 +78,10 @@ const exactState = exactSolution({ size: AUGMENTED_DIMENSION, M: augmentedMatrix
 
 const CHECK_TIMES = Array.from({ length: T_END }, (_, k) => k + 1);
 
-export const linearOscillatorChain: Problem & { readonly linearModel: LinearModel } = {
+export const linearOscillatorChain: Problem & { readonly linearModel: LinearModel } = catalogueProblem(import.meta.url, {
   id: 'linear-oscillator-chain',
   title: 'Damped, forced two-mass oscillator chain',
   source: 'Exact: matrix exponential of the system augmented with the forcing generator (Higham, SIAM J. Matrix Anal. Appl. 26, 2005)',
-  description:
-    'Two unit masses, three springs k = 4 (wall-m1-m2-wall), a dashpot c = 0.05 in parallel with each spring, ' +
-    "force u = sin(1.3 t) on m1: x' = A x + B u, y = C x (positions), x = (q1, q2, v1, v2), x(0) = (0.5, 0, 0, 0), " +
-    't in [0, 30]. Exact solution expm(M t) z0 for the 6-state system with the sinusoid generator. ' +
-    'Error: absolute. Invariants: none.',
   dimension: N,
   stateNames: linearModel.stateNames,
   t0: 0,
@@ -114,19 +110,4 @@ export const linearOscillatorChain: Problem & { readonly linearModel: LinearMode
   },
   checkTimes: CHECK_TIMES,
   linearModel,
-  definition: [
-    'id: linear-oscillator-chain',
-    "equations: x' = A x + B u, y = C x, u = sin(1.3 t)",
-    'parameters: m1 = 1, m2 = 1, k1 = 4, k2 = 4, k3 = 4, c = 0.05 (each spring)',
-    `A: ${JSON.stringify(linearModel.A)}`,
-    `B: ${JSON.stringify(linearModel.B)}`,
-    `C: ${JSON.stringify(linearModel.C)}`,
-    'D: 0',
-    'span: [0, 30]',
-    'initial: (0.5, 0, 0, 0)',
-    'reference: exact, expm(M t) z0 with z = (x, sin(1.3 t), cos(1.3 t))',
-    'error: absolute',
-    'invariants: none',
-    `checkTimes: ${CHECK_TIMES.join(', ')}`,
-  ].join('\n'),
-};
+});

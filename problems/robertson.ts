@@ -18,6 +18,7 @@
 // the controller (with 1e-6 of each peak, radau-iia-5 at rtol 1e-8 ended 4.5e-6 off in y2).
 // Invariant: mass y1 + y2 + y3 = 1 (the right-hand sides sum to zero).
 import type { Problem } from '../src/core/types.js';
+import { catalogueProblem } from './from-source.js';
 
 const K1 = 0.04;
 const K2 = 3e7;
@@ -27,14 +28,10 @@ const Y_40 = [0.7158270687, 0.9185534764e-5, 0.2841637457];
 /** Mazzia and Magherini, Test Set for IVP Solvers, ROBER. */
 const Y_END = [0.2083340149701255e-7, 0.8333360770334713e-13, 0.9999999791665050];
 
-export const robertson: Problem = {
+export const robertson: Problem = catalogueProblem(import.meta.url, {
   id: 'robertson',
   title: 'Robertson chemical kinetics (stiff)',
   source: 'Hairer and Wanner, Solving ODEs II, sec. IV.1 (t = 40); Mazzia and Magherini, Test Set for IVP Solvers, ROBER (t = 1e11)',
-  description:
-    "y1' = -0.04 y1 + 1e4 y2 y3, y2' = 0.04 y1 - 1e4 y2 y3 - 3e7 y2^2, y3' = 3e7 y2^2, y(0) = (1, 0, 0), " +
-    't in [0, 1e11] (stiff). Reference: published at t = 40 (Hairer and Wanner II, sec. IV.1, 10 digits) and ' +
-    't = 1e11 (Test Set for IVP Solvers, ROBER). Error: relative per component, floor 1e-20. Invariant: mass y1 + y2 + y3.',
   dimension: 3,
   stateNames: ['y1', 'y2', 'y3'],
   t0: 0,
@@ -78,17 +75,4 @@ export const robertson: Problem = {
     ],
   },
   checkTimes: [40],
-  definition: [
-    'id: robertson',
-    "equations: y1' = -k1 y1 + k3 y2 y3; y2' = k1 y1 - k3 y2 y3 - k2 y2^2; y3' = k2 y2^2",
-    'parameters: k1 = 0.04, k2 = 3e7, k3 = 1e4',
-    'span: [0, 1e11]',
-    'initial: (1, 0, 0)',
-    `reference: t = 40: (${Y_40.join(', ')}), published, Hairer and Wanner II sec. IV.1`,
-    `reference: t = 1e11: (${Y_END.join(', ')}), published, Test Set for IVP Solvers ROBER`,
-    'error: relative, floor 1e-20',
-    'atolScale: 1e-12',
-    'invariants: mass = y1 + y2 + y3',
-    'checkTimes: 40',
-  ].join('\n'),
-};
+});

@@ -24,6 +24,7 @@
 // Reference: certified by stepgauge. Error: absolute (m, m/s).
 import type { Problem } from '../src/core/types.js';
 import { EARTH_GM, EARTH_RADIUS, inclinedPlane } from './physics/earth.js';
+import { catalogueProblem } from './from-source.js';
 
 const M1 = 100;
 const M2 = 50;
@@ -86,15 +87,10 @@ const V2 = new Float64Array(3);
 
 const Y0 = initialState();
 
-export const tetheredPair: Problem = {
+export const tetheredPair: Problem = catalogueProblem(import.meta.url, {
   id: 'tethered-pair',
   title: 'Two satellites joined by an elastic tether that goes slack (orbit of 92 min, tether period 2 s)',
   source: 'Newtonian two-body gravity and a one-sided linear spring (e.g. Goldstein, Classical Mechanics, ch. 1); scenario of our own; reference certified by stepgauge',
-  description:
-    "m_i r_i'' = -GM m_i r_i/|r_i|^3 -/+ T u, T = k (l - L0) if l > L0 else 0, GM = 3.986004418e14. m1 = 100 kg, m2 = 50 kg, " +
-    'L0 = 500 m, k = 300 N/m; centre of mass on a circular orbit at R_E + 400 km inclined 51.6 deg, tether vertical and stretched 1.4 m, ' +
-    'spinning in the orbit plane once a minute; two minutes. State (centre of mass, separation r1 - r2, their velocities). Reference certified (the slack kinks limit its digits). ' +
-    'Error: absolute (m, m/s). Invariants: energy, angular-momentum magnitude.',
   dimension: 12,
   stateNames: ['cx', 'cy', 'cz', 'sx', 'sy', 'sz', 'vcx', 'vcy', 'vcz', 'vsx', 'vsy', 'vsz'],
   t0: 0,
@@ -180,16 +176,4 @@ export const tetheredPair: Problem = {
   // From 2 s steps (one per tether oscillation, far too coarse) doubling to 1/64 s.
   defaultSteps: [60, 120, 240, 480, 960, 1920, 3840, 7680],
   separable: { positions: [0, 1, 2, 3, 4, 5], velocities: [6, 7, 8, 9, 10, 11] },
-  definition: [
-    'id: tethered-pair',
-    "equations: m1 r1'' = -GM m1 r1/|r1|^3 - T u; m2 r2'' = -GM m2 r2/|r2|^3 + T u; T = k (l - L0) if l > L0 else 0",
-    "state: c = (m1 r1 + m2 r2)/M, s = r1 - r2, c', s'",
-    'parameters: GM = 3.986004418e14, m1 = 100, m2 = 50, L0 = 500, k = 300, spin 2 pi/60 rad/s beyond the orbit rate, stretch 1.4',
-    `initial: (${Y0.join(', ')})`,
-    'span: [0, 120]',
-    'reference: certified',
-    'error: absolute',
-    'invariants: energy (kinetic + gravitational + spring), angular-momentum = |sum m r x v|',
-    'checkTimes: 20 k, k = 1..5',
-  ].join('\n'),
-};
+});

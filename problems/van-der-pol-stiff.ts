@@ -14,18 +14,15 @@
 // Invariants: none.
 import type { Problem } from '../src/core/types.js';
 import { vanDerPolJacobian, vanDerPolRhs } from './physics/van-der-pol.js';
+import { catalogueProblem } from './from-source.js';
 
 const MU = 1000;
 const Y_END = [1.706167732170469, -0.8928097010248125e-3];
 
-export const vanDerPolStiff: Problem = {
+export const vanDerPolStiff: Problem = catalogueProblem(import.meta.url, {
   id: 'van-der-pol-stiff',
   title: 'Van der Pol oscillator, mu = 1000 (stiff)',
   source: 'Mazzia and Magherini, Test Set for IVP Solvers, problem "van der Pol" (VDPOL), in unscaled time',
-  description:
-    "y1' = y2, y2' = mu (1 - y1^2) y2 - y1, mu = 1000, y(0) = (2, 0), t in [0, 2000] (stiff). " +
-    'Reference: published, y(2000) = (1.706167732170469, -0.8928097010248125e-3) (Test Set for IVP Solvers, VDPOL ' +
-    'with eps = 1e-6 rescaled by t = 1000 tau). Error: relative per component with floor 1e-6. Invariants: none.',
   dimension: 2,
   stateNames: ['y1', 'y2'],
   t0: 0,
@@ -44,16 +41,4 @@ export const vanDerPolStiff: Problem = {
     points: [{ t: 2000, y: Y_END }],
   },
   checkTimes: [],
-  definition: [
-    'id: van-der-pol-stiff',
-    "equations: y1' = y2; y2' = mu (1 - y1^2) y2 - y1",
-    'parameters: mu = 1000',
-    'span: [0, 2000]',
-    'initial: (2, 0)',
-    `reference: t = 2000: (${Y_END.join(', ')}), published, Test Set for IVP Solvers VDPOL`,
-    'error: relative, floor 1e-6, 1e-6',
-    'atolScale: 1, 1e-3',
-    'invariants: none',
-    'checkTimes: none',
-  ].join('\n'),
-};
+});

@@ -11,6 +11,7 @@
 // Invariants: none (dissipative on one part of the cycle, pumped on the other).
 import type { Problem } from '../src/core/types.js';
 import { vanDerPolJacobian, vanDerPolRhs } from './physics/van-der-pol.js';
+import { catalogueProblem } from './from-source.js';
 
 const MU = 1;
 
@@ -24,14 +25,10 @@ export const VAN_DER_POL_REFERENCE = [
 
 const POINTS = VAN_DER_POL_REFERENCE.map((p) => ({ t: p.t, y: [...p.y] }));
 
-export const vanDerPol: Problem = {
+export const vanDerPol: Problem = catalogueProblem(import.meta.url, {
   id: 'van-der-pol',
   title: 'Van der Pol oscillator, mu = 1',
   source: 'Van der Pol (1926); reference certified by odex (rtol = atol = 1e-14) and RK4 with Richardson extrapolation, agreeing to 11 digits',
-  description:
-    "y1' = y2, y2' = mu (1 - y1^2) y2 - y1, mu = 1, y(0) = (2, 0), t in [0, 20]. " +
-    'Reference: certified, two independent computations (odex at 1e-14; RK4 with Richardson extrapolation) ' +
-    'agreeing to 11 significant digits at t = 5, 10, 15, 20. Error: absolute. Invariants: none.',
   dimension: 2,
   stateNames: ['y1', 'y2'],
   t0: 0,
@@ -50,15 +47,4 @@ export const vanDerPol: Problem = {
     points: POINTS,
   },
   checkTimes: [5, 10, 15],
-  definition: [
-    'id: van-der-pol',
-    "equations: y1' = y2; y2' = mu (1 - y1^2) y2 - y1",
-    'parameters: mu = 1',
-    'span: [0, 20]',
-    'initial: (2, 0)',
-    ...POINTS.map((p) => `reference: t = ${p.t}: (${p.y.join(', ')}), certified, 11 digits`),
-    'error: absolute',
-    'invariants: none',
-    'checkTimes: 5, 10, 15',
-  ].join('\n'),
-};
+});

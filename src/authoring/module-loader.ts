@@ -10,7 +10,7 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 import { build, type Plugin } from 'esbuild';
 import type { Method, Problem } from '../core/types.js';
 import { InputError, messageOf } from '../core/errors.js';
-import { sha256 } from '../core/hash.js';
+import { sourcesSha256 } from '../core/hash.js';
 import { hasBrand, METHOD_BRAND, PROBLEM_BRAND } from './brand.js';
 
 const MODULE_EXTENSIONS = ['.ts', '.mts', '.js', '.mjs'];
@@ -72,8 +72,8 @@ async function bundle(file: string): Promise<{ code: string; sourceHash: string 
     throw new InputError(`cannot build module: ${messageOf(e)}`, file);
   }
   const inputs = Object.keys(result.metafile!.inputs).sort();
-  const parts = await Promise.all(inputs.map(async (p) => `${p}\n${await readFile(resolve(dir, p), 'utf8')}`));
-  return { code: result.outputFiles![0]!.text, sourceHash: sha256(parts.join('\n')) };
+  const files = await Promise.all(inputs.map(async (p) => ({ path: p, text: await readFile(resolve(dir, p), 'utf8') })));
+  return { code: result.outputFiles![0]!.text, sourceHash: sourcesSha256(files) };
 }
 
 export async function loadModule(path: string): Promise<LoadedModule> {
