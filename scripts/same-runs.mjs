@@ -1,7 +1,8 @@
 #!/usr/bin/env node
 // Run-for-run comparison of two sweeps, for changes that must not move a number (refactors,
 // speed-ups). Everything a run records is compared except its wall time; the files' own dates,
-// environment and (with --ignore-problem-hash) the problems' source hashes are left out.
+// environment and (with --ignore-problem-hash) the problems' hashes are left out: their sha256,
+// their definition text (which names the hashes of their sources) and the plan's fingerprint.
 //
 //   node scripts/same-runs.mjs capture <out.json> [stepgauge run flags...]
 //       runs this checkout's CLI (build first) with --no-timing --json --no-report --jobs 2
@@ -47,7 +48,7 @@ function compare(beforePath, afterPath, { ignoreProblemHash, newMethods }) {
   const before = JSON.parse(readFileSync(beforePath, 'utf8'));
   const after = JSON.parse(readFileSync(afterPath, 'utf8'));
   const kept = (list) => list.filter((x) => !newMethods.includes(x.method ?? x.id));
-  const problems = (file) => file.problems.map((p) => (ignoreProblemHash ? { ...p, sha256: undefined } : p));
+  const problems = (file) => file.problems.map((p) => (ignoreProblemHash ? { ...p, sha256: undefined, definition: undefined } : p));
   const differences = [];
   const afterRuns = new Map(kept(after.runs).map((r) => [runKey(r), r]));
   const beforeRuns = kept(before.runs);
@@ -64,7 +65,11 @@ function compare(beforePath, afterPath, { ignoreProblemHash, newMethods }) {
   for (const key of afterRuns.keys()) differences.push(`${key}: new after`);
   const parts = newMethods.length > 0 ? ['methods', 'skipped'] : ['methods', 'skipped', 'plan', 'request'];
   for (const part of parts) {
-    const pick = (file) => (Array.isArray(file[part]) ? kept(file[part]) : file[part]);
+    const pick = (file) => {
+      const value = Array.isArray(file[part]) ? kept(file[part]) : file[part];
+      // The plan's fingerprint hashes the problems' definitions; its run count is still compared.
+      return part === 'plan' && ignoreProblemHash && value ? { ...value, sha256: undefined } : value;
+    };
     if (!isDeepStrictEqual(pick(before), pick(after))) differences.push(`"${part}" differs`);
   }
   if (!isDeepStrictEqual(problems(before), problems(after))) differences.push('"problems" differs');
