@@ -10,7 +10,7 @@ describe('baseline serialisation', () => {
     const runs = [
       syntheticRun({ error: { final: 0.1 + 0.2, max: 5e-324 }, drift: { zeta: 1.7976931348623157e308, alpha: -0, mid: Number.NaN } }),
       syntheticRun({ method: 'other', setting: { rtol: 1e-6, atol: [1e-9, 3.3e-10] }, error: { final: null, max: null }, status: 'timeout' }),
-      syntheticRun({ method: 'fixed', setting: { steps: 3, h: 1 / 3 }, errorBelowReference: true }),
+      syntheticRun({ method: 'fixed', setting: { steps: 3, h: 1 / 3 }, errorBelowReference: true, unresolved: ['max', 'outputs', 'final'] }),
     ];
     for (const keepTime of [false, true]) {
       const first = serializeBaseline(makeBaseline(syntheticResults(runs), { keepTime }));
@@ -24,6 +24,10 @@ describe('baseline serialisation', () => {
     expect(Number.isNaN(osc.drift.mid)).toBe(true); // written as null, read back as NaN
     expect(osc.error.final).toBe(0.1 + 0.2);
     expect(osc.error.max).toBe(5e-324);
+    // The unresolved marks of the two compared figures are kept, in one order; outputs is not compared.
+    expect(b.runs.find((r) => r.method === 'fixed')!.unresolved).toEqual(['final', 'max']);
+    expect(osc.unresolved).toBeUndefined();
+    expect(() => parseBaseline(serializeBaseline(makeBaseline(syntheticResults(runs))).replace('"max"\n', '"maximum"\n'), 'b.json')).toThrow(/b\.json: field "runs\[0\]\.unresolved\[1\]" is "maximum", expected one of final, max/);
   });
 
   it('does not depend on run order in the results (property)', () => {

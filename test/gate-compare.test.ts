@@ -74,6 +74,22 @@ describe('compareResults', () => {
     expect(c.runs[0]!.notes.join(' ')).toContain('below what the reference resolves');
   });
 
+  it('reads each error figure\'s own unresolved mark: an unresolved error.max never regresses, a resolved one does', () => {
+    // max 2e-7 -> 8e-7 (x4) and final 1e-7 -> 5e-7 (x5), both above the factor 2.
+    const grown = { error: { final: 5e-7, max: 8e-7 } };
+    const maxOnly = compareResults(base, withRun({ ...grown, unresolved: ['max'] }));
+    expect(maxOnly.regressions.map((f) => f.metric)).toEqual(['error.final']);
+    expect(maxOnly.runs[0]!.notes.join(' ')).toMatch(/error\.max: .*not a regression: the error is below what the reference resolves/);
+    const both = compareResults(base, withRun({ ...grown, unresolved: ['final', 'max'], errorBelowReference: true }));
+    expect(both.ok).toBe(true);
+    // errorBelowReference speaks of error.final only: a resolved error.max still regresses.
+    const finalOnly = compareResults(base, withRun({ ...grown, unresolved: ['final'], errorBelowReference: true }));
+    expect(finalOnly.regressions.map((f) => f.metric)).toEqual(['error.max']);
+    // The same verdicts when the current side is a baseline file, which keeps the marks.
+    const asBaseline = compareResults(base, makeBaseline(withRun({ ...grown, unresolved: ['max', 'outputs'] })));
+    expect(asBaseline.regressions.map((f) => f.metric)).toEqual(['error.final']);
+  });
+
   it('fails on drift growth, on a vanished invariant and on a non-finite drift', () => {
     const grown = compareResults(base, withRun({ drift: { energy: 3e-8 } }));
     expect(grown.regressions.map((f) => [f.metric, f.factor])).toEqual([['drift.energy', 3e-8 / 1e-8]]);

@@ -5,7 +5,7 @@
 import { parseJsonText } from '../core/json-text.js';
 import { readFileSync } from 'node:fs';
 import { InputError } from '../core/errors.js';
-import { runKey, type ResultsFile, type RunResult, type RunSetting } from '../results/contract.js';
+import { runKey, type ErrorFigure, type ResultsFile, type RunResult, type RunSetting } from '../results/contract.js';
 import { STATUSES, type Counts, type Status } from '../core/types.js';
 import { Validator } from '../results/validate.js';
 import { resultsConfiguration, type Configuration } from './configuration.js';
@@ -26,6 +26,8 @@ export interface BaselineRun {
   counts: Counts;
   /** Kept only when true: such errors are below what the reference resolves. */
   errorBelowReference?: boolean;
+  /** Kept only when not empty: the error figures within reach of the reference's resolution. */
+  unresolved?: ErrorFigure[];
   /** Kept only with --keep-time. calibrationRatio = medianSeconds / calibration seconds. */
   time?: { medianSeconds: number | null; calibrationRatio?: number | null };
 }
@@ -67,6 +69,8 @@ function baselineRun(r: RunResult, calibration: number | undefined, keepTime: bo
     counts: r.counts,
   };
   if (r.errorBelowReference) out.errorBelowReference = true;
+  const unresolved = gateFigures(r.unresolved);
+  if (unresolved) out.unresolved = unresolved;
   if (keepTime) {
     const median = r.time.medianSeconds;
     const ratio = r.time.calibrationRatio ?? (median !== null && calibration ? median / calibration : null);
@@ -118,9 +122,19 @@ function normalizeRun(r: BaselineRun): BaselineRun {
     counts: { nfev: c.nfev, njev: c.njev, nlu: c.nlu, accepted: c.accepted, rejected: c.rejected },
   };
   if (r.errorBelowReference) out.errorBelowReference = true;
+  const unresolved = gateFigures(r.unresolved);
+  if (unresolved) out.unresolved = unresolved;
   if (r.time) out.time = { medianSeconds: r.time.medianSeconds, calibrationRatio: r.time.calibrationRatio ?? null };
   return out;
 }
+
+/** The figures a baseline compares (final, max), in that order; undefined when none is unresolved. */
+function gateFigures(list: readonly ErrorFigure[] | undefined): ErrorFigure[] | undefined {
+  const kept = GATE_FIGURES.filter((f) => list?.includes(f));
+  return kept.length > 0 ? kept : undefined;
+}
+
+const GATE_FIGURES: readonly ErrorFigure[] = ['final', 'max'];
 
 /** Code-unit order, independent of the locale of the machine writing the file. */
 function compareText(a: string, b: string): number {
@@ -216,6 +230,14 @@ function validateRun(v: Validator, x: unknown, at: string): BaselineRun {
     counts: { nfev: count('nfev'), njev: count('njev'), nlu: count('nlu'), accepted: count('accepted'), rejected: count('rejected') },
   };
   if (r.errorBelowReference !== undefined && v.boolean(r.errorBelowReference, `${at}.errorBelowReference`)) out.errorBelowReference = true;
+  if (r.unresolved !== undefined) {
+    const list = v.array(r.unresolved, `${at}.unresolved`).map((f, i) => {
+      if (!GATE_FIGURES.includes(f as ErrorFigure)) v.fail(`${at}.unresolved[${i}]`, `is ${JSON.stringify(f)}, expected one of ${GATE_FIGURES.join(', ')}`);
+      return f as ErrorFigure;
+    });
+    const kept = gateFigures(list);
+    if (kept) out.unresolved = kept;
+  }
   if (r.time !== undefined) {
     const t = v.object(r.time, `${at}.time`);
     out.time = {

@@ -7,8 +7,9 @@
 // - error.final, error.max and each drift: with v' = max(v, floor), the growth factor is
 //   new' / old'. Above the factor it is a regression, below 1/factor an improvement. The floor
 //   (default 64 ulp of 1, about 1.4e-14) keeps changes that happen entirely at roundoff level
-//   (0 -> 1e-300, 1e-16 -> 3e-15) from failing a build. A current run flagged
-//   errorBelowReference never regresses on error: its error is below what the reference resolves.
+//   (0 -> 1e-300, 1e-16 -> 3e-15) from failing a build. An error figure the current run marks
+//   unresolved (its `unresolved` list; errorBelowReference for error.final) never regresses: it
+//   is within reach of what the reference resolves.
 //   A value measured in the baseline and missing now (null, or a non-finite drift) is a regression.
 // - counts nfev, njev, nlu: exact and deterministic, so new > old * (1 + fraction) is a
 //   regression (0 -> 1 included) and new < old * (1 - fraction) an improvement.
@@ -17,7 +18,7 @@
 // - A baseline run absent now is a regression unless allowMissing; new runs are listed only.
 import { diffConfigurations, resultsConfiguration, type Configuration } from './configuration.js';
 import { InputError } from '../core/errors.js';
-import { runKey, type ResultsFile, type RunSetting } from '../results/contract.js';
+import { isUnresolved, runKey, type ResultsFile, type RunSetting } from '../results/contract.js';
 import type { Counts } from '../core/types.js';
 import type { Baseline, BaselineRun } from './baseline.js';
 import { num3 } from './format.js';
@@ -294,9 +295,8 @@ function compareRun(rc: RunComparison, b: BaselineRun, c: BaselineRun, opt: Reso
       rc.improvements.push(finding(key, b, { kind, metric, old: oldV, new: newV, factor: r, limit: `x${factor}`, text }));
     }
   };
-  const belowRef = c.errorBelowReference === true;
-  ratioCheck('error', 'error.final', b.error.final, c.error.final, opt.errorFactor, !belowRef);
-  ratioCheck('error', 'error.max', b.error.max, c.error.max, opt.errorFactor, !belowRef);
+  ratioCheck('error', 'error.final', b.error.final, c.error.final, opt.errorFactor, !isUnresolved(c, 'final'));
+  ratioCheck('error', 'error.max', b.error.max, c.error.max, opt.errorFactor, !isUnresolved(c, 'max'));
   for (const name of Object.keys(b.drift).sort()) {
     ratioCheck('drift', `drift.${name}`, b.drift[name]!, name in c.drift ? c.drift[name]! : null, opt.driftFactor, true);
   }

@@ -1,6 +1,7 @@
 // The per-problem results table as data: one row per run, each cell with its display text (3
 // significant digits, exact counts) and a sort key carrying the full value.
 import type { ErrorFigure, RunResult } from '../results/contract.js';
+import { isUnresolved } from '../results/contract.js';
 import { integer, settingLabel, sig3, tightness } from './format.js';
 import type { MethodInfo } from './methods.js';
 
@@ -24,8 +25,7 @@ function num(v: number | null | undefined, show: (v: number | null | undefined) 
 /** An error figure, marked when the reference cannot confirm it (within reach of its resolution). */
 function errorCell(r: RunResult, figure: ErrorFigure): Cell {
   const c = num(r.error[figure]);
-  const unresolved = r.unresolved?.includes(figure) || (figure === 'final' && r.errorBelowReference === true);
-  return unresolved && c.sort !== null ? { text: `${c.text} (at ref.)`, sort: c.sort } : c;
+  return isUnresolved(r, figure) && c.sort !== null ? { text: `${c.text} (at ref.)`, sort: c.sort } : c;
 }
 
 /** Largest drift over the invariants; NaN when any is not finite (a broken run). */

@@ -158,12 +158,20 @@ export interface ResultsFile {
 
 export type ErrorFigure = 'final' | 'max' | 'outputs';
 
+/**
+ * True when the run marks this error figure as within reach of its reference's resolution:
+ * listed in `unresolved`, or, for the final error, flagged `errorBelowReference` (the older flag).
+ */
+export function isUnresolved(run: Pick<RunResult, 'unresolved' | 'errorBelowReference'>, figure: ErrorFigure): boolean {
+  return run.unresolved?.includes(figure) === true || (figure === 'final' && run.errorBelowReference === true);
+}
+
 /** The error figure of a run when it is a real, resolved measurement; null otherwise. */
 export function resolvedError(run: Pick<RunResult, 'status' | 'error' | 'unresolved' | 'errorBelowReference'>, figure: ErrorFigure): number | null {
   if (run.status !== 'ok') return null;
   const e = run.error[figure];
   if (e === null || e === undefined) return null;
-  if (run.unresolved?.includes(figure) || (figure === 'final' && run.errorBelowReference)) return null;
+  if (isUnresolved(run, figure)) return null;
   return e;
 }
 

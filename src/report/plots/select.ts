@@ -1,6 +1,7 @@
 // Which runs become points, and an honest count of the rest: failed runs (by status) and ok runs
 // whose value cannot sit on a log axis (missing, zero, negative, NaN or infinite).
 import type { ErrorFigure, RunResult } from '../../results/contract.js';
+import { isUnresolved } from '../../results/contract.js';
 import type { Status } from '../../core/types.js';
 import type { Point } from './spec.js';
 
@@ -36,7 +37,7 @@ function bump(m: Map<string, number>, key: string, by = 1): void {
 
 function unresolved(run: RunResult, m: Measure): boolean {
   if (!m.figure) return false;
-  return run.unresolved?.includes(m.figure) === true || (m.figure === 'final' && run.errorBelowReference === true);
+  return isUnresolved(run, m.figure);
 }
 
 export function selectPoints(runs: readonly RunResult[], x: Measure, y: Measure): Selection {
