@@ -71,6 +71,13 @@ export function parsePositiveInt(text: string, flag: string): number {
   return v;
 }
 
+/** Any finite number (the gate's factors and floor). */
+export function parseNumber(value: string, flag: string): number {
+  const n = Number(value);
+  if (value.trim() === '' || !Number.isFinite(n)) throw new InputError(`expected a number, got ${JSON.stringify(value)}`, flag);
+  return n;
+}
+
 export function parsePositive(text: string, flag: string): number {
   return positiveNumber(text, flag);
 }

@@ -8,6 +8,7 @@ import { InputError } from '../core/errors.js';
 import { runKey, type ErrorFigure, type ResultsFile, type RunResult, type RunSetting } from '../results/contract.js';
 import { STATUSES, type Counts, type Status } from '../core/types.js';
 import { Validator } from '../results/validate.js';
+import { READABLE_RESULTS, validateResults } from '../results/read.js';
 import { resultsConfiguration, type Configuration } from './configuration.js';
 
 export const BASELINE_FORMAT = 'stepgauge-baseline';
@@ -246,4 +247,19 @@ function validateRun(v: Validator, x: unknown, at: string): BaselineRun {
     };
   }
   return out;
+}
+
+/** A baseline may be a baseline file or a full results file (e.g. the last release's sweep). */
+export function readBaselineOrResults(path: string): Baseline | ResultsFile {
+  let value: unknown;
+  try {
+    value = JSON.parse(readFileSync(path, 'utf8'));
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new InputError(code ? `cannot read baseline file (${code})` : `not valid JSON (${(e as Error).message})`, path);
+  }
+  const format = (value as { format?: unknown } | null)?.format;
+  if (format === BASELINE_FORMAT) return validateBaseline(value, path);
+  if (format === 'stepgauge-results') return validateResults(value, path);
+  throw new InputError(`field "format" is ${JSON.stringify(format)}; --baseline reads ${READABLE_BASELINE} or ${READABLE_RESULTS}`, path);
 }

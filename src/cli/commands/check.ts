@@ -1,14 +1,12 @@
 // `stepgauge check`: gate a results file against a committed baseline (exit 1 on regressions).
-import { readFileSync } from 'node:fs';
-import { InputError } from '../../core/errors.js';
-import type { ResultsFile } from '../../results/contract.js';
-import { BASELINE_FORMAT, READABLE_BASELINE, validateBaseline, type Baseline } from '../../gate/baseline.js';
+import { readBaselineOrResults } from '../../gate/baseline.js';
 import { compareResults } from '../../gate/compare.js';
 import { junitXml } from '../../gate/junit.js';
 import { formatComparison } from '../../gate/report-text.js';
 import { writeFileAtomic } from '../../results/atomic.js';
 import { assertReplaceableFile, looksLikeOurJunit } from '../../results/ownership.js';
-import { READABLE_RESULTS, readResultsFile, validateResults } from '../../results/read.js';
+import { readResultsFile } from '../../results/read.js';
+import { parseNumber } from '../options.js';
 import type { RegisterCommand } from './register.js';
 
 interface CheckFlags {
@@ -22,27 +20,6 @@ interface CheckFlags {
   allowMissing?: boolean;
   time?: string;
   verbose?: boolean;
-}
-
-export function numberFlag(value: string, flag: string): number {
-  const n = Number(value);
-  if (value.trim() === '' || !Number.isFinite(n)) throw new InputError(`expected a number, got ${JSON.stringify(value)}`, flag);
-  return n;
-}
-
-/** A baseline may be a baseline file or a full results file (e.g. the last release's sweep). */
-export function readBaselineOrResults(path: string): Baseline | ResultsFile {
-  let value: unknown;
-  try {
-    value = JSON.parse(readFileSync(path, 'utf8'));
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new InputError(code ? `cannot read baseline file (${code})` : `not valid JSON (${(e as Error).message})`, path);
-  }
-  const format = (value as { format?: unknown } | null)?.format;
-  if (format === BASELINE_FORMAT) return validateBaseline(value, path);
-  if (format === 'stepgauge-results') return validateResults(value, path);
-  throw new InputError(`field "format" is ${JSON.stringify(format)}; --baseline reads ${READABLE_BASELINE} or ${READABLE_RESULTS}`, path);
 }
 
 export const registerCheck: RegisterCommand = (program, setExit) => {
@@ -65,12 +42,12 @@ export const registerCheck: RegisterCommand = (program, setExit) => {
       const baseline = readBaselineOrResults(flags.baseline);
       const current = readResultsFile(resultsPath);
       const comparison = compareResults(baseline, current, {
-        errorFactor: numberFlag(flags.errorFactor, '--error-factor'),
-        driftFactor: numberFlag(flags.driftFactor, '--drift-factor'),
-        workFraction: numberFlag(flags.workFraction, '--work-fraction'),
-        ...(flags.floor !== undefined ? { floor: numberFlag(flags.floor, '--floor') } : {}),
+        errorFactor: parseNumber(flags.errorFactor, '--error-factor'),
+        driftFactor: parseNumber(flags.driftFactor, '--drift-factor'),
+        workFraction: parseNumber(flags.workFraction, '--work-fraction'),
+        ...(flags.floor !== undefined ? { floor: parseNumber(flags.floor, '--floor') } : {}),
         allowMissing: flags.allowMissing ?? false,
-        timeFactor: flags.time !== undefined ? numberFlag(flags.time, '--time') : null,
+        timeFactor: flags.time !== undefined ? parseNumber(flags.time, '--time') : null,
         labels: { baseline: flags.baseline, current: resultsPath },
       });
       if (flags.junit) await writeFileAtomic(flags.junit, junitXml(comparison, { timestamp: new Date().toISOString() }));
