@@ -1,14 +1,16 @@
 // Fixed-step, embedded explicit and symplectic methods. A Runge-Kutta method is one tableau file
-// (coefficients and identity, tableaus/*.ts) plus one line in tableaus/index.ts; this file turns
-// each into a Method with its generated kernel, and adds the symplectic compositions.
+// (coefficients and identity, tableaus/*.ts) plus one line in tableaus/index.ts; a symplectic
+// composition of Stormer-Verlet is one file in compositions/ plus one line in its index.ts. This
+// file turns each into a Method (a tableau with its generated kernel).
 import type { Family, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { denseDormandPrince54, type DenseCapability } from './dense-dp54.js';
 import { solveEmbedded } from './embedded.js';
 import { solveFixed } from './fixed.js';
-import { YOSHIDA4_WEIGHTS, VERLET_WEIGHTS, solveVerletComposition } from './symplectic.js';
+import { solveVerletComposition, type CompositionMethod } from './symplectic.js';
 import { compileTableau, type KernelFactory, type Tableau, type TableauData, type TableauMethod } from './tableau.js';
 import { fixedStepKernel, unrolledKernel, type FixedKernelFactory } from './kernels/unrolled.js';
 import * as registry from './tableaus/index.js';
+import * as compositionRegistry from './compositions/index.js';
 
 export { dormandPrince54Dense, type DenseCapability, type DenseEvaluate, type DenseSolveResult } from './dense-dp54.js';
 export { compileTableau, isFsal, type KernelFactory, type StageKernel, type Tableau, type TableauData, type TableauMethod } from './tableau.js';
@@ -23,6 +25,7 @@ export {
 } from './kernels/unrolled.js';
 export { solveEmbedded, type AcceptHook } from './embedded.js';
 export { solveFixed } from './fixed.js';
+export type { CompositionMethod } from './symplectic.js';
 
 interface Meta {
   readonly id: string;
@@ -63,9 +66,11 @@ function embeddedFromTableau(meta: Meta, tab: Tableau): Method {
   };
 }
 
-function symplecticMethod(meta: Meta, order: number, weights: Float64Array): Method {
+function symplecticMethod(meta: CompositionMethod): Method {
+  // One weights array per method: the engine keys its work buffers on it (work-lease.ts).
+  const weights = Float64Array.from(meta.weights);
   return {
-    ...describe(meta, 'symplectic', order, false),
+    ...describe(meta, 'symplectic', meta.order, false),
     needsSeparable: true,
     solve: (problem: Problem, setting: Setting, options: SolveOptions): SolveResult =>
       solveVerletComposition(weights, meta.id, problem, setting, options),
@@ -82,10 +87,11 @@ function tableauMethod(rec: TableauMethod): Method | DenseMethod {
 }
 
 const familyRank = (d: TableauData): number => (d.bHat ? 1 : 0);
+const byId = (x: { id: string }, y: { id: string }): number => (x.id < y.id ? -1 : x.id > y.id ? 1 : 0);
 
 /** Every registered tableau, fixed-step first, then by published order, then by id. */
 export const explicitTableaus: readonly TableauMethod[] = Object.values(registry).sort(
-  (x, y) => familyRank(x.tableau) - familyRank(y.tableau) || x.tableau.order - y.tableau.order || (x.id < y.id ? -1 : x.id > y.id ? 1 : 0),
+  (x, y) => familyRank(x.tableau) - familyRank(y.tableau) || x.tableau.order - y.tableau.order || byId(x, y),
 );
 
 const rungeKuttaMethods = explicitTableaus.map(tableauMethod);
@@ -100,25 +106,10 @@ export function tableauMethodById(id: string): Method {
 /** Dormand-Prince 5(4) with its continuous extension. */
 export const dormandPrince54 = tableauMethodById('dormand-prince-54') as DenseMethod;
 
-export const stormerVerlet = symplecticMethod(
-  {
-    id: 'stormer-verlet',
-    name: 'Stormer-Verlet (velocity Verlet)',
-    source:
-      'E. Hairer, C. Lubich and G. Wanner, Geometric numerical integration illustrated by the Stormer-Verlet method, Acta Numerica 12 (2003) 399-450',
-  },
-  2,
-  VERLET_WEIGHTS,
-);
-export const yoshida4 = symplecticMethod(
-  {
-    id: 'yoshida-4',
-    name: 'Yoshida 4th-order triple jump',
-    source: 'H. Yoshida, Construction of higher order symplectic integrators, Phys. Lett. A 150 (1990) 262-268',
-  },
-  4,
-  YOSHIDA4_WEIGHTS,
+/** Every registered symplectic composition, by published order, then by id. */
+export const symplecticCompositions: readonly CompositionMethod[] = Object.values(compositionRegistry).sort(
+  (x, y) => x.order - y.order || byId(x, y),
 );
 
 /** Fixed-step, embedded explicit and symplectic methods. */
-export const explicitMethods: Method[] = [...rungeKuttaMethods, stormerVerlet, yoshida4];
+export const explicitMethods: Method[] = [...rungeKuttaMethods, ...symplecticCompositions.map(symplecticMethod)];

@@ -9,6 +9,20 @@ import { driveFixed } from '../fixed-step.js';
 import { checkOptions, checkProblem } from '../rules.js';
 import { fixedStepCount } from '../../core/setting.js';
 
+/**
+ * A symplectic method as data: its identity and the relative lengths of its Stormer-Verlet
+ * substeps (summing to 1). One file per method in compositions/, one line in compositions/index.ts.
+ */
+export interface CompositionMethod {
+  readonly id: string;
+  readonly name: string;
+  readonly source: string;
+  readonly notes?: string;
+  /** The published order. */
+  readonly order: number;
+  readonly weights: readonly number[];
+}
+
 /** Position and velocity indices as typed arrays, checked to split 0..n-1 exactly. */
 function splitOf(problem: Problem, methodId: string): { pos: Int32Array; vel: Int32Array } {
   const sep = problem.separable;
@@ -105,15 +119,3 @@ function stepComposition(
     return undefined;
   }, counts, start);
 }
-
-/** Stormer-Verlet: one substep. */
-export const VERLET_WEIGHTS = Float64Array.of(1);
-
-/**
- * Yoshida's fourth-order triple jump, H. Yoshida, "Construction of higher order symplectic
- * integrators", Phys. Lett. A 150 (1990) 262-268: w1 = 1/(2 - 2^(1/3)), w0 = -2^(1/3) w1.
- */
-const CBRT2 = Math.cbrt(2);
-const W1 = 1 / (2 - CBRT2);
-const W0 = -CBRT2 / (2 - CBRT2);
-export const YOSHIDA4_WEIGHTS = Float64Array.of(W1, W0, W1);
