@@ -137,7 +137,10 @@ export interface Problem {
   readonly title: string;
   /** Where the equations and reference values come from. */
   readonly source: string;
-  /** Equations and notes in plain text, shown in reports. */
+  /**
+   * Equations and notes in plain text, for library users (a catalogue problem's is its file's
+   * header comment, which also ends its definition, the text reports show).
+   */
   readonly description?: string;
   readonly dimension: number;
   readonly stateNames?: readonly string[];
