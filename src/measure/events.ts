@@ -1,23 +1,17 @@
-// Events: the times where a problem's event functions cross zero in their direction. A run's
-// crossings are found between its accepted steps (a sign change of g from one step to the next)
-// and located on the Hermite interpolant of the two steps (src/measure/hermite.ts) with a
-// bracketing root finder. The interpolant is built from the run's own states and the right-hand
-// side at and beside them (three evaluations per accepted step, made here, outside the method's
-// counts); it is stepgauge's, not the method's own dense output; a step that jumps over an even number
-// of crossings (a short eclipse) sees no sign change and the crossings are missed, as they would
-// be by any integrator that tests for events only at its steps.
+// Events: the reference crossing times of a problem's event functions, and a run's crossings
+// compared with them (time error per occurrence, missed and extra). A run's crossings are found by
+// src/measure/event-watch.ts (the method's own interpolant where it has one, else stepgauge's
+// Hermite), or reported by an external program.
 // Reference crossings: given by the problem (analytic), located on an exact reference, or else
 // located on a tight solve of the problem (dormand-prince-853 at rtol 1e-13, steps bounded to a
 // hundredth of the span; not for stiff problems).
-import type { EventDirection, Problem } from '../core/types.js';
+import type { Problem } from '../core/types.js';
 import type { EventRecord } from '../results/contract.js';
 import { illinoisRoot } from '../core/root.js';
-import { hermiteAt, secondDerivative, type StepEnds } from './hermite.js';
 import { findMethod } from '../methods/registry.js';
 import { absoluteTolerance } from '../core/tolerance.js';
+import { crosses, ROOT_REL_TOL, watchEvents } from './event-watch.js';
 
-/** Root-finding tolerance in time, relative to the span's time scale (|t| or the step). */
-const ROOT_REL_TOL = 4 * Number.EPSILON;
 /** Intervals of the scan for sign changes of g along an exact reference. */
 const EXACT_SCAN_INTERVALS = 20000;
 /**
@@ -29,75 +23,6 @@ const TIGHT_METHOD = 'dormand-prince-853';
 const TIGHT_RTOL = 1e-13;
 const TIGHT_MAX_STEPS = 5_000_000;
 const TIGHT_STEP_FRACTION = 0.01;
-
-export interface EventWatch {
-  observe(t: number, y: Float64Array): void;
-  /** Crossing times found so far, by event name. */
-  found(): Record<string, number[]>;
-}
-
-function crosses(direction: EventDirection, ga: number, gb: number): boolean {
-  const rising = ga < 0 && gb >= 0;
-  const falling = ga > 0 && gb <= 0;
-  return direction === 'rising' ? rising : direction === 'falling' ? falling : rising || falling;
-}
-
-/** Watches a run's accepted steps for crossings; null when the problem declares no events. */
-export function watchEvents(problem: Problem): EventWatch | null {
-  const events = problem.events ?? [];
-  if (events.length === 0) return null;
-  const n = problem.dimension;
-  const orbit = problem.orbit;
-  const f = problem.f;
-  const ends: StepEnds = {
-    tA: NaN,
-    tB: NaN,
-    yA: new Float64Array(n),
-    yB: new Float64Array(n),
-    fA: new Float64Array(n),
-    fB: new Float64Array(n),
-    gA: new Float64Array(n),
-    gB: new Float64Array(n),
-  };
-  const work = { y: new Float64Array(n), fp: new Float64Array(n), fm: new Float64Array(n) };
-  const yi = new Float64Array(n);
-  const gPrev = new Float64Array(events.length);
-  const times = events.map(() => [] as number[]);
-  let started = false;
-  return {
-    observe(t, y) {
-      if (started && t === ends.tB) return; // the same landing reported twice
-      for (let i = 0; i < n; i++) if (!Number.isFinite(y[i]!)) return;
-      // Shift B to A, then take the new point as B.
-      const ya = ends.yA;
-      const fa = ends.fA;
-      const ga = ends.gA;
-      ends.yA = ends.yB;
-      ends.fA = ends.fB;
-      ends.gA = ends.gB;
-      ends.yB = ya;
-      ends.fB = fa;
-      ends.gB = ga;
-      ends.tA = ends.tB;
-      ends.tB = t;
-      ends.yB.set(y);
-      f(t, ends.yB, ends.fB);
-      secondDerivative(f, t, ends.yB, ends.fB, ends.gB, work);
-      for (let k = 0; k < events.length; k++) {
-        const ev = events[k]!;
-        const g = ev.fn(t, ends.yB);
-        if (started && crosses(ev.direction, gPrev[k]!, g)) {
-          const tol = ROOT_REL_TOL * Math.max(Math.abs(ends.tA), Math.abs(t), ends.tB - ends.tA);
-          const at = (s: number) => (hermiteAt(ends, s, yi, orbit), ev.fn(s, yi));
-          times[k]!.push(illinoisRoot(at, ends.tA, gPrev[k]!, t, g, tol));
-        }
-        gPrev[k] = g;
-      }
-      started = true;
-    },
-    found: () => Object.fromEntries(events.map((ev, k) => [ev.name, times[k]!])),
-  };
-}
 
 const exactCache = new WeakMap<object, Record<string, number[]> | null>();
 
@@ -178,8 +103,11 @@ export function matchCrossings(reference: readonly number[], found: readonly num
   return { timeErrors, extra: found.length - used.size };
 }
 
-/** The run's event records, compared with the reference crossings where there are some. */
-export function eventRecords(problem: Problem, found: Record<string, number[]>): Record<string, EventRecord> {
+/**
+ * The run's event records, compared with the reference crossings where there are some.
+ * locatedBy(name): how that event's crossings were found (which interpolant, or the program's report).
+ */
+export function eventRecords(problem: Problem, found: Record<string, number[]>, locatedBy: (name: string) => string): Record<string, EventRecord> {
   const reference = referenceEventTimes(problem);
   const span = problem.tEnd - problem.t0;
   const out: Record<string, EventRecord> = {};
@@ -187,7 +115,7 @@ export function eventRecords(problem: Problem, found: Record<string, number[]>):
     const times = found[ev.name] ?? [];
     const ref = reference?.[ev.name] ?? null;
     if (!ref) {
-      out[ev.name] = { direction: ev.direction, times, reference: null, timeErrors: null, maxTimeError: null, missed: null, extra: null };
+      out[ev.name] = { direction: ev.direction, times, reference: null, timeErrors: null, maxTimeError: null, missed: null, extra: null, locatedBy: locatedBy(ev.name) };
       continue;
     }
     const { timeErrors, extra } = matchCrossings(ref, times, span);
@@ -200,6 +128,7 @@ export function eventRecords(problem: Problem, found: Record<string, number[]>):
       maxTimeError: matched.length > 0 ? Math.max(...matched.map(Math.abs)) : null,
       missed: timeErrors.length - matched.length,
       extra,
+      locatedBy: locatedBy(ev.name),
     };
   }
   return out;

@@ -101,7 +101,7 @@ export interface SecondDerivativeWork {
 /** Cube root of the unit round-off: the centred difference's step, relative. */
 const DIFF_REL = 6e-6;
 
-/** y'' = d f(t, y(t))/dt at (t, y) with f = f(t, y) given, into out. Two evaluations of rhs. */
+/** y'' = d f(t, y(t))/dt at (t, y) with f = f(t, y) given, into out; returns the evaluations of rhs made (2, or 0 where f = 0). */
 export function secondDerivative(
   rhs: (t: number, y: Float64Array, dy: Float64Array) => void,
   t: number,
@@ -109,7 +109,7 @@ export function secondDerivative(
   f: Float64Array,
   out: Float64Array,
   work: SecondDerivativeWork,
-): void {
+): number {
   const n = y.length;
   let ySize = 0;
   let fSize = 0;
@@ -119,7 +119,7 @@ export function secondDerivative(
   }
   if (fSize === 0) {
     out.fill(0);
-    return;
+    return 0;
   }
   // d moves the state by about DIFF_REL of its size (or of the time, when that is larger).
   const d = DIFF_REL * Math.max(ySize > 0 ? ySize / fSize : 1, Math.abs(t) > 0 ? Math.abs(t) * 1e-3 : 0);
@@ -128,6 +128,7 @@ export function secondDerivative(
   for (let i = 0; i < n; i++) work.y[i] = y[i]! - d * f[i]!;
   rhs(t - d, work.y, work.fm);
   for (let i = 0; i < n; i++) out[i] = (work.fp[i]! - work.fm[i]!) / (2 * d);
+  return 2;
 }
 
 /** The interpolated state at t in [tA, tB], written into out. */

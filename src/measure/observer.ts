@@ -1,13 +1,15 @@
 // What one measured solve watches along the way: the worst error at the solver's own accepted steps
 // where the reference can be evaluated (every step for an exact reference, a tabulated one where a
 // step ends on its times), the error at the output times from the run's interpolant, each beside
-// the reference's resolution at that point; the worst drift of every invariant, and a thinned
-// drift trace for plots.
+// the reference's resolution at that point; the error of the method's own interpolant at step
+// midpoints (src/measure/dense-accuracy.ts); event crossings; the worst drift of every invariant,
+// and a thinned drift trace for plots.
 import type { Problem } from '../core/types.js';
 import type { DriftTrace, OrbitErrorRecord } from '../results/contract.js';
 import { errorMeter } from './error-norm.js';
 import { referenceLookup } from './reference.js';
-import { watchEvents } from './events.js';
+import { watchEvents } from './event-watch.js';
+import { watchDenseAccuracy } from './dense-accuracy.js';
 import { orbitErrorInto } from './orbit-error.js';
 import { sampleOutputs, type OutputInterpolant, type StepInterpolant } from './output-times.js';
 
@@ -54,6 +56,8 @@ export interface RunWatch {
   outputs(): Figure | null;
   /** Which interpolant gave the values at output times (null: none was needed). */
   outputInterpolant(): OutputInterpolant | null;
+  /** Worst error of the method's own interpolant at step midpoints (null: no interpolant or no reference there). */
+  dense(): Figure | null;
   drift(): Record<string, number>;
   trace(): DriftTrace | undefined;
   /** How many observed points were compared with the reference. */
@@ -62,6 +66,8 @@ export interface RunWatch {
   orbitAlong(): Pick<OrbitErrorRecord, 'max' | 'trace'> | undefined;
   /** Event crossing times found (problems with events). */
   eventsFound(): Record<string, number[]> | undefined;
+  /** Right-hand-side evaluations made to locate events, outside the method's counts. */
+  eventEvaluations(): number;
 }
 
 /**
@@ -124,7 +130,9 @@ export function watchRun(problem: Problem, methodInterpolant = false): RunWatch 
   let lastRicBucket = -1;
   const ricT = new NumberLog();
   const ricParts = [new NumberLog(), new NumberLog(), new NumberLog()];
-  const events = watchEvents(problem);
+  const events = watchEvents(problem, methodInterpolant);
+  const worstDense = new WorstFigure();
+  const dense = methodInterpolant ? watchDenseAccuracy(problem, lookup, meter, (e, r) => worstDense.add(e, r)) : null;
 
   const observer = (t: number, y: Float64Array): void => {
     if (events) events.observe(t, y);
@@ -168,11 +176,16 @@ export function watchRun(problem: Problem, methodInterpolant = false): RunWatch 
 
   return {
     observer,
-    denseStep: (tOld, tNew, evaluate) => outputs.step(tOld, tNew, evaluate),
+    denseStep(tOld, tNew, evaluate) {
+      if (events) events.step(tOld, tNew, evaluate);
+      if (dense) dense.step(tOld, tNew, evaluate);
+      outputs.step(tOld, tNew, evaluate);
+    },
     maxError: () => worstAlong.figure()?.value ?? null,
     along: () => worstAlong.figure(),
     outputs: () => worstOutput.figure(),
     outputInterpolant: () => outputs.interpolant(),
+    dense: () => worstDense.figure(),
     comparedPoints: () => worstAlong.count,
     orbitAlong() {
       if (!orbit || ricCompared === 0) return undefined;
@@ -182,6 +195,7 @@ export function watchRun(problem: Problem, methodInterpolant = false): RunWatch 
       };
     },
     eventsFound: () => events?.found(),
+    eventEvaluations: () => events?.evaluations() ?? 0,
     drift() {
       const out: Record<string, number> = {};
       invariants.forEach((inv, k) => (out[inv.name] = worstDrift[k]!));

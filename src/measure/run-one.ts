@@ -12,6 +12,7 @@ import type { OutputInterpolant } from './output-times.js';
 import { roundTripError } from './round-trip.js';
 import { solveOptions, type RunOptions } from './run-options.js';
 import { eventRecords } from './events.js';
+import { HERMITE_EVENT_INTERPOLANT } from './event-watch.js';
 import { orbitErrorInto } from './orbit-error.js';
 import type { OrbitErrorParts } from '../results/contract.js';
 import { nonFiniteComponent, unsoundSolveResult } from './result-check.js';
@@ -41,6 +42,11 @@ function interpolantText(kind: OutputInterpolant, method: Method): string {
   if (kind === 'landed') return 'landed: every output time was the end of a step';
   if (kind === 'method') return `the method's own continuous extension${method.notes ? ` (${method.notes})` : ''}`;
   return "cubic Hermite between accepted steps, built by stepgauge: the method publishes no interpolant here";
+}
+
+/** The method's own interpolant, named with its source (the method's notes say which it is). */
+function ownInterpolantText(method: Method): string {
+  return `${method.id}'s own continuous extension${method.notes ? ` (${method.notes})` : ''}`;
 }
 
 function isUnresolved(f: Figure | null): boolean {
@@ -87,7 +93,11 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   const trace = watch.trace();
   if (trace) run.trace = trace;
   const found = watch.eventsFound();
-  if (found) run.events = eventRecords(problem, found);
+  if (found) {
+    const locatedBy = own ? ownInterpolantText(method) : HERMITE_EVENT_INTERPOLANT;
+    run.events = eventRecords(problem, found, () => locatedBy);
+    run.eventEvaluations = watch.eventEvaluations();
+  }
   const nonFinite = result.status === 'ok' ? nonFiniteComponent(result.yFinal) : undefined;
   if (nonFinite) {
     run.status = 'diverged';
@@ -122,13 +132,21 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
     }
     const outputs = watch.outputs();
     const kind = watch.outputInterpolant();
-    run.error = { final: final.value, max: max.value, ...(outputs ? { outputs: outputs.value } : {}) };
-    run.resolution = { final: final.resolution, max: max.resolution, ...(outputs ? { outputs: outputs.resolution } : {}) };
+    const dense = watch.dense();
+    run.error = { final: final.value, max: max.value, ...(outputs ? { outputs: outputs.value } : {}), ...(dense ? { dense: dense.value } : {}) };
+    run.resolution = {
+      final: final.resolution,
+      max: max.resolution,
+      ...(outputs ? { outputs: outputs.resolution } : {}),
+      ...(dense ? { dense: dense.resolution } : {}),
+    };
     if (kind) run.outputInterpolant = interpolantText(kind, method);
+    if (dense) run.denseInterpolant = ownInterpolantText(method);
     const unresolved: ErrorFigure[] = [];
     if (isUnresolved(final)) unresolved.push('final');
     if (isUnresolved(max)) unresolved.push('max');
     if (isUnresolved(outputs)) unresolved.push('outputs');
+    if (isUnresolved(dense)) unresolved.push('dense');
     if (unresolved.length > 0) run.unresolved = unresolved;
     if (unresolved.includes('final')) run.errorBelowReference = true;
     const reported = result.reportedPoints;

@@ -8,7 +8,8 @@ import type { PlotSpec } from './plots/spec.js';
 import { chartElement, chartScripts, INTERACTIVE_STYLE } from './interactive.js';
 import { referenceIndependence, type ProblemSection, type ReportModel } from './model.js';
 import { levelsNote, type BestAtLevel } from './summary.js';
-import { COLUMNS, tableRows } from './table.js';
+import { sectionColumns, tableRows } from './table.js';
+import { interpolantNotes } from './interpolant-notes.js';
 
 const STYLE = `
 :root { --ink:#1d2430; --muted:#5a6372; --line:#d9dde3; --band:#f4f6f8; --accent:#1b4f8a; --warn:#8a4b00; --warnbg:#fff6e5; --bad:#a3224f; }
@@ -146,12 +147,13 @@ function sectionHtml(sec: ProblemSection, m: ReportModel, charts: PlotSpec[]): s
       return `<figure>${chartElement(index, spec.title)}<figcaption>${h(spec.title)}. ${spec.notes.map(h).join(' ')} Hover a point for its run; click a legend entry to hide that series; drag a rectangle to zoom, double-click to reset.</figcaption><details><summary>Static image (as in report.md)</summary><img src="data:image/png;base64,${png.toString('base64')}" width="1200" height="800" alt="${h(spec.title)}"></details></figure>`;
     })
     .join('\n');
-  const head = COLUMNS.map((c) => `<th${c.numeric ? ' class="num" data-type="number"' : ' data-type="text"'}>${h(c.header)}</th>`).join('');
-  const rows = tableRows(sec.runs, m.methods)
+  const columns = sectionColumns(sec.runs, m.methods);
+  const head = columns.map((c) => `<th${c.numeric ? ' class="num" data-type="number"' : ' data-type="text"'}>${h(c.header)}</th>`).join('');
+  const rows = tableRows(sec.runs, m.methods, columns)
     .map((cells, i) => {
       const failed = sec.runs[i]!.status !== 'ok';
       const tds = cells
-        .map((cell, j) => `<td${COLUMNS[j]!.numeric ? ' class="num"' : ''} data-sort="${cell.sort === null ? '' : h(String(cell.sort))}">${h(cell.text)}</td>`)
+        .map((cell, j) => `<td${columns[j]!.numeric ? ' class="num"' : ''} data-sort="${cell.sort === null ? '' : h(String(cell.sort))}">${h(cell.text)}</td>`)
         .join('');
       return `<tr${failed ? ' class="failed"' : ''}>${tds}</tr>`;
     })
@@ -162,6 +164,7 @@ ${def}
 ${figs}
 <h3>Runs</h3>
 <p class="sub">Click a column header to sort. Measured values to 3 significant digits, work counts exact; results.json keeps full precision.</p>
+${interpolantNotes(sec.runs).map((n) => `<p class="sub">${h(n)}</p>`).join('\n')}
 <div class="scroll"><table class="sortable"><thead><tr>${head}</tr></thead><tbody>
 ${rows}
 </tbody></table></div></section>`;

@@ -6,7 +6,8 @@ import { integer, settingLabel, sig3 } from './format.js';
 import { decadeLabel } from './plots/axes.js';
 import { referenceIndependence, type ReportModel } from './model.js';
 import { levelsNote, type BestAtLevel } from './summary.js';
-import { COLUMNS, tableRows } from './table.js';
+import { sectionColumns, tableRows } from './table.js';
+import { interpolantNotes } from './interpolant-notes.js';
 
 function row(cells: string[]): string {
   return `| ${cells.join(' | ')} |`;
@@ -69,8 +70,10 @@ export function renderMarkdown(m: ReportModel): string {
       else out.push(`![${e(it.drawn.spec.title)}](plots/${it.drawn.spec.file})`, '', `${e(it.drawn.spec.notes.join(' '))}`, '');
     }
     out.push('### Runs', '');
-    const rows = tableRows(sec.runs, m.methods).map((cells) => cells.map((c) => e(c.text)));
-    out.push(table(COLUMNS.map((c) => c.header), rows, COLUMNS.map((c) => c.numeric)), '');
+    for (const note of interpolantNotes(sec.runs)) out.push(e(note), '');
+    const columns = sectionColumns(sec.runs, m.methods);
+    const rows = tableRows(sec.runs, m.methods, columns).map((cells) => cells.map((c) => e(c.text)));
+    out.push(table(columns.map((c) => c.header), rows, columns.map((c) => c.numeric)), '');
   }
 
   out.push('## Environment fingerprint', '');

@@ -16,6 +16,8 @@ export interface Column {
   header: string;
   numeric: boolean;
   cell: (run: RunResult, methods: Map<string, MethodInfo>) => Cell;
+  /** Shown only in sections where some run has a value (figures most problems or methods lack). */
+  optional?: boolean;
 }
 
 function num(v: number | null | undefined, show: (v: number | null | undefined) => string = sig3): Cell {
@@ -36,6 +38,22 @@ export function maxDrift(run: RunResult): number | null {
   return Math.max(...values);
 }
 
+/**
+ * The run's event timing: the worst |time error| over its events' matched crossings, and how many
+ * crossings it missed or added; missed or extra sort last, like the event-time measure.
+ */
+function eventCell(r: RunResult): Cell {
+  const records = Object.values(r.events ?? {}).filter((e) => e.reference !== null);
+  if (records.length === 0) return { text: '—', sort: null };
+  const matched = records.map((e) => e.maxTimeError).filter((v): v is number => v !== null);
+  const worst = matched.length > 0 ? Math.max(...matched) : null;
+  const missed = records.reduce((a, e) => a + (e.missed ?? 0), 0);
+  const extra = records.reduce((a, e) => a + (e.extra ?? 0), 0);
+  const notes = [missed > 0 ? `${missed} missed` : '', extra > 0 ? `${extra} extra` : ''].filter(Boolean);
+  const text = `${sig3(worst)}${notes.length > 0 ? ` (${notes.join(', ')})` : ''}`;
+  return { text, sort: missed + extra > 0 ? Infinity : worst };
+}
+
 /** A count, or "not reported" for a program that reports no work. */
 function countCell(r: RunResult, v: number): Cell {
   return r.countsReported === false ? { text: 'not reported', sort: null } : num(v, integer);
@@ -48,6 +66,8 @@ export const COLUMNS: readonly Column[] = [
   { key: 'errorFinal', header: 'error.final', numeric: true, cell: (r) => errorCell(r, 'final') },
   { key: 'errorMax', header: 'error.max', numeric: true, cell: (r) => errorCell(r, 'max') },
   { key: 'errorOutputs', header: 'error.outputs', numeric: true, cell: (r) => errorCell(r, 'outputs') },
+  { key: 'errorDense', header: 'error.dense', numeric: true, cell: (r) => errorCell(r, 'dense'), optional: true },
+  { key: 'eventTime', header: 'event time error', numeric: true, cell: eventCell, optional: true },
   { key: 'drift', header: 'max drift', numeric: true, cell: (r) => num(maxDrift(r)) },
   { key: 'nfev', header: 'nfev', numeric: true, cell: (r) => countCell(r, r.counts.nfev) },
   { key: 'njev', header: 'njev', numeric: true, cell: (r) => countCell(r, r.counts.njev) },
@@ -58,6 +78,11 @@ export const COLUMNS: readonly Column[] = [
   { key: 'message', header: 'message', numeric: false, cell: (r) => ({ text: r.message ?? '', sort: r.message ?? null }) },
 ];
 
-export function tableRows(runs: readonly RunResult[], methods: Map<string, MethodInfo>): Cell[][] {
-  return runs.map((r) => COLUMNS.map((c) => c.cell(r, methods)));
+/** The columns of one section's table: every column but the optional ones no run fills. */
+export function sectionColumns(runs: readonly RunResult[], methods: Map<string, MethodInfo>): readonly Column[] {
+  return COLUMNS.filter((c) => !c.optional || runs.some((r) => c.cell(r, methods).sort !== null));
+}
+
+export function tableRows(runs: readonly RunResult[], methods: Map<string, MethodInfo>, columns: readonly Column[] = COLUMNS): Cell[][] {
+  return runs.map((r) => columns.map((c) => c.cell(r, methods)));
 }

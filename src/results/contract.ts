@@ -45,6 +45,12 @@ export interface EventRecord {
   maxTimeError: number | null;
   missed: number | null;
   extra: number | null;
+  /**
+   * How the run's crossing times were found (added later): the interpolant they were located on
+   * (the method's own continuous extension, or stepgauge's Hermite of the accepted steps), or
+   * "reported by the program" for an external program that reports its event times.
+   */
+  locatedBy?: string;
 }
 
 export interface RunResult {
@@ -56,11 +62,13 @@ export interface RunResult {
   /**
    * final: at the end of the span; max: worst over the solver's own accepted steps where the
    * reference can be evaluated, and the end; outputs (added later): worst at the problem's output
-   * times, from the values the run gives there (see outputInterpolant).
+   * times, from the values the run gives there (see outputInterpolant); dense (added later): worst
+   * at the midpoint of every accepted step, from the method's own interpolant (see
+   * denseInterpolant), for methods that offer one and references that have a value there.
    */
-  error: { final: number | null; max: number | null; outputs?: number | null };
+  error: { final: number | null; max: number | null; outputs?: number | null; dense?: number | null };
   /** The reference's resolution at each error figure's own point, in the figure's units. */
-  resolution?: { final: number | null; max: number | null; outputs?: number | null };
+  resolution?: { final: number | null; max: number | null; outputs?: number | null; dense?: number | null };
   /**
    * Error figures within reach of the resolution (at most 10 times it): not confirmed by the
    * reference, so drawn as such, left out of fits and never meeting a `choose` target.
@@ -70,6 +78,8 @@ export interface RunResult {
   landing?: 'own-steps' | 'check-times';
   /** Where the values at output times came from (the method's own interpolant, or which other). */
   outputInterpolant?: string;
+  /** The interpolant error.dense measured (the method's own, named with its source). */
+  denseInterpolant?: string;
   drift: Record<string, number>;
   counts: Counts;
   time: {
@@ -99,6 +109,11 @@ export interface RunResult {
   orbitError?: OrbitErrorRecord;
   /** Event crossings located in the run, by event name (problems that declare events). */
   events?: Record<string, EventRecord>;
+  /**
+   * Right-hand-side evaluations stepgauge made to locate the run's events (its Hermite
+   * interpolant), not part of `counts`; 0 when the method's own interpolant located them.
+   */
+  eventEvaluations?: number;
   /** False when the method did not report its work (an external program): counts are not figures. */
   countsReported?: boolean;
   /** External programs: SHA-256 of the reported times and states (settings that change nothing). */
@@ -156,7 +171,7 @@ export interface ResultsFile {
   [extra: string]: unknown;
 }
 
-export type ErrorFigure = 'final' | 'max' | 'outputs';
+export type ErrorFigure = 'final' | 'max' | 'outputs' | 'dense';
 
 /**
  * True when the run marks this error figure as within reach of its reference's resolution:

@@ -79,6 +79,7 @@ const COLUMNS: readonly Column[] = [
   ['error_outputs', (r) => cell(r.error.outputs)],
   ['unresolved', (r) => (r.unresolved ?? []).join(' ')],
   ['landing', (r) => r.landing ?? ''],
+  ['error_dense', (r) => cell(r.error.dense)],
 ];
 
 /** The header row: the contract's columns first (DESIGN.md), extras after. */

@@ -12,6 +12,7 @@ import {
   type ResultsFile,
   type RunResult,
   type RunSetting,
+  type ErrorFigure,
 } from './contract.js';
 import { STATUSES, type Status } from '../core/types.js';
 import { stepsProblem, toleranceProblem } from '../core/setting.js';
@@ -21,6 +22,7 @@ import { Validator } from './validate.js';
 export const READABLE_RESULTS = `${RESULTS_FORMAT} version ${RESULTS_VERSION}`;
 
 const REFERENCE_KINDS = ['exact', 'published', 'certified', 'trajectory', 'self'] as const;
+const ERROR_FIGURES: readonly ErrorFigure[] = ['final', 'max', 'outputs', 'dense'];
 
 /** Reads and validates a results file; throws InputError naming the file and field. */
 export function readResultsFile(path: string): ResultsFile {
@@ -86,6 +88,25 @@ function validateRun(v: Validator, value: unknown, at: string): RunResult {
   const error = v.object(r.error, `${at}.error`);
   v.numberOrNull(error.final, `${at}.error.final`);
   v.numberOrNull(error.max, `${at}.error.max`);
+  for (const k of ['outputs', 'dense'] as const) if (error[k] !== undefined) v.numberOrNull(error[k], `${at}.error.${k}`);
+  if (r.resolution !== undefined) {
+    const res = v.object(r.resolution, `${at}.resolution`);
+    for (const k of ['final', 'max', 'outputs', 'dense'] as const) if (res[k] !== undefined) v.numberOrNull(res[k], `${at}.resolution.${k}`);
+  }
+  if (r.unresolved !== undefined) {
+    v.array(r.unresolved, `${at}.unresolved`).forEach((f, i) => {
+      if (!ERROR_FIGURES.includes(f as ErrorFigure)) v.fail(`${at}.unresolved[${i}]`, `is ${JSON.stringify(f)}, expected one of ${ERROR_FIGURES.join(', ')}`);
+    });
+  }
+  if (r.denseInterpolant !== undefined) v.string(r.denseInterpolant, `${at}.denseInterpolant`);
+  if (r.eventEvaluations !== undefined) v.integer(r.eventEvaluations, `${at}.eventEvaluations`, 0);
+  if (r.events !== undefined) {
+    for (const [name, e] of Object.entries(v.object(r.events, `${at}.events`))) {
+      const rec = v.object(e, `${at}.events.${name}`);
+      v.array(rec.times, `${at}.events.${name}.times`);
+      if (rec.locatedBy !== undefined) v.string(rec.locatedBy, `${at}.events.${name}.locatedBy`);
+    }
+  }
   const driftIn = v.object(r.drift, `${at}.drift`);
   const drift: Record<string, number> = {};
   for (const [name, d] of Object.entries(driftIn)) {
