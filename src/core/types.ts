@@ -291,6 +291,8 @@ export interface SolveResult {
   reportedPoints?: number;
   /** SHA-256 of everything the method reported (external programs), to find settings that change nothing. */
   outputSha256?: string;
+  /** Event crossing times the method located itself, by event name (external programs that report them). */
+  eventTimes?: Record<string, number[]>;
 }
 
 /** How a solve's time was obtained when the method times itself (external programs). */

@@ -44,6 +44,9 @@ function interpolantText(kind: OutputInterpolant, method: Method): string {
   return "cubic Hermite between accepted steps, built by stepgauge: the method publishes no interpolant here";
 }
 
+/** locatedBy of an event whose crossing times an external program reported itself. */
+export const PROGRAM_REPORTED = 'reported by the program';
+
 /** The method's own interpolant, named with its source (the method's notes say which it is). */
 function ownInterpolantText(method: Method): string {
   return `${method.id}'s own continuous extension${method.notes ? ` (${method.notes})` : ''}`;
@@ -94,8 +97,10 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   if (trace) run.trace = trace;
   const found = watch.eventsFound();
   if (found) {
-    const locatedBy = own ? ownInterpolantText(method) : HERMITE_EVENT_INTERPOLANT;
-    run.events = eventRecords(problem, found, () => locatedBy);
+    const located = own ? ownInterpolantText(method) : HERMITE_EVENT_INTERPOLANT;
+    const reported = result.eventTimes ?? {};
+    const times = { ...found, ...reported };
+    run.events = eventRecords(problem, times, (name) => (name in reported ? PROGRAM_REPORTED : located));
     run.eventEvaluations = watch.eventEvaluations();
   }
   const nonFinite = result.status === 'ok' ? nonFiniteComponent(result.yFinal) : undefined;

@@ -123,6 +123,7 @@ export function programMethod(spec: ProgramSpec): Method {
       reportedPoints: count,
       outputSha256: outputHash(out),
     };
+    if (out.events) result.eventTimes = out.events;
     if (out.message) result.message = out.message;
     else if (out.status !== 'ok') result.message = `the program reported ${out.status}${stderr}`;
     if (!adaptive) result.h = (problem.tEnd - problem.t0) / (setting as { steps: number }).steps;

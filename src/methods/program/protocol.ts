@@ -3,6 +3,7 @@
 // program answers (a JSON response, or CSV from a program that ignores its input).
 import type { Problem, Setting, Status } from '../../core/types.js';
 import { isAdaptiveSetting } from '../../core/types.js';
+import { readEventTimes, requestEvents } from './event-times.js';
 
 export const PROTOCOL_NAME = 'stepgauge-program';
 export const PROTOCOL_VERSION = 1;
@@ -13,6 +14,8 @@ export interface ProgramRequest {
   problem: { id: string; states: string[]; t0: number; tEnd: number; y0: number[]; parameters: Record<string, number> };
   setting: { rtol: number; atol: number | number[] } | { steps: number; h: number };
   outputTimes: number[];
+  /** The problem's events (name and direction), when it declares any: a program may report their crossing times. */
+  events?: { name: string; direction: string }[];
 }
 
 export function stateNames(problem: Problem): string[] {
@@ -28,6 +31,7 @@ export function protocolSetting(problem: Problem, setting: Setting): ProgramRequ
 export function buildRequest(problem: Problem, setting: Setting): ProgramRequest {
   const outputTimes = problem.checkTimes.filter((t) => t > problem.t0 && t < problem.tEnd);
   outputTimes.push(problem.tEnd);
+  const events = requestEvents(problem);
   return {
     protocol: PROTOCOL_NAME,
     version: PROTOCOL_VERSION,
@@ -41,6 +45,7 @@ export function buildRequest(problem: Problem, setting: Setting): ProgramRequest
     },
     setting: protocolSetting(problem, setting),
     outputTimes,
+    ...(events.length > 0 ? { events } : {}),
   };
 }
 
@@ -53,6 +58,8 @@ export interface ProgramOutput {
   states: Float64Array;
   counts?: { nfev: number; njev: number; nlu: number; accepted: number; rejected: number };
   seconds?: number;
+  /** Crossing times the program located itself, by event name (optional `events` member). */
+  events?: Record<string, number[]>;
 }
 
 export type Parsed = { ok: true; output: ProgramOutput } | { ok: false; status: Status; message: string };
@@ -145,6 +152,11 @@ function parseJsonResponse(text: string, problem: Problem): Parsed {
   if (data.seconds !== undefined) {
     if (typeof data.seconds !== 'number' || !(data.seconds >= 0) || !Number.isFinite(data.seconds)) return malformed('seconds must be a number >= 0');
     output.seconds = data.seconds;
+  }
+  if (data.events !== undefined) {
+    const events = readEventTimes(data.events, problem);
+    if (typeof events === 'string') return malformed(events);
+    output.events = events;
   }
   return checkTrajectory(output, problem);
 }
