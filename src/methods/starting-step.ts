@@ -24,25 +24,32 @@ function reciprocalNorm(v: Float64Array, y0: Float64Array, rtol: number, atol: F
   return Math.sqrt(s / n);
 }
 
+/** What the starting step needs: the problem at t0 and the tolerances, and two scratch buffers. */
+export interface StartingStepInput {
+  f: Rhs;
+  t0: number;
+  y0: Float64Array;
+  /** f(t0, y0), already evaluated. */
+  f0: Float64Array;
+  /** The method's order (p in the book). */
+  order: number;
+  rtol: number;
+  atol: Float64Array;
+  /** tEnd - t0: no step is longer. */
+  span: number;
+  n: number;
+  arithmetic: ProbeArithmetic;
+  /** Scratch buffers of length n. */
+  y1: Float64Array;
+  f1: Float64Array;
+}
+
 /**
  * Starting step of Hairer, Norsett and Wanner, Solving ODEs I, sec. II.4 ("Starting step size"):
- * one extra f evaluation at t0 + h0 (the caller counts it). f0 = f(t0, y0) is given; `order` is
- * the order of the method (p in the book). y1 and f1 are scratch buffers of length n.
+ * one extra f evaluation at t0 + h0 (the caller counts it).
  */
-export function startingStep(
-  f: Rhs,
-  t0: number,
-  y0: Float64Array,
-  f0: Float64Array,
-  order: number,
-  rtol: number,
-  atol: Float64Array,
-  span: number,
-  y1: Float64Array,
-  f1: Float64Array,
-  n: number,
-  arithmetic: ProbeArithmetic,
-): number {
+export function startingStep(input: StartingStepInput): number {
+  const { f, t0, y0, f0, order, rtol, atol, span, n, arithmetic, y1, f1 } = input;
   const norm = (v: Float64Array): number => (arithmetic === 'divide' ? scaledRmsNorm(v, y0, y0, rtol, atol, n) : reciprocalNorm(v, y0, rtol, atol, n));
   const d0 = norm(y0);
   const d1 = norm(f0);

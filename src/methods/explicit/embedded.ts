@@ -106,7 +106,7 @@ function stepAdaptively(
   let h: number;
   if (options.initialStep !== undefined) h = Math.min(options.initialStep, tEnd - t0);
   else {
-    h = startingStep(f, t0, y, kRow[0]!, tab.order, rtol, atol, tEnd - t0, yStage, kRow[1 % s]!, n, 'divide');
+    h = startingStep({ f, t0, y0: y, f0: kRow[0]!, order: tab.order, rtol, atol, span: tEnd - t0, n, arithmetic: 'divide', y1: yStage, f1: kRow[1 % s]! });
     counts.nfev++;
   }
   if (observer) observer(t, y);

@@ -182,7 +182,20 @@ export function solveAdaptive(
 /** The shared starting step (methods/starting-step.ts), its probe evaluation counted. */
 function firstStep(problem: Problem, y0: Float64Array, f0: Float64Array, order: number, tol: Tolerances, counts: Counts, yWork: Float64Array, fWork: Float64Array): number {
   counts.nfev++;
-  return startingStep(problem.f, problem.t0, y0, f0, order, tol.rtol, tol.atol, problem.tEnd - problem.t0, yWork, fWork, problem.dimension, 'reciprocal');
+  return startingStep({
+    f: problem.f,
+    t0: problem.t0,
+    y0,
+    f0,
+    order,
+    rtol: tol.rtol,
+    atol: tol.atol,
+    span: problem.tEnd - problem.t0,
+    n: problem.dimension,
+    arithmetic: 'reciprocal',
+    y1: yWork,
+    f1: fWork,
+  });
 }
 
 export { zeroCounts, EPS };

@@ -8,7 +8,7 @@ import { zeroCounts } from '../../core/types.js';
 import { fixedStepCount } from '../../core/setting.js';
 import { checkOptions, checkProblem } from '../rules.js';
 import { driveFixed } from '../fixed-step.js';
-import { newtonBuffers, solveStage } from './theta-newton.js';
+import { stageNewton } from './theta-newton.js';
 import { withLease } from '../work-lease.js';
 
 export type OneStageMeta = Omit<Method, 'solve' | 'family' | 'adaptive' | 'stiff'>;
@@ -31,17 +31,17 @@ export function oneStageFixedMethod(meta: OneStageMeta, theta: 1 | 0.5): Method 
         const y = lease.copyOf(problem.y0);
         const fy = lease.float64(n);
         const jac = makeJacobianSource(problem.f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
-        const buf = newtonBuffers(n, lease, jac);
+        const stage = stageNewton(problem.f, jac, n, counts, lease);
         return driveFixed(problem, options, y, steps, (t, h) => {
           problem.f(t, y, fy);
           counts.nfev++;
           // Explicit Euler start value for the stage.
           const th = theta * h;
-          for (let i = 0; i < n; i++) buf.z[i] = y[i]! + th * fy[i]!;
-          const msg = solveStage(problem.f, jac, t, y, fy, t + th, th, y, buf, n, counts);
+          for (let i = 0; i < n; i++) stage.z[i] = y[i]! + th * fy[i]!;
+          const msg = stage.solve(t, y, fy, t + th, th, y);
           if (msg === undefined) {
-            if (theta === 1) y.set(buf.z);
-            else for (let i = 0; i < n; i++) y[i] = 2 * buf.z[i]! - y[i]!;
+            if (theta === 1) y.set(stage.z);
+            else for (let i = 0; i < n; i++) y[i] = 2 * stage.z[i]! - y[i]!;
           }
           return msg;
         }, counts);

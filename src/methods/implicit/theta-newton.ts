@@ -19,105 +19,81 @@ const MAX_ITER = 25;
 const FULL_MAX_ITER = 100;
 const REL_TOL = 1e-14;
 
-export interface NewtonBuffers {
+/** The Newton solver of one stage, with its buffers, for one solve. */
+export interface StageNewton {
+  /** The stage: its start value before `solve`, the solution after a success. */
   readonly z: Float64Array;
-  readonly fz: Float64Array;
-  readonly delta: Float64Array;
-  readonly m: RealIterationMatrix;
+  /**
+   * Solves z = base + ch f(tz, z) from the start value in z; f(t, y) is in fy (for a
+   * finite-difference Jacobian at (t, y)). Returns an error message or undefined.
+   */
+  solve(t: number, y: Float64Array, fy: Float64Array, tz: number, ch: number, base: Float64Array): string | undefined;
 }
 
-/** `jac` is the source the stage's Jacobian comes from (dense or banded). */
-export function newtonBuffers(n: number, lease: WorkLease, jac: JacobianSource): NewtonBuffers {
-  return {
-    z: lease.float64(n),
-    fz: lease.float64(n),
-    delta: lease.float64(n),
-    m: new RealIterationMatrix(jac, n, lease),
+/** `jac` is the source the stage's Jacobian comes from (dense or banded); evaluations go to `counts`. */
+export function stageNewton(f: Rhs, jac: JacobianSource, n: number, counts: Counts, lease: WorkLease): StageNewton {
+  const z = lease.float64(n);
+  const fz = lease.float64(n);
+  const delta = lease.float64(n);
+  const m = new RealIterationMatrix(jac, n, lease);
+
+  /** Iteration matrix I - ch J from the Jacobian just evaluated, factored; false when singular. */
+  const factorIteration = (ch: number): boolean => {
+    counts.nlu++;
+    return m.factor(1, ch);
   };
-}
 
-/**
- * On entry z holds the start value and f(t, y) is in fy (for a finite-difference Jacobian at
- * (t, y)); on success z holds the solution. Returns an error message or undefined.
- */
-export function solveStage(
-  f: Rhs,
-  jac: JacobianSource,
-  t: number,
-  y: Float64Array,
-  fy: Float64Array,
-  tz: number,
-  ch: number,
-  base: Float64Array,
-  buf: NewtonBuffers,
-  n: number,
-  counts: Counts,
-): string | undefined {
-  const simplified = simplifiedNewton(f, jac, t, y, fy, tz, ch, base, buf, n, counts);
-  if (simplified === undefined) return undefined;
-  buf.z.set(y);
-  const full = fullNewton(f, jac, tz, ch, base, buf, n, counts);
-  return full === undefined ? undefined : `${simplified}; retried with the Jacobian refreshed at every iterate: ${full}`;
-}
+  /** One Newton correction of z with f(tz, z) in fz: 'done', 'going' or a failure message. */
+  const correct = (ch: number, base: Float64Array): 'done' | 'going' | string => {
+    for (let i = 0; i < n; i++) delta[i] = base[i]! + ch * fz[i]! - z[i]!;
+    m.solve(delta);
+    let dmax = 0;
+    let zmax = 0;
+    for (let i = 0; i < n; i++) {
+      z[i] = z[i]! + delta[i]!;
+      dmax = Math.max(dmax, Math.abs(delta[i]!));
+      zmax = Math.max(zmax, Math.abs(z[i]!));
+    }
+    if (!Number.isFinite(dmax)) return 'Newton iteration produced a non-finite value';
+    return dmax <= REL_TOL * (1 + zmax) ? 'done' : 'going';
+  };
 
-/** Iteration matrix I - ch J from the Jacobian just evaluated, factored; false when singular. */
-function factorIteration(ch: number, buf: NewtonBuffers, counts: Counts): boolean {
-  counts.nlu++;
-  return buf.m.factor(1, ch);
-}
+  /** Newton with the Jacobian at (t, y) kept for every iteration. */
+  const simplifiedNewton = (t: number, y: Float64Array, fy: Float64Array, tz: number, ch: number, base: Float64Array): string | undefined => {
+    jac.evaluate(t, y, fy);
+    if (!factorIteration(ch)) return 'singular iteration matrix';
+    for (let it = 0; it < MAX_ITER; it++) {
+      f(tz, z, fz);
+      counts.nfev++;
+      const r = correct(ch, base);
+      if (r === 'done') return undefined;
+      if (r !== 'going') return r;
+    }
+    return `Newton iteration did not converge in ${MAX_ITER} iterations`;
+  };
 
-/** One Newton correction of z with f(tz, z) in fz: 'done', 'going' or a failure message. */
-function correct(ch: number, base: Float64Array, buf: NewtonBuffers, n: number): 'done' | 'going' | string {
-  const { z, fz, delta, m } = buf;
-  for (let i = 0; i < n; i++) delta[i] = base[i]! + ch * fz[i]! - z[i]!;
-  m.solve(delta);
-  let dmax = 0;
-  let zmax = 0;
-  for (let i = 0; i < n; i++) {
-    z[i] = z[i]! + delta[i]!;
-    dmax = Math.max(dmax, Math.abs(delta[i]!));
-    zmax = Math.max(zmax, Math.abs(z[i]!));
-  }
-  if (!Number.isFinite(dmax)) return 'Newton iteration produced a non-finite value';
-  return dmax <= REL_TOL * (1 + zmax) ? 'done' : 'going';
-}
+  /** Newton with the Jacobian evaluated afresh at every iterate (z on entry: the start value). */
+  const fullNewton = (tz: number, ch: number, base: Float64Array): string | undefined => {
+    for (let it = 0; it < FULL_MAX_ITER; it++) {
+      f(tz, z, fz);
+      counts.nfev++;
+      jac.evaluate(tz, z, fz);
+      if (!factorIteration(ch)) return 'singular iteration matrix';
+      const r = correct(ch, base);
+      if (r === 'done') return undefined;
+      if (r !== 'going') return r;
+    }
+    return `Newton iteration did not converge in ${FULL_MAX_ITER} iterations`;
+  };
 
-/** Newton with the Jacobian at (t, y) kept for every iteration. */
-function simplifiedNewton(
-  f: Rhs,
-  jac: JacobianSource,
-  t: number,
-  y: Float64Array,
-  fy: Float64Array,
-  tz: number,
-  ch: number,
-  base: Float64Array,
-  buf: NewtonBuffers,
-  n: number,
-  counts: Counts,
-): string | undefined {
-  jac.evaluate(t, y, fy);
-  if (!factorIteration(ch, buf, counts)) return 'singular iteration matrix';
-  for (let it = 0; it < MAX_ITER; it++) {
-    f(tz, buf.z, buf.fz);
-    counts.nfev++;
-    const r = correct(ch, base, buf, n);
-    if (r === 'done') return undefined;
-    if (r !== 'going') return r;
-  }
-  return `Newton iteration did not converge in ${MAX_ITER} iterations`;
-}
-
-/** Newton with the Jacobian evaluated afresh at every iterate (z on entry: the start value). */
-function fullNewton(f: Rhs, jac: JacobianSource, tz: number, ch: number, base: Float64Array, buf: NewtonBuffers, n: number, counts: Counts): string | undefined {
-  for (let it = 0; it < FULL_MAX_ITER; it++) {
-    f(tz, buf.z, buf.fz);
-    counts.nfev++;
-    jac.evaluate(tz, buf.z, buf.fz);
-    if (!factorIteration(ch, buf, counts)) return 'singular iteration matrix';
-    const r = correct(ch, base, buf, n);
-    if (r === 'done') return undefined;
-    if (r !== 'going') return r;
-  }
-  return `Newton iteration did not converge in ${FULL_MAX_ITER} iterations`;
+  return {
+    z,
+    solve(t, y, fy, tz, ch, base) {
+      const simplified = simplifiedNewton(t, y, fy, tz, ch, base);
+      if (simplified === undefined) return undefined;
+      z.set(y);
+      const full = fullNewton(tz, ch, base);
+      return full === undefined ? undefined : `${simplified}; retried with the Jacobian refreshed at every iterate: ${full}`;
+    },
+  };
 }
