@@ -60,6 +60,16 @@ export function inverseScales(y: Float64Array, yNew: Float64Array, rtol: number,
   }
 }
 
+/** RMS of v_i / sc_i for scales kept through a step (tr-bdf2's Newton test); the divide form of weightedRms. */
+export function rmsOverScales(v: Float64Array, sc: Float64Array, n: number): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) {
+    const r = v[i]! / sc[i]!;
+    s += r * r;
+  }
+  return Math.sqrt(s / n);
+}
+
 /** RMS of v_i * w_i, w from inverseScales. */
 export function weightedRms(v: Float64Array, w: Float64Array, n: number): number {
   let s = 0;

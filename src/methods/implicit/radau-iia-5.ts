@@ -116,10 +116,10 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
 
   // The attempt is split into its phases, each its own function: V8 compiles a function again
   // whenever it meets a branch or a right-hand side it had not seen when it first compiled it,
-  // which each new problem brings, and one function holding every phase (with the model inlined
-  // five times) took about 80 ms a compilation; now only the phase that met something new is
-  // compiled again. Computed doubles pass between phases in `st`, not as arguments or return
-  // values: a double crossing a call that V8 does not inline is boxed, an allocation per step.
+  // which each new problem brings, so only the phase that met something new is compiled again,
+  // not one large function with the model inlined five times (bench/README.md). Computed doubles
+  // pass between phases in `st`, not as arguments or return values: a double crossing a call
+  // that V8 does not inline is boxed, an allocation per step.
 
   /** Newton starting values from the previous step's collocation polynomial, else zero. */
   function startValues(h: number): void {

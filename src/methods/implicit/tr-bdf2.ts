@@ -31,7 +31,7 @@
 // 100000 steps.
 import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
 import { RealIterationMatrix } from './iteration-matrix.js';
-import { scaledRmsNorm } from '../../core/vector.js';
+import { rmsOverScales, scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { DECIDE_BAND, EPS, dampedTimesWithin, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
@@ -119,14 +119,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   f(problem.t0, y, f1);
   counts.nfev++;
 
-  function norm(v: Float64Array): number {
-    let s = 0;
-    for (let i = 0; i < n; i++) {
-      const r = v[i]! / scal[i]!;
-      s += r * r;
-    }
-    return Math.sqrt(s / n);
-  }
+  const norm = (v: Float64Array): number => rmsOverScales(v, scal, n);
 
   /** Solve z = rhs + d h f(tz, z) from the start value in z; fOut gets f(tz, z) via the stage relation. */
   function newton(tz: number, h: number, fOut: Float64Array): boolean {
