@@ -121,6 +121,31 @@ describe('error.dense', () => {
   });
 });
 
+describe('bogacki-shampine-32 and its cubic Hermite (free with the FSAL stage)', () => {
+  const bs = findMethod('bogacki-shampine-32') as unknown as typeof dormandPrince54;
+  const cubic: Problem = { ...quartic, id: 'cubic-quadrature', f: (t, _y, dy) => void (dy[0] = 3 * t * t), reference: { kind: 'exact', source: 'y = t^3', exact: (t, out) => void (out[0] = t ** 3) } };
+
+  it('reproduces a cubic exactly (a cubic Hermite through exact ends and slopes is the cubic; the third-order pair integrates a quadratic f exactly)', () => {
+    const watch = watchRun(cubic, true);
+    bs.dense.solve(cubic, { rtol: 1, atol: 1 }, { maxSteps: 1e6, maxStep: 0.1, observer: watch.observer }, watch.denseStep);
+    expect(watch.along()!.value).toBeLessThan(1e-14);
+    expect(watch.dense()!.value).toBeLessThan(1e-14);
+  });
+
+  it('falls like h^3 on the oscillator (the pair is of order 3; the Hermite adds an O(h^4) local error)', () => {
+    const errors = [0.01, 0.005, 0.0025].map((h) => {
+      const watch = watchRun(oscillator, true);
+      bs.dense.solve(oscillator, { rtol: 1e-1, atol: 1e-1 }, { maxSteps: 1e7, maxStep: h, observer: watch.observer }, watch.denseStep);
+      return watch.dense()!.value;
+    });
+    for (let k = 1; k < errors.length; k++) {
+      const order = Math.log2(errors[k - 1]! / errors[k]!);
+      expect(order).toBeGreaterThan(2.8);
+      expect(order).toBeLessThan(3.2);
+    }
+  });
+});
+
 describe('events on the method interpolant', () => {
   const p = findProblem('eclipse-circular-orbit')!;
   const analytic = p.reference.eventTimes!;
@@ -141,6 +166,17 @@ describe('events on the method interpolant', () => {
       expect(e.maxTimeError!).toBeLessThan(2 * (run.orbitError!.max!.inTrack / speed) + 1e-7);
       expect(e.maxTimeError!).toBeLessThan(1e-4);
       e.times.forEach((t, k) => expect(Math.abs(t - analytic[name]![k]!)).toBeLessThan(1e-4));
+    }
+  });
+
+  it('bogacki-shampine-32 locates them on its cubic Hermite, evaluated at step ends far from t = 0 without a rounding complaint', () => {
+    const run = measureRun(p, findMethod('bogacki-shampine-32')!, { rtol: 1e-8, atol: 1e-8 }, { maxSteps: 1e7 });
+    expect(run.status).toBe('ok');
+    expect(run.eventEvaluations).toBe(0);
+    for (const e of Object.values(run.events!)) {
+      expect(e.locatedBy).toContain("bogacki-shampine-32's own continuous extension");
+      expect([e.missed, e.extra]).toEqual([0, 0]);
+      expect(e.maxTimeError!).toBeLessThan(2 * (run.orbitError!.max!.inTrack / speed) + 1e-7);
     }
   });
 

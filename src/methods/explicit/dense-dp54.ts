@@ -1,10 +1,12 @@
 // Continuous extension of Dormand-Prince 5(4): the fourth-order interpolant of Shampine (1986) in
-// the form of HNW I, sec. II.6. Only built when asked for, so plain solves pay nothing for it.
+// the form of HNW I, sec. II.6; and the dense capability any pair's step formula plugs into
+// (denseCapability). Only built when asked for, so plain solves pay nothing for it.
 import { InputError } from '../../core/errors.js';
 import type { Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { solveEmbedded } from './embedded.js';
 import type { Tableau } from './tableau.js';
 import { DORMAND_PRINCE_54_DENSE } from './tableaus/dormand-prince-54.js';
+import type { StepFormula } from './dense-hermite.js';
 
 const D1 = DORMAND_PRINCE_54_DENSE[0]!;
 const D3 = DORMAND_PRINCE_54_DENSE[2]!;
@@ -63,8 +65,15 @@ export interface DenseCapability {
 
 /** Relative slack when checking that t lies inside the step. */
 const INSIDE = 1e-12;
+/** Ulps of the step's end times allowed beyond it (t = tNew computed another way). */
+const ROUNDING_ULPS = 4;
 
 export function denseDormandPrince54(tab: Tableau, methodId: string): DenseCapability {
+  return denseCapability(tab, methodId, dormandPrince54Dense);
+}
+
+/** Solves keeping each accepted step's end states and stages, interpolated by `formula`. */
+export function denseCapability(tab: Tableau, methodId: string, formula: StepFormula): DenseCapability {
   return {
     solve(problem, setting, options, onStep) {
       const n = problem.dimension;
@@ -78,10 +87,12 @@ export function denseDormandPrince54(tab: Tableau, methodId: string): DenseCapab
       const evaluate: DenseEvaluate = (t, out) => {
         if (!taken) throw new InputError('no accepted step to interpolate in', methodId);
         const theta = (t - tOld) / hStep;
-        if (!(theta >= -INSIDE && theta <= 1 + INSIDE)) {
+        // tNew = tOld + h rounded: far from t = 0 its distance from tOld differs from h by an ulp of t.
+        const slack = INSIDE * hStep + ROUNDING_ULPS * Number.EPSILON * Math.max(Math.abs(tOld), Math.abs(tNewStep));
+        if (!(t >= tOld - slack && t <= tNewStep + slack)) {
           throw new InputError(`t=${t} must lie inside the step [${tOld}, ${tNewStep}]`, methodId);
         }
-        dormandPrince54Dense(out, theta, hStep, y0, y1, k, n);
+        formula(out, theta, hStep, y0, y1, k, n);
       };
       const result = solveEmbedded(tab, methodId, problem, setting, options, (t, tNew, h, yOld, yNew, kk) => {
         y0.set(yOld);

@@ -3,7 +3,8 @@
 // composition of Stormer-Verlet is one file in compositions/ plus one line in its index.ts. This
 // file turns each into a Method (a tableau with its generated kernel).
 import type { Family, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { denseDormandPrince54, type DenseCapability } from './dense-dp54.js';
+import { denseCapability, denseDormandPrince54, type DenseCapability } from './dense-dp54.js';
+import { fsalHermiteFormula } from './dense-hermite.js';
 import { solveEmbedded } from './embedded.js';
 import { solveFixed } from './fixed.js';
 import { solveVerletComposition, type CompositionMethod } from './symplectic.js';
@@ -34,7 +35,7 @@ interface Meta {
   readonly notes?: string;
 }
 
-/** A Method that also offers a continuous extension (dormand-prince-54). */
+/** A Method that also offers a continuous extension (dormand-prince-54, bogacki-shampine-32). */
 export interface DenseMethod extends Method {
   readonly dense: DenseCapability;
 }
@@ -83,7 +84,11 @@ function tableauMethod(rec: TableauMethod): Method | DenseMethod {
   if (!d.bHat) return fixedStepMethod(rec, d, fixedStepKernel(d, rec.id));
   const tab = compileTableau(d, unrolledKernel(d, rec.id));
   const method = embeddedFromTableau(rec, tab);
-  return rec.denseOutput ? { ...method, dense: denseDormandPrince54(tab, rec.id) } : method;
+  const dense = rec.denseOutput;
+  if (!dense) return method;
+  // The last stage is f(t1, y1) only in a first-same-as-last pair.
+  if (dense.form === 'fsal-hermite' && !tab.fsal) throw new Error(`${rec.id}: fsal-hermite dense output needs a first-same-as-last pair`);
+  return { ...method, dense: dense.form === 'dopri5' ? denseDormandPrince54(tab, rec.id) : denseCapability(tab, rec.id, fsalHermiteFormula(tab.stages)) };
 }
 
 const familyRank = (d: TableauData): number => (d.bHat ? 1 : 0);

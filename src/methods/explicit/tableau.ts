@@ -106,9 +106,11 @@ export interface TableauMethod {
   readonly tableau: TableauData;
   /**
    * A continuous extension, when the method has one: `form` names the interpolation formula the
-   * coefficients `d` plug into ('dopri5': HNW I sec. II.6, see dense-dp54.ts).
+   * coefficients `d` plug into ('dopri5': HNW I sec. II.6, see dense-dp54.ts), or 'fsal-hermite':
+   * the cubic Hermite of the step's end values and slopes, free with a first-same-as-last pair
+   * (dense-hermite.ts).
    */
-  readonly denseOutput?: { readonly form: 'dopri5'; readonly d: readonly number[] };
+  readonly denseOutput?: { readonly form: 'dopri5'; readonly d: readonly number[] } | { readonly form: 'fsal-hermite' };
 }
 
 /** The compiled form the engines step with. */

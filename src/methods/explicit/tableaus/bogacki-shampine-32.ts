@@ -17,5 +17,7 @@ export const bogackiShampine32: TableauMethod = {
   id: 'bogacki-shampine-32',
   name: 'Bogacki-Shampine 3(2)',
   source: 'P. Bogacki and L. F. Shampine, A 3(2) pair of Runge-Kutta formulas, Appl. Math. Lett. 2 (1989) 321-325',
+  notes: "dense output: cubic Hermite of the step's end values and slopes (free with the FSAL stage; third order)",
   tableau: BOGACKI_SHAMPINE_32,
+  denseOutput: { form: 'fsal-hermite' },
 };
