@@ -67,7 +67,7 @@ describe('grouped (Curtis-Powell-Reid) finite differences', () => {
   f(0, y, fy);
   const w = bandWidth(2, 2);
   const band = new Float64Array(n * w);
-  const evals = bandedFiniteDifferenceJacobian(f, 0, y, fy, band, n, 2, 2, new Float64Array(n), new Float64Array(n), new Float64Array(n));
+  const evals = bandedFiniteDifferenceJacobian(f, 0, y, fy, band, n, { lower: 2, upper: 2 }, { yWork: new Float64Array(n), fWork: new Float64Array(n), dWork: new Float64Array(n) });
   it('costs lower + upper + 1 = 5 evaluations instead of n = 40', () => {
     expect(evals).toBe(5);
   });
@@ -82,7 +82,7 @@ describe('grouped (Curtis-Powell-Reid) finite differences', () => {
   });
   it('equals the column-by-column differences exactly: no row of a group sees two perturbed columns', () => {
     const dense = new Float64Array(n * n);
-    expect(finiteDifferenceJacobian(f, 0, y, fy, dense, n, new Float64Array(n), new Float64Array(n))).toBe(n);
+    expect(finiteDifferenceJacobian(f, 0, y, fy, dense, n, { yWork: new Float64Array(n), fWork: new Float64Array(n) })).toBe(n);
     for (let i = 0; i < n; i++) {
       for (let j = Math.max(0, i - 2); j <= Math.min(n - 1, i + 2); j++) expect(band[bandIndex(i, j, 2, w)]).toBe(dense[i * n + j]);
     }

@@ -97,7 +97,7 @@ describe('finite-difference Jacobian', () => {
     const fy = new Float64Array(3);
     p.f(0, y, fy);
     const fd = new Float64Array(9);
-    expect(finiteDifferenceJacobian(p.f, 0, y, fy, fd, 3, new Float64Array(3), new Float64Array(3))).toBe(3);
+    expect(finiteDifferenceJacobian(p.f, 0, y, fy, fd, 3, { yWork: new Float64Array(3), fWork: new Float64Array(3) })).toBe(3);
     const exact = new Float64Array(9);
     p.jacobian!(0, y, exact);
     const scale = Math.max(...Array.from(exact, Math.abs));

@@ -13,21 +13,21 @@ function increment(yj: number): number {
   return Math.sqrt(EPS * (a > 1e-5 ? a : 1e-5));
 }
 
+/** Scratch buffers of length n for a difference Jacobian, made once per solve. */
+export interface DifferenceWork {
+  /** y with the perturbed components. */
+  readonly yWork: Float64Array;
+  /** f at the perturbed y. */
+  readonly fWork: Float64Array;
+}
+
 /**
  * Forward-difference Jacobian written row-major into jac (jac[i*n + j] = dfi/dyj). fy must hold
- * f(t, y); yWork and fWork are caller buffers of length n. y is left unchanged. Costs n
+ * f(t, y); `work` holds the caller's buffers of length n. y is left unchanged. Costs n
  * evaluations of f, which is the returned count.
  */
-export function finiteDifferenceJacobian(
-  f: Rhs,
-  t: number,
-  y: Float64Array,
-  fy: Float64Array,
-  jac: Float64Array,
-  n: number,
-  yWork: Float64Array,
-  fWork: Float64Array,
-): number {
+export function finiteDifferenceJacobian(f: Rhs, t: number, y: Float64Array, fy: Float64Array, jac: Float64Array, n: number, work: DifferenceWork): number {
+  const { yWork, fWork } = work;
   for (let i = 0; i < n; i++) yWork[i] = y[i]!;
   for (let j = 0; j < n; j++) {
     const yj = y[j]!;
@@ -57,12 +57,12 @@ export function bandedFiniteDifferenceJacobian(
   fy: Float64Array,
   jac: Float64Array,
   n: number,
-  ml: number,
-  mu: number,
-  yWork: Float64Array,
-  fWork: Float64Array,
-  dWork: Float64Array,
+  band: JacobianBand,
+  work: DifferenceWork & { readonly dWork: Float64Array },
 ): number {
+  const ml = band.lower;
+  const mu = band.upper;
+  const { yWork, fWork, dWork } = work;
   const w = bandWidth(ml, mu);
   const groups = Math.min(n, ml + mu + 1);
   for (let i = 0; i < n; i++) yWork[i] = y[i]!;
@@ -119,14 +119,13 @@ export function makeJacobianSource(
       },
     };
   }
-  const yWork = buffer(n);
-  const fWork = buffer(n);
+  const work: DifferenceWork = { yWork: buffer(n), fWork: buffer(n) };
   return {
     jac,
     analytic: false,
     band: null,
     evaluate(t, y, fy) {
-      counts.nfev += finiteDifferenceJacobian(f, t, y, fy, jac, n, yWork, fWork);
+      counts.nfev += finiteDifferenceJacobian(f, t, y, fy, jac, n, work);
       counts.njev++;
     },
   };
@@ -171,15 +170,13 @@ function bandedSource(
       },
     };
   }
-  const yWork = buffer(n);
-  const fWork = buffer(n);
-  const dWork = buffer(n);
+  const work = { yWork: buffer(n), fWork: buffer(n), dWork: buffer(n) };
   return {
     jac,
     analytic: false,
     band,
     evaluate(t, y, fy) {
-      counts.nfev += bandedFiniteDifferenceJacobian(f, t, y, fy, jac, n, ml, mu, yWork, fWork, dWork);
+      counts.nfev += bandedFiniteDifferenceJacobian(f, t, y, fy, jac, n, band, work);
       counts.njev++;
     },
   };
