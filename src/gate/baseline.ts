@@ -46,6 +46,20 @@ export interface Baseline {
   runs: BaselineRun[];
 }
 
+/**
+ * Refuses results a baseline must not be made from (`where` names the file): a partial sweep
+ * would silently stop gating the runs it lacks, and kept times need the calibration to compare.
+ */
+export function assertBaselineSource(results: ResultsFile, where: string, keepTime: boolean): void {
+  if (results.interrupted) throw new InputError('is from an interrupted sweep; rerun it to completion before making a baseline', where);
+  if (results.shard) {
+    throw new InputError(`is shard ${results.shard.index}/${results.shard.count}; merge all shards (stepgauge merge) before making a baseline`, where);
+  }
+  if (keepTime && results.environment.calibrationSeconds === undefined) {
+    throw new InputError('has no environment.calibrationSeconds, so --keep-time would keep times that cannot be compared', where);
+  }
+}
+
 /** Reduces a results file to a baseline; `keepTime` keeps run times and the calibration. */
 export function makeBaseline(results: ResultsFile, options: { keepTime?: boolean } = {}): Baseline {
   const calibration = results.environment.calibrationSeconds;

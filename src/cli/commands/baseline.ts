@@ -1,6 +1,5 @@
 // `stepgauge baseline`: reduce a results file to a committed baseline with reproducible bytes.
-import { InputError } from '../../core/errors.js';
-import { BASELINE_FORMAT, makeBaseline, serializeBaseline } from '../../gate/baseline.js';
+import { assertBaselineSource, BASELINE_FORMAT, makeBaseline, serializeBaseline } from '../../gate/baseline.js';
 import { writeFileAtomic } from '../../results/atomic.js';
 import { assertReplaceableFile, declaresFormat } from '../../results/ownership.js';
 import { readResultsFile } from '../../results/read.js';
@@ -16,14 +15,7 @@ export const registerBaseline: RegisterCommand = (program) => {
     .action(async (resultsPath: string, flags: { out: string; keepTime?: boolean }) => {
       assertReplaceableFile(flags.out, '--out', (p) => declaresFormat(p, BASELINE_FORMAT));
       const results = readResultsFile(resultsPath);
-      // A baseline from a partial sweep would silently stop gating the runs it lacks.
-      if (results.interrupted) throw new InputError('is from an interrupted sweep; rerun it to completion before making a baseline', resultsPath);
-      if (results.shard) {
-        throw new InputError(`is shard ${results.shard.index}/${results.shard.count}; merge all shards (stepgauge merge) before making a baseline`, resultsPath);
-      }
-      if (flags.keepTime && results.environment.calibrationSeconds === undefined) {
-        throw new InputError('has no environment.calibrationSeconds, so --keep-time would keep times that cannot be compared', resultsPath);
-      }
+      assertBaselineSource(results, resultsPath, flags.keepTime ?? false);
       const baseline = makeBaseline(results, { keepTime: flags.keepTime ?? false });
       await writeFileAtomic(flags.out, serializeBaseline(baseline));
       process.stdout.write(
