@@ -40,7 +40,7 @@ function ownInterpolant(method: Method): WithInterpolant | undefined {
 
 function interpolantText(kind: OutputInterpolant, method: Method): string {
   if (kind === 'landed') return 'landed: every output time was the end of a step';
-  if (kind === 'method') return `the method's own continuous extension${method.notes ? ` (${method.notes})` : ''}`;
+  if (kind === 'method') return ownInterpolantText(method);
   return "cubic Hermite between accepted steps, built by stepgauge: the method publishes no interpolant here";
 }
 
@@ -100,7 +100,7 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
     const located = own ? ownInterpolantText(method) : HERMITE_EVENT_INTERPOLANT;
     const reported = result.eventTimes ?? {};
     const times = { ...found, ...reported };
-    run.events = eventRecords(problem, times, (name) => (name in reported ? PROGRAM_REPORTED : located));
+    run.events = eventRecords(problem, times, (name) => (Object.hasOwn(reported, name) ? PROGRAM_REPORTED : located));
     run.eventEvaluations = watch.eventEvaluations();
   }
   const nonFinite = result.status === 'ok' ? nonFiniteComponent(result.yFinal) : undefined;

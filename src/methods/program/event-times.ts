@@ -20,7 +20,8 @@ export function readEventTimes(value: unknown, problem: Problem): Record<string,
   }
   const { t0, tEnd } = problem;
   const slack = SPAN_SLACK * Math.abs(tEnd - t0);
-  const out: Record<string, number[]> = {};
+  // No prototype: an event name is only ever a key of this object.
+  const out: Record<string, number[]> = Object.create(null) as Record<string, number[]>;
   for (const [name, list] of Object.entries(value)) {
     if (!declared.includes(name)) {
       return `events.${name}: the problem declares no event '${name}' (${declared.length > 0 ? `its events are ${declared.join(', ')}` : 'it declares no events'})`;
