@@ -55,7 +55,9 @@ export function envelopeText(choice: EnvelopeChoice): string {
         `recommended: ${rec.method} at ${settingText(rec)}; the error meets ${sig3(choice.target)} on ${choice.samples - rec.failing.length} of ${choice.samples} samples`,
         ...(rec.failing.length > 0 ? [`samples over the target there: ${rec.failing.slice(0, SHOWN_FAILING).join(', ')}${rec.failing.length > SHOWN_FAILING ? `, and ${rec.failing.length - SHOWN_FAILING} more` : ''}`] : []),
       ]
-    : ['no method met the target on that share of the samples; loosen the target, lower --quantile or add methods'];
+    : choice.refused
+      ? [`refused: ${choice.refused}`]
+      : ['no method met the target on that share of the samples; loosen the target, lower --quantile or add methods'];
   return [
     `${choice.of}: ${choice.samples} dispersion samples, target error ${sig3(choice.target)} (${choice.measure}) on ${share}, ranked by mean evaluations`,
     '',

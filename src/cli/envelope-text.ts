@@ -1,6 +1,6 @@
 // Text and choice for `stepgauge envelope`: per nominal problem, the distribution table and, with a
 // target, per method the swept setting of fewest mean evaluations whose quantile error meets it.
-import type { ResultsFile, RunResult } from '../results/contract.js';
+import { resolvedError, type ResultsFile, type RunResult } from '../results/contract.js';
 import type { DispersionRow, DispersionSummary } from '../report/dispersion-summary.js';
 import { sig3 } from '../report/format.js';
 import { CAUTION_SHORT } from '../report/caution.js';
@@ -27,7 +27,8 @@ export function envelopeFromSummary(summary: DispersionSummary, results: Pick<Re
   for (const [of, rows] of byOf) {
     const methods = [...new Set(rows.map((r) => r.method))];
     const perMethod = methods.map((method) => {
-      const met = rows.filter((r) => r.method === method && r.quantile <= target).sort((a, b) => a.meanNfev - b.meanNfev);
+      // Judged as choose judges: only errors the samples' references confirm meet a target.
+      const met = rows.filter((r) => r.method === method && r.confirmedQuantile <= target).sort((a, b) => a.meanNfev - b.meanNfev);
       return { method, row: met[0] ?? null };
     });
     const recommended = perMethod.map((m) => m.row).filter((r): r is DispersionRow => r !== null).sort((a, b) => a.meanNfev - b.meanNfev)[0] ?? null;
@@ -37,8 +38,8 @@ export function envelopeFromSummary(summary: DispersionSummary, results: Pick<Re
       const key = JSON.stringify(recommended.setting);
       for (const r of results.runs) {
         if (!sampleIds.has(r.problem) || r.method !== recommended.method || JSON.stringify(r.setting) !== key) continue;
-        const e = summary.measure === 'final' ? r.error.final : r.error.max;
-        if (!(r.status === 'ok' && e !== null && e <= target)) failing.push(r.problem);
+        const e = resolvedError(r, summary.measure);
+        if (!(e !== null && e <= target)) failing.push(r.problem);
       }
     }
     out.push({ of, target, recommended, perMethod, failing });

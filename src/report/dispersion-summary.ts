@@ -2,7 +2,7 @@
 // the median, a chosen quantile and the worst sample (named, so it can be rerun alone). A run that
 // did not finish ok counts as an infinite error: a setting that fails on a sample fails there.
 import type { ProblemRecord, ResultsFile, RunResult } from '../results/contract.js';
-import { runKey } from '../results/contract.js';
+import { resolvedError, runKey } from '../results/contract.js';
 import { quantileOf } from '../core/quantile.js';
 
 export interface SampleError {
@@ -22,6 +22,11 @@ export interface DispersionRow {
   median: number;
   /** Error at the requested quantile (nearest rank, see quantileOf). */
   quantile: number;
+  /**
+   * The same quantile over the errors the samples' references confirm (an unresolved error counts
+   * as infinite, as in choose): what a target is judged by.
+   */
+  confirmedQuantile: number;
   worst: SampleError;
   /** Mean function evaluations per sample. */
   meanNfev: number;
@@ -46,15 +51,16 @@ export function samplesOf(results: Pick<ResultsFile, 'problems'>): Map<string, {
 
 export function dispersionSummary(results: Pick<ResultsFile, 'problems' | 'runs'>, q = 0.95, measure: 'final' | 'max' = 'final'): DispersionSummary {
   const tags = samplesOf(results);
-  const groups = new Map<string, { of: string; method: string; setting: RunResult['setting']; errors: SampleError[]; nfev: number }>();
+  const groups = new Map<string, { of: string; method: string; setting: RunResult['setting']; errors: SampleError[]; confirmed: number[]; nfev: number }>();
   for (const r of results.runs) {
     const tag = tags.get(r.problem);
     if (!tag) continue;
     const key = runKey({ problem: tag.of, method: r.method, setting: r.setting });
     let g = groups.get(key);
-    if (!g) groups.set(key, (g = { of: tag.of, method: r.method, setting: r.setting, errors: [], nfev: 0 }));
+    if (!g) groups.set(key, (g = { of: tag.of, method: r.method, setting: r.setting, errors: [], confirmed: [], nfev: 0 }));
     const e = measure === 'final' ? r.error.final : r.error.max;
     g.errors.push({ sample: tag.sample, problem: r.problem, status: r.status, error: r.status === 'ok' && e !== null && Number.isFinite(e) ? e : Infinity });
+    g.confirmed.push(resolvedError(r, measure) ?? Infinity);
     g.nfev += r.counts.nfev;
   }
   const rows: DispersionRow[] = [];
@@ -70,6 +76,7 @@ export function dispersionSummary(results: Pick<ResultsFile, 'problems' | 'runs'
       failed: g.errors.filter((e) => e.status !== 'ok').length,
       median: quantileOf(sorted, 0.5),
       quantile: quantileOf(sorted, q),
+      confirmedQuantile: quantileOf(g.confirmed.sort((a, b) => a - b), q),
       worst,
       meanNfev: g.nfev / g.errors.length,
     });
