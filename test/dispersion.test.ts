@@ -131,6 +131,22 @@ describe('samples are problems', () => {
     expect(items[4]!.y0[3]).toBe(2); // the explicit case moves x only
   });
 
+  it('are built one at a time when asked for: sample 999,999 of a million alone, and the runs of one sample share its build', async () => {
+    const dir = freshDir();
+    const file = writeDispersion(dir, 'big.yaml', 'base: kepler-circular\ndispersion:\n  samples: 1000000\n  seed: 7\n  initial:\n    x: { normal: 0.001 }\n');
+    const { problemSources } = await import('../src/sweep/resolve.js');
+    const sources = await problemSources(file);
+    const p = sources.get('kepler-circular-s999999');
+    // Box-Muller (Box and Muller, Ann. Math. Stat. 29, 1958) on the sample's own uniform draws:
+    // x = 1 + 0.001 sqrt(-2 ln u1) cos(2 pi u2), the nominal x of kepler-circular being 1.
+    const u1 = uniformDraw(7, 999999, 0, 0);
+    const u2 = uniformDraw(7, 999999, 0, 1);
+    expect(p.y0[0]).toBe(1 + 0.001 * Math.sqrt(-2 * Math.log(u1)) * Math.cos(2 * Math.PI * u2));
+    expect(p.dispersion!.sample).toBe(999999);
+    expect(sources.get('kepler-circular-s999999')).toBe(p);
+    expect(() => sources.get('kepler-circular-s1000001')).toThrow(/no problem 'kepler-circular-s1000001'/);
+  });
+
   it('rebuild a file model for each parameter value, with its exact solution', async () => {
     const dir = freshDir();
     const file = writeDispersion(

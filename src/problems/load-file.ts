@@ -6,7 +6,7 @@ import { buildEquationProblem } from './equations/build.js';
 import { readStructuredFile } from './file/read-structured.js';
 import { equationFileSchema, linearFileSchema, programModelFileSchema, type EquationFile, type LinearFile } from './file/schema.js';
 import { buildProgramModelProblem } from './program-model/build.js';
-import { expandDispersion } from './dispersion/expand.js';
+import { dispersionSamples, type SampleSet } from './dispersion/expand.js';
 import type { Problem } from '../core/types.js';
 import { validateShape } from './file/validate-shape.js';
 import { fail } from './file/fail.js';
@@ -22,8 +22,8 @@ export async function loadProblemFile(path: string): Promise<UserProblem> {
 
 export interface LoadedProblemFile {
   nominal: UserProblem;
-  /** One problem per sample, when the file has a dispersion block. */
-  samples?: Problem[];
+  /** The samples, built on demand, when the file has a dispersion block. */
+  samples?: SampleSet;
 }
 
 export async function loadProblemFileWithSamples(path: string): Promise<LoadedProblemFile> {
@@ -52,29 +52,54 @@ async function loadChecked(path: string): Promise<LoadedProblemFile> {
     return { nominal: buildProgramModelProblem(file, validateShape(programModelFileSchema, file), resolve(path)) };
   }
   let build: (spec: EquationFile | LinearFile) => Promise<UserProblem>;
+  /** Set for equation files: builds the model with other parameter values without waiting (tables are read once). */
+  let buildNow: ((spec: EquationFile) => UserProblem) | undefined;
   let spec: EquationFile | LinearFile;
   if ('linear' in data) {
     if ('equations' in data) fail(file, ['equations'], 'a file describes either `equations` or a `linear` model, not both');
     spec = validateShape(linearFileSchema, file);
     build = (s) => buildLinearProblem(file, s as LinearFile, resolve(path));
   } else {
-    spec = validateShape(equationFileSchema, file);
-    build = async (s) => buildEquationProblem(file, s as EquationFile, await readTables(file, s as EquationFile, resolve(path)));
+    const equations = validateShape(equationFileSchema, file);
+    spec = equations;
+    const tables = await readTables(file, equations, resolve(path));
+    buildNow = (s) => buildEquationProblem(file, s, tables);
+    build = async (s) => buildNow!(s as EquationFile);
   }
   const nominal = await build(spec);
   if (!spec.dispersion) return { nominal };
-  const rebuilt = new Map<string, UserProblem>();
   const parameters = new Map(Object.entries(spec.parameters ?? {}).map(([k, v]) => [k, typeof v === 'number' ? v : undefined] as const));
-  // Rebuilding compiles the model again; samples that share parameter values share the build.
-  const rebuildSync = (values: Readonly<Record<string, number>>): Problem => rebuilt.get(JSON.stringify(values))!;
-  const wanted = dispersionParameterValues(nominal, spec.dispersion, parameters, path);
-  for (const values of wanted) {
-    const key = JSON.stringify(values);
-    if (!rebuilt.has(key)) rebuilt.set(key, await build({ ...spec, parameters: { ...spec.parameters, ...values } }));
+  const withValues = (values: Readonly<Record<string, number>>) => ({ ...spec, parameters: { ...spec.parameters, ...values } });
+  let rebuild: (values: Readonly<Record<string, number>>) => Problem;
+  if (buildNow) {
+    // Compiled when a sample is built, which each process does only for the samples it runs; the
+    // last few builds are kept, since samples that share parameter values (explicit cases) share one.
+    const recent = new Map<string, Problem>();
+    rebuild = (values) => {
+      const key = JSON.stringify(values);
+      let model = recent.get(key);
+      if (!model) {
+        model = buildNow!(withValues(values) as EquationFile);
+        if (recent.size >= RECENT_BUILDS) recent.delete(recent.keys().next().value!);
+        recent.set(key, model);
+      }
+      return model;
+    };
+  } else {
+    // A linear model may read its matrices from files, which takes waiting: its parameter values
+    // are built before sampling, one build per distinct set of values.
+    const rebuilt = new Map<string, UserProblem>();
+    for (const values of dispersionParameterValues(nominal, spec.dispersion, parameters, path)) {
+      const key = JSON.stringify(values);
+      if (!rebuilt.has(key)) rebuilt.set(key, await build(withValues(values)));
+    }
+    rebuild = (values) => rebuilt.get(JSON.stringify(values))!;
   }
-  const samples = expandDispersion({ nominal, spec: spec.dispersion, where: path, parameters, rebuild: rebuildSync });
-  return { nominal, samples };
+  return { nominal, samples: dispersionSamples({ nominal, spec: spec.dispersion, where: path, parameters, rebuild }) };
 }
+
+/** Equation models built for other parameter values and kept for the next sample. */
+const RECENT_BUILDS = 4;
 
 /** The parameter values every sample will need, so their models can be built before expanding. */
 function dispersionParameterValues(
@@ -84,8 +109,9 @@ function dispersionParameterValues(
   where: string,
 ): Record<string, number>[] {
   if (Object.keys(spec.parameters ?? {}).length === 0 && !(spec.cases ?? []).some((c) => Object.keys(c).some((k) => parameters.has(k)))) return [];
-  // A dry expansion with a recording rebuild: the draws are cheap and pure.
+  // A dry pass over the samples with a recording rebuild: the draws are cheap and pure.
   const seen: Record<string, number>[] = [];
-  expandDispersion({ nominal, spec, where, parameters, rebuild: (values) => (seen.push({ ...values }), nominal) });
+  const dry = dispersionSamples({ nominal, spec, where, parameters, rebuild: (values) => (seen.push({ ...values }), nominal) });
+  for (let k = 1; k <= dry.count; k++) dry.sample(k);
   return seen;
 }

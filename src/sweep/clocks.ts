@@ -23,7 +23,7 @@ export interface ClockInput {
   /** Measured runs that succeeded, each with its plan entry. */
   runs: readonly { run: RunResult; planned: PlannedRun }[];
   jobs: number;
-  problems: ReadonlyMap<string, Problem>;
+  problems: Pick<ReadonlyMap<string, Problem>, 'get'>;
   problemEntries: ReadonlyMap<string, string>;
   methodEntries: ReadonlyMap<string, string>;
   options: RunOptions;
@@ -36,6 +36,8 @@ export interface ClockInput {
 
 interface PairGroup {
   problemEntry: string;
+  /** The problem itself: an entry may yield several (the samples of a dispersion). */
+  problemId: string;
   methodEntry: string;
   members: { run: RunResult; planned: PlannedRun }[];
 }
@@ -46,9 +48,9 @@ function pairGroups(input: ClockInput): PairGroup[] {
   for (const member of input.runs) {
     const problemEntry = input.problemEntries.get(member.planned.problem) ?? member.planned.problem;
     const methodEntry = input.methodEntries.get(member.planned.method) ?? member.planned.method;
-    const key = JSON.stringify([problemEntry, methodEntry]);
+    const key = JSON.stringify([problemEntry, member.planned.problem, methodEntry]);
     let g = groups.get(key);
-    if (!g) groups.set(key, (g = { problemEntry, methodEntry, members: [] }));
+    if (!g) groups.set(key, (g = { problemEntry, problemId: member.planned.problem, methodEntry, members: [] }));
     g.members.push(member);
   }
   return [...groups.values()];
@@ -73,6 +75,7 @@ export async function timeOnClocks(input: ClockInput): Promise<void> {
       const task: TimeTask = {
         kind: 'time',
         problemEntry: g.problemEntry,
+        problemId: g.problemId,
         methodEntry: g.methodEntry,
         settings: g.members.map((m) => m.planned.setting),
         options: input.options,

@@ -4,12 +4,11 @@ import { readStructuredFile } from '../problems/file/read-structured.js';
 import { dispersionFileSchema } from '../problems/file/schema.js';
 import { validateShape } from '../problems/file/validate-shape.js';
 import { fail } from '../problems/file/fail.js';
-import { expandDispersion } from '../problems/dispersion/expand.js';
-import type { Problem } from '../core/types.js';
+import { dispersionSamples, type SampleSet } from '../problems/dispersion/expand.js';
 import { catalogue } from '../../problems/index.js';
 
 /** The samples when `path` disperses a built-in problem; null when it is another kind of file. */
-export async function loadDispersionOfBuiltin(path: string): Promise<Problem[] | null> {
+export async function loadDispersionOfBuiltin(path: string): Promise<SampleSet | null> {
   const file = await readStructuredFile(path);
   const data = file.data;
   if (!data || typeof data !== 'object' || Array.isArray(data) || !('base' in data)) return null;
@@ -17,5 +16,5 @@ export async function loadDispersionOfBuiltin(path: string): Promise<Problem[] |
   const nominal = catalogue.find((p) => p.id === spec.base);
   if (!nominal) fail(file, ['base'], `no built-in problem is called '${spec.base}'; expected one of: ${catalogue.map((p) => p.id).join(', ')}`);
   // Built-in models are code: their parameters are fixed, only initial states can be dispersed.
-  return expandDispersion({ nominal, spec: spec.dispersion, where: path, parameters: new Map() });
+  return dispersionSamples({ nominal, spec: spec.dispersion, where: path, parameters: new Map() });
 }

@@ -29,8 +29,38 @@ export interface SweepPlan {
   sha256: string;
 }
 
+/**
+ * What planning reads of a problem. A dispersion sample is planned from a light stand-in (its id,
+ * its definition's hash, what pairing and settings read), so a plan of many samples does not hold
+ * every sample's model.
+ */
+export type PlanProblem = Pick<Problem, 'id' | 'stiff' | 'separable' | 'separableReason' | 'modelOnlyInPrograms' | 'defaultTolerances' | 'defaultSteps' | 'atolScale' | 'dimension'> & {
+  /** Only its presence is read (a linear-only method needs it). */
+  readonly linear?: unknown;
+  /** The canonical definition, or its SHA-256 already computed (a stand-in carries only that). */
+  readonly definition?: string;
+  readonly definitionSha256?: string;
+};
+
+/** The stand-in a sample is planned from (see PlanProblem). */
+export function planStandIn(p: Problem): PlanProblem {
+  return {
+    id: p.id,
+    stiff: p.stiff,
+    separable: p.separable,
+    separableReason: p.separableReason,
+    modelOnlyInPrograms: p.modelOnlyInPrograms,
+    defaultTolerances: p.defaultTolerances,
+    defaultSteps: p.defaultSteps,
+    atolScale: p.atolScale,
+    dimension: p.dimension,
+    linear: p.linear ? true : undefined,
+    definitionSha256: sha256(p.definition),
+  };
+}
+
 export interface PlanRequest {
-  problems: readonly Problem[];
+  problems: readonly PlanProblem[];
   methods: readonly Method[];
   /** Tolerances the user gave; undefined: each problem's own list, else DEFAULT_TOLERANCES. */
   tolerances: readonly number[] | undefined;
@@ -58,7 +88,7 @@ export function decades(loose: number, tight: number): number[] {
 }
 
 /** Why a method does not pair with a problem by default (null when it does). */
-export function pairingGap(problem: Problem, method: Method): string | null {
+export function pairingGap(problem: PlanProblem, method: Method): string | null {
   if (problem.modelOnlyInPrograms && !method.program) return `${problem.id} has no equations (its model lives only in the user's program): only external programs can run it`;
   if (method.needsSeparable && !problem.separable) {
     const why = problem.separableReason;
@@ -114,7 +144,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
   const fingerprint = sha256(
     JSON.stringify({
       runs: runs.map((r) => [r.problem, r.method, r.setting]),
-      problems: req.problems.map((p) => [p.id, sha256(p.definition)]),
+      problems: req.problems.map((p) => [p.id, p.definitionSha256 ?? sha256(p.definition ?? '')]),
     }),
   );
   return { runs, skipped, sha256: fingerprint };

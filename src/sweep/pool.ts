@@ -66,7 +66,7 @@ async function withWorker<T>(use: (pool: Tinypool) => Promise<T>): Promise<T> {
 export interface PoolInput {
   runs: readonly PlannedRun[];
   jobs: number;
-  problems: ReadonlyMap<string, Problem>;
+  problems: Pick<ReadonlyMap<string, Problem>, 'get'>;
   problemEntries: ReadonlyMap<string, string>;
   methodEntries: ReadonlyMap<string, string>;
   options: SweepOptions;

@@ -8,6 +8,7 @@ import { builtinMethods } from '../methods/registry.js';
 import { catalogue } from '../../problems/index.js';
 import { certificateCached, certificationPlan, needsCertificate, withCertifiedReference, withoutReference } from '../measure/certify.js';
 import { uniformProblem } from '../problems/uniform.js';
+import { sampleId, sampleNumber, type SampleSet } from '../problems/dispersion/expand.js';
 
 /** The file entries of a comma list (built-in ids left out). */
 export function fileEntries(list: string | undefined): string[] {
@@ -50,8 +51,8 @@ interface ListKind<T extends { id: string }> {
   prepare?: (item: T) => T;
   /** Other names (lower case) -> built-in id. */
   aliases?: Readonly<Record<string, string>>;
-  /** One item, or several (a dispersion yields one problem per sample). */
-  load(path: string): Promise<T | T[]>;
+  /** The item of a file (a dispersion's is its set of samples). */
+  load(path: string): Promise<T>;
 }
 
 /** The entries of a comma list: built-in ids, or files loaded by `kind.load`. */
@@ -66,11 +67,9 @@ async function resolveList<T extends { id: string }>(list: string | undefined, k
   const sources = new Map<string, string>();
   for (const entry of entries) {
     if (looksLikePath(entry)) {
-      const loaded = await kind.load(entry);
-      for (const item of Array.isArray(loaded) ? loaded : [loaded]) {
-        items.push(item);
-        sources.set(item.id, entry);
-      }
+      const item = await kind.load(entry);
+      items.push(item);
+      sources.set(item.id, entry);
       continue;
     }
     // Ids match whatever the case; a published alias stands for its method.
@@ -84,10 +83,117 @@ async function resolveList<T extends { id: string }>(list: string | undefined, k
   return { items, named: true, entries: sources };
 }
 
+/** Built samples kept per set: a lane runs a sample's settings one after another, so a few suffice. */
+const KEPT_SAMPLES = 16;
+
 /**
- * The problems of a --problem list. `uncertified` maps a file (absolute path) to the reason its
- * reference is not to be certified here (certification on a worker ran out of time): such a
- * problem keeps no reference, like one whose certification failed.
+ * The problems of a --problem list as sources: ready problems, and dispersions whose samples are
+ * built (and certified, and given the uniform layout) only when asked for by id.
+ */
+export interface ProblemSources {
+  /** Ready problems and sample sets, in list order. */
+  sources: (Problem | SampleSource)[];
+  named: boolean;
+  /** Entry (id or path) of each ready problem and of each sample set, by id (a set by its `of`). */
+  entries: Map<string, string>;
+  /** The problem `id`, a sample built now unless one of the last few built (throws when unknown). */
+  get(id: string): Problem;
+}
+
+/** A dispersion's samples, each built when asked for (see SampleSet). */
+export interface SampleSource {
+  kind: 'samples';
+  /** Stands for the samples in the list: `<of>-s1..<count>` (no problem id has dots). */
+  id: string;
+  set: SampleSet;
+  entry: string;
+  /** Sample k as the sweep runs it: certified where it needs to be, in the uniform layout. */
+  sample(k: number): Problem;
+}
+
+export function isSampleSource(x: Problem | SampleSource): x is SampleSource {
+  return (x as SampleSource).kind === 'samples';
+}
+
+/**
+ * The problems of a --problem list, samples left to be built on demand. `uncertified` maps a file
+ * (absolute path) to the reason its reference is not to be certified here (certification on a
+ * worker ran out of time): such a problem keeps no reference, like one whose certification failed.
+ */
+export async function problemSources(
+  list: string | undefined,
+  warn: (message: string) => void = () => {},
+  uncertified?: ReadonlyMap<string, string>,
+  note: (message: string) => void = () => {},
+): Promise<ProblemSources> {
+  // Certification is two tight solves and can take a while: say what happens and how long it took.
+  // A sample may be built more than once (see SampleSource): what is said about it is said once.
+  const said = new Set<string>();
+  const certified = (entry: string, x: Problem, skipped?: string): Problem => {
+    const first = !said.has(x.id);
+    said.add(x.id);
+    const label = `${entry}${x.dispersion ? ` (${x.id})` : ''}`;
+    const fresh = skipped === undefined && needsCertificate(x) && !certificateCached(x);
+    if (fresh) note(`${label}: no reference given; certifying one (${certificationPlan(x)})`);
+    const started = performance.now();
+    const p = skipped !== undefined ? withoutReference(x, skipped) : withCertifiedReference(x);
+    if (fresh && !p.reference.unavailable) note(`${label}: certified in ${((performance.now() - started) / 1000).toFixed(1)} s: ${p.reference.source ?? ''}`);
+    if (first && p.reference.unavailable) warn(`${label}: ${p.reference.unavailable}`);
+    if (first && p.reference.untrusted) warn(`warning: ${p.reference.untrusted}; its errors are not measured`);
+    return uniformProblem(p);
+  };
+  const resolved = await resolveList<Problem | SampleSource>(list, {
+    noun: 'problem',
+    flag: '--problem',
+    builtins: catalogue,
+    // A catalogue problem whose reference stepgauge certifies (leo-j2, say) gets it like a file's.
+    prepare: (p) => (needsCertificate(p as Problem) ? certified(p.id, p as Problem) : p),
+    async load(entry) {
+      const { loadUserProblem } = await import('./user-files.js');
+      const loaded = await loadUserProblem(entry);
+      const skipped = uncertified?.get(resolvePath(entry));
+      if (!isSampleSet(loaded)) return certified(entry, loaded, skipped);
+      return { kind: 'samples', id: `${sampleId(loaded.of, 1)}..${loaded.count}`, set: loaded, entry, sample: (k: number) => certified(entry, loaded.sample(k), skipped) };
+    },
+  });
+  const ready = new Map<string, Problem>();
+  const sets = new Map<string, SampleSource>();
+  for (const x of resolved.items) {
+    if (isSampleSource(x)) sets.set(x.set.of, x);
+    else ready.set(x.id, x);
+  }
+  const kept = new Map<string, Problem>();
+  const get = (id: string): Problem => {
+    const p = ready.get(id) ?? kept.get(id);
+    if (p) return p;
+    for (const [of, source] of sets) {
+      const k = sampleNumber(of, id);
+      if (k === null || k > source.set.count) continue;
+      const built = source.sample(k);
+      if (kept.size >= KEPT_SAMPLES) kept.delete(kept.keys().next().value!);
+      kept.set(id, built);
+      return built;
+    }
+    throw new Error(`the --problem list yields no problem '${id}'`);
+  };
+  return { sources: resolved.items, named: resolved.named, entries: resolved.entries, get };
+}
+
+function isSampleSet(x: Problem | SampleSet): x is SampleSet {
+  return typeof (x as SampleSet).sample === 'function' && typeof (x as SampleSet).count === 'number';
+}
+
+/** Every problem of the sources, samples built one after another (`each` sees each one). */
+export function* everyProblem(sources: ProblemSources): Generator<Problem> {
+  for (const x of sources.sources) {
+    if (!isSampleSource(x)) yield x;
+    else for (let k = 1; k <= x.set.count; k++) yield x.sample(k);
+  }
+}
+
+/**
+ * The problems of a --problem list, every sample of a dispersion built (choose runs them all);
+ * see problemSources for `uncertified`.
  */
 export async function resolveProblems(
   list: string | undefined,
@@ -95,32 +201,22 @@ export async function resolveProblems(
   uncertified?: ReadonlyMap<string, string>,
   note: (message: string) => void = () => {},
 ): Promise<Resolved<Problem>> {
-  // Certification is two tight solves and can take a while: say what happens and how long it took.
-  const certified = (entry: string, x: Problem, skipped?: string): Problem => {
-    const label = `${entry}${x.dispersion ? ` (${x.id})` : ''}`;
-    const fresh = skipped === undefined && needsCertificate(x) && !certificateCached(x);
-    if (fresh) note(`${label}: no reference given; certifying one (${certificationPlan(x)})`);
-    const started = performance.now();
-    const p = skipped !== undefined ? withoutReference(x, skipped) : withCertifiedReference(x);
-    if (fresh && !p.reference.unavailable) note(`${label}: certified in ${((performance.now() - started) / 1000).toFixed(1)} s: ${p.reference.source ?? ''}`);
-    if (p.reference.unavailable) warn(`${label}: ${p.reference.unavailable}`);
-    if (p.reference.untrusted) warn(`warning: ${p.reference.untrusted}; its errors are not measured`);
-    return uniformProblem(p);
-  };
-  return resolveList(list, {
-    noun: 'problem',
-    flag: '--problem',
-    builtins: catalogue,
-    // A catalogue problem whose reference stepgauge certifies (leo-j2, say) gets it like a file's.
-    prepare: (p) => (needsCertificate(p) ? certified(p.id, p) : p),
-    async load(entry) {
-      const { loadUserProblem } = await import('./user-files.js');
-      const loaded = await loadUserProblem(entry);
-      const skipped = uncertified?.get(resolvePath(entry));
-      const one = (x: Problem): Problem => certified(entry, x, skipped);
-      return Array.isArray(loaded) ? loaded.map(one) : one(loaded);
-    },
-  });
+  const sources = await problemSources(list, warn, uncertified, note);
+  const items = [...everyProblem(sources)];
+  assertUnique(items.map((x) => x.id), '--problem');
+  return { items, named: sources.named, entries: problemEntries(sources) };
+}
+
+/** Entry (id or path) by problem id, every sample of a set included. */
+export function problemEntries(sources: ProblemSources): Map<string, string> {
+  const entries = new Map<string, string>();
+  for (const x of sources.sources) {
+    if (!isSampleSource(x)) {
+      const entry = sources.entries.get(x.id);
+      if (entry !== undefined) entries.set(x.id, entry);
+    } else for (let k = 1; k <= x.set.count; k++) entries.set(sampleId(x.set.of, k), x.entry);
+  }
+  return entries;
 }
 
 export async function resolveMethods(list: string | undefined): Promise<Resolved<Method>> {

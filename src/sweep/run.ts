@@ -12,8 +12,10 @@ import { failedRun } from '../measure/run-one.js';
 import type { SweepInputs } from './inputs.js';
 import { messageOf } from '../core/errors.js';
 import { markUnchangedSettings } from './unchanged-settings.js';
-import { planSweep, type PlannedRun, type SweepPlan } from './plan.js';
-import { fileEntries, resolveMethods, resolveProblems } from './resolve.js';
+import { planStandIn, planSweep, type PlannedRun, type PlanProblem, type SweepPlan } from './plan.js';
+import { fileEntries, isSampleSource, problemEntries, problemSources, resolveMethods, type ProblemSources } from './resolve.js';
+import { sampleId } from '../problems/dispersion/expand.js';
+import { InputError } from '../core/errors.js';
 import { CERTIFY_TIMEOUT_RUNS, certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
 import { timeOnClocks } from './clocks.js';
 import { executionOrder } from './dealer.js';
@@ -85,7 +87,7 @@ export function methodRecord(m: Method): Record<string, unknown> {
 
 export async function executePlan(
   runs: readonly PlannedRun[],
-  problems: ReadonlyMap<string, Problem>,
+  problems: ProblemLookup,
   methods: ReadonlyMap<string, Method>,
   options: SweepOptions,
 ): Promise<RunResult[]> {
@@ -111,9 +113,17 @@ export async function executePlan(
   return out;
 }
 
+/** Problems by id; dispersion samples are built when asked for (see problemSources). */
+export type ProblemLookup = Pick<ReadonlyMap<string, Problem>, 'get'>;
+
 export interface AssembleInput {
   plan: SweepPlan;
   problems: readonly Problem[];
+  /**
+   * The problems' records in list order, given instead of building them from `problems` (a sweep
+   * over dispersion samples builds each sample's record as it plans, not holding the samples).
+   */
+  records?: readonly ProblemRecord[];
   methods: readonly Method[];
   runs: RunResult[];
   timed: boolean;
@@ -134,13 +144,13 @@ export async function assembleResults(input: AssembleInput): Promise<ResultsFile
     createdAt: new Date().toISOString(),
     environment,
     runs: markUnchangedSettings([...input.runs].sort((a, b) => (a.planIndex ?? 0) - (b.planIndex ?? 0))),
-    problems: input.problems.filter((p) => usedProblems.has(p.id) || input.plan.runs.length === 0).map((p) => problemRecord(p, input.stiffness)),
+    problems: (input.records ?? input.problems.map((p) => problemRecord(p, input.stiffness))).filter((p) => usedProblems.has(p.id) || input.plan.runs.length === 0),
     methods: input.methods.map(methodRecord),
     plan: { sha256: input.plan.sha256, runs: input.plan.runs.length },
     skipped: input.plan.skipped,
   };
   if (input.interrupted) results.interrupted = true;
-  if (input.problems.some((p) => p.dispersion)) {
+  if (input.records ? input.records.some((r) => r.dispersion) : input.problems.some((p) => p.dispersion)) {
     results.omitted = { traces: 'runs of dispersion samples carry no drift trace (drift maxima are kept); rerun a sample alone to see its trace' };
   }
   return results;
@@ -206,10 +216,14 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
     uncertified = await certifyOnPool(files.map((e) => resolvePath(e)), req.runTimeoutSeconds);
     req.onNote?.(`references of problem files ready in ${((performance.now() - started) / 1000).toFixed(1)} s`);
   }
-  const problems = await resolveProblems(req.problem, req.onWarning, uncertified, req.onNote);
+  const problems = await problemSources(req.problem, req.onWarning, uncertified, req.onNote);
+  // Samples are planned from stand-ins and their records built as they are, the stiffness ratio
+  // left for later (it takes far longer than the rest): one build each here, none kept.
+  const sampleRecords = new Map<string, ProblemRecord>();
+  const planned = planningView(problems, (p) => sampleRecords.set(p.id, problemRecord(p, new Map([[p.id, null]]))));
   const methods = await resolveMethods(req.method);
   const plan = planSweep({
-    problems: problems.items,
+    problems: planned,
     methods: methods.items,
     tolerances: req.tolerances,
     steps: req.steps,
@@ -241,8 +255,9 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
     ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
   };
   const environment = environmentFingerprint();
-  const problemMap = new Map(problems.items.map((p) => [p.id, p]));
-  const problemEntries = absoluteEntries(problems.entries);
+  const problemMap: ProblemLookup = { get: (id) => problems.get(id) };
+  const entries = problemEntries(problems);
+  const problemEntriesAbs = absoluteEntries(entries);
   const methodEntries = absoluteEntries(methods.entries);
   const measuring =
     lanes > 0
@@ -250,7 +265,7 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
           runs: todo,
           jobs: lanes,
           problems: problemMap,
-          problemEntries,
+          problemEntries: problemEntriesAbs,
           methodEntries,
           options,
           ...(uncertified ? { uncertified } : {}),
@@ -263,7 +278,7 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
       runs: measured.sort((a, b) => a.planned.planIndex - b.planned.planIndex),
       jobs: Math.max(1, req.jobs ?? 1),
       problems: problemMap,
-      problemEntries,
+      problemEntries: problemEntriesAbs,
       methodEntries,
       options: runOptions,
       timing,
@@ -278,15 +293,19 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   // The problems' stiffness ratios are computed while the runs go: on a parallel sweep this
   // process is idle then, and after the last run it would hold the sweep's end for tens of
   // milliseconds. User models under a run timeout get theirs on a worker, after the runs.
-  const early = req.runTimeoutSeconds ? undefined : stiffnessRatios(problems.items, plan.runs);
+  const ready = problems.sources.filter((x): x is Problem => !isSampleSource(x));
+  const early = req.runTimeoutSeconds ? undefined : stiffnessRatios(ready, plan.runs);
+  const samplesEarly = req.runTimeoutSeconds ? undefined : sampleStiffnessRatios(problems, plan.runs, early!);
   const fresh = await execution;
   const wanted = new Set(selected.map((s) => s.planIndex));
   const runs = [...done.values(), ...fresh].filter((r) => wanted.has(r.planIndex ?? -1));
   // User models are code: with a run timeout, their stiffness ratio is computed under it too.
-  const stiffness = req.runTimeoutSeconds ? await stiffnessOnPool(absoluteEntries(problems.entries), req.runTimeoutSeconds, uncertified) : early;
+  await samplesEarly;
+  const stiffness = req.runTimeoutSeconds ? await stiffnessOnPool(absoluteEntries(entries), req.runTimeoutSeconds, uncertified) : early;
   const results = await assembleResults({
     plan,
-    problems: problems.items,
+    problems: [],
+    records: recordsInOrder(problems, sampleRecords, stiffness),
     methods: methods.items,
     runs,
     timed: Boolean(req.timing),
@@ -328,6 +347,87 @@ function stiffnessRatios(problems: readonly Problem[], runs: readonly PlannedRun
   }
   return out;
 }
+
+/**
+ * What planning sees: ready problems as they are, each dispersion sample as a stand-in (planStandIn),
+ * built one at a time and handed to `each` (which builds its record) before it is let go.
+ */
+function planningView(sources: ProblemSources, each?: (p: Problem) => void): PlanProblem[] {
+  const out: PlanProblem[] = [];
+  const ids = new Set<string>();
+  for (const x of sources.sources) {
+    if (!isSampleSource(x)) {
+      ids.add(x.id);
+      out.push(x);
+      continue;
+    }
+    for (let k = 1; k <= x.set.count; k++) {
+      const p = x.sample(k);
+      if (ids.has(p.id)) throw new InputError(`'${p.id}' is listed twice`, '--problem');
+      ids.add(p.id);
+      out.push(planStandIn(p));
+      try {
+        each?.(p);
+      } catch {
+        // left to assembling the results, which builds the sample again and reports the error
+      }
+    }
+  }
+  return out;
+}
+
+/**
+ * Every problem's record in list order; a sample's from `built` with its stiffness ratio put in
+ * (computed now, from the sample built again, when `stiffness` lacks it: that reports an error).
+ */
+function recordsInOrder(sources: ProblemSources, built: ReadonlyMap<string, ProblemRecord>, stiffness: ReadonlyMap<string, number | null> | undefined): ProblemRecord[] {
+  const out: ProblemRecord[] = [];
+  for (const x of sources.sources) {
+    if (!isSampleSource(x)) {
+      out.push(problemRecord(x, stiffness));
+      continue;
+    }
+    for (let k = 1; k <= x.set.count; k++) {
+      const id = sampleId(x.set.of, k);
+      const record = built.get(id);
+      if (!record) out.push(problemRecord(x.sample(k), stiffness));
+      else {
+        record.stiffnessRatio = stiffness?.has(id) ? stiffness.get(id)! : problemStiffnessRatio(x.sample(k));
+        out.push(record);
+      }
+    }
+  }
+  return out;
+}
+
+/**
+ * The stiffness ratios of the samples the runs use, into `out`, a sample built again at a time:
+ * about a millisecond each, so the work yields to the event loop often, letting the workers'
+ * answers through while it goes. One that throws is left out (see stiffnessRatios).
+ */
+async function sampleStiffnessRatios(sources: ProblemSources, runs: readonly PlannedRun[], out: Map<string, number | null>): Promise<void> {
+  const used = new Set(runs.map((r) => r.problem));
+  let slice = performance.now();
+  for (const x of sources.sources) {
+    if (!isSampleSource(x)) continue;
+    for (let k = 1; k <= x.set.count; k++) {
+      const id = sampleId(x.set.of, k);
+      if (!used.has(id)) continue;
+      try {
+        out.set(id, problemStiffnessRatio(x.sample(k)));
+      } catch {
+        // left to assembling the results (see above)
+      }
+      if (performance.now() - slice > STIFFNESS_SLICE_MS) {
+        await new Promise<void>((resolve) => setImmediate(resolve));
+        slice = performance.now();
+      }
+    }
+  }
+}
+
+/** Longest stretch the samples' stiffness ratios hold the event loop in a parallel sweep. */
+const STIFFNESS_SLICE_MS = 10;
 
 function absoluteEntries(entries: ReadonlyMap<string, string>): Map<string, string> {
   return new Map([...entries].map(([id, e]) => [id, resolvePath(e)]));

@@ -2,6 +2,7 @@
 import { existsSync, statSync } from 'node:fs';
 import { extname } from 'node:path';
 import type { Method, Problem } from '../core/types.js';
+import type { SampleSet } from '../problems/dispersion/expand.js';
 import { InputError } from '../core/errors.js';
 import { loadProblemFileWithSamples } from '../problems/load-file.js';
 import { loadDispersionOfBuiltin } from './dispersion-file.js';
@@ -16,8 +17,8 @@ function assertFile(path: string, flag: string): void {
   if (!s.isFile()) throw new InputError(`expected a file, found ${kindOf(s)}`, `${flag} ${path}`);
 }
 
-/** The problem of a file, or one problem per sample when the file disperses one. */
-export async function loadUserProblem(path: string): Promise<Problem | Problem[]> {
+/** The problem of a file, or its samples (built on demand) when the file disperses one. */
+export async function loadUserProblem(path: string): Promise<Problem | SampleSet> {
   assertFile(path, '--problem');
   if (MODULE.test(path)) return loadProblemModule(path);
   if (/\.(ya?ml|json)$/i.test(path)) {

@@ -7,7 +7,7 @@ import { messageOf } from '../core/errors.js';
 import { executeRun, type ExecuteOptions } from './execute.js';
 import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
-import { resolveMethods, resolveProblems } from './resolve.js';
+import { isSampleSource, problemSources, resolveMethods, type ProblemSources } from './resolve.js';
 import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 import { timeRun, type TimingOptions, type TimingResult } from '../measure/timing.js';
 import type { RunOptions } from '../measure/run-one.js';
@@ -35,20 +35,24 @@ if (typeof process.send === 'function') {
   process.on('disconnect', () => process.exit(0));
 }
 
-const problems = new Map<string, Problem[]>();
-const methods = new Map<string, Method>();
+const problems = new Map<string, ProblemSources>();
 
-/** The problem `id` of an entry (an entry may yield several: the samples of a dispersion). */
+/**
+ * The problem `id` of an entry (an entry may yield several: the samples of a dispersion, of which
+ * only the ones asked for are built, the last few kept; see problemSources).
+ */
 async function problemFor(entry: string, id: string | undefined, uncertified?: string): Promise<Problem> {
-  let items = problems.get(entry);
-  if (!items) {
-    items = (await resolveProblems(entry, undefined, uncertified !== undefined ? new Map([[entry, uncertified]]) : undefined)).items;
-    problems.set(entry, items);
+  let sources = problems.get(entry);
+  if (!sources) {
+    sources = await problemSources(entry, undefined, uncertified !== undefined ? new Map([[entry, uncertified]]) : undefined);
+    problems.set(entry, sources);
   }
-  const p = id === undefined ? items[0] : items.find((x) => x.id === id);
-  if (!p) throw new Error(`${entry} yields no problem '${id}'`);
-  return p;
+  if (id !== undefined) return sources.get(id);
+  const first = sources.sources[0]!;
+  return isSampleSource(first) ? first.sample(1) : first;
 }
+
+const methods = new Map<string, Method>();
 
 async function methodFor(entry: string): Promise<Method> {
   let m = methods.get(entry);
@@ -126,6 +130,8 @@ async function runOne(task: WorkerTask): Promise<RunResult> {
 export interface TimeTask {
   kind: 'time';
   problemEntry: string;
+  /** Which of the entry's problems (a dispersion yields several). */
+  problemId: string;
   methodEntry: string;
   uncertified?: string;
   settings: Setting[];
@@ -134,7 +140,7 @@ export interface TimeTask {
 }
 
 async function timeGroup(task: TimeTask): Promise<(TimingResult | null)[]> {
-  const problem = await problemFor(task.problemEntry, task.uncertified);
+  const problem = await problemFor(task.problemEntry, task.problemId, task.uncertified);
   const method = await methodFor(task.methodEntry);
   const out: (TimingResult | null)[] = [];
   for (const setting of task.settings) out.push(await timeRun(problem, method, setting, task.options, task.timing));

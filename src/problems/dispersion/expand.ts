@@ -27,7 +27,24 @@ export function sampleId(of: string, k: number): string {
   return `${of}-s${k}`;
 }
 
-export function expandDispersion(input: DispersionInput): Problem[] {
+/**
+ * The samples of a dispersion, each built when asked for: a sample is a pure function of (seed,
+ * sample number), so a process builds only the samples it runs and a sweep's memory does not grow
+ * with the sample count.
+ */
+export interface SampleSet {
+  /** The nominal problem's id. */
+  of: string;
+  /** Random samples plus explicit cases, numbered 1..count. */
+  count: number;
+  /** The undispersed problem (what every sample shares: pairing, tolerances, atol scale, layout). */
+  nominal: Problem;
+  /** Sample k (1..count), built now. */
+  sample(k: number): Problem;
+}
+
+/** Checks the block against the model and answers its samples, built on demand. */
+export function dispersionSamples(input: DispersionInput): SampleSet {
   const { nominal, spec, where } = input;
   const states = nominal.stateNames ?? nominal.y0.map((_, i) => `y${i + 1}`);
   const initial = Object.entries(spec.initial ?? {});
@@ -51,8 +68,8 @@ export function expandDispersion(input: DispersionInput): Problem[] {
   const total = spec.samples + (spec.cases?.length ?? 0);
   if (total === 0) throw new InputError('dispersion: no samples and no cases; give samples > 0 or a list of cases', where);
 
-  const out: Problem[] = [];
-  for (let k = 1; k <= total; k++) {
+  const sample = (k: number): Problem => {
+    if (!Number.isInteger(k) || k < 1 || k > total) throw new RangeError(`${nominal.id} has samples 1..${total}, not ${k}`);
     const explicit = k > spec.samples ? spec.cases![k - spec.samples - 1]! : undefined;
     const values: Record<string, number> = {};
     if (explicit) Object.assign(values, explicit);
@@ -61,9 +78,23 @@ export function expandDispersion(input: DispersionInput): Problem[] {
       initial.forEach(([name, dist], q) => (values[name] = drawValue(dist, nominal.y0[states.indexOf(name)]!, spec.seed, k, q)));
       parameters.forEach(([name, dist], q) => (values[name] = drawValue(dist, input.parameters.get(name) ?? 0, spec.seed, k, initial.length + q)));
     }
-    out.push(sampleProblem(input, states, values, { of: nominal.id, sample: k, explicitCase: explicit !== undefined, seed: spec.seed, values }));
-  }
-  return out;
+    return sampleProblem(input, states, values, { of: nominal.id, sample: k, explicitCase: explicit !== undefined, seed: spec.seed, values });
+  };
+  return { of: nominal.id, count: total, nominal, sample };
+}
+
+/** Every sample, built at once (choose over a dispersion runs them all at every trial). */
+export function expandDispersion(input: DispersionInput): Problem[] {
+  const set = dispersionSamples(input);
+  return Array.from({ length: set.count }, (_, i) => set.sample(i + 1));
+}
+
+/** The sample number of a sample id of `of` (sampleId's inverse), or null when `id` is not one. */
+export function sampleNumber(of: string, id: string): number | null {
+  const prefix = `${of}-s`;
+  if (!id.startsWith(prefix)) return null;
+  const text = id.slice(prefix.length);
+  return /^[1-9][0-9]*$/.test(text) ? Number(text) : null;
 }
 
 function needsNominal(dist: DistributionSpec): boolean {
