@@ -3,6 +3,7 @@
 // conforming parser must read both texts to equal values).
 import { describe, expect, it } from 'vitest';
 import { resultsJson } from '../src/results/json.js';
+import { resultsCsv } from '../src/results/csv.js';
 import { runSweep } from '../src/sweep/run.js';
 import type { ResultsFile } from '../src/results/contract.js';
 import { mkdtempSync, readFileSync } from 'node:fs';
@@ -41,11 +42,13 @@ describe('results.json text', () => {
     expect(text).toBe('{\n  "format": "stepgauge-results",\n  "version": 1,\n  "runs": []\n}\n');
   });
 
-  // `run` writes results.json from the lines its journal serialised as each run finished, and
-  // prints --json by serialising the finished results afresh: the two texts are equal only if no
-  // run changed after it finished. Failed runs (a fixed-step explicit method on a stiff problem,
-  // an error of Infinity/NaN) and a parallel sweep are included.
-  it.each([1, 2])('run --jobs %i writes the same results.json as it prints with --json', async (jobs) => {
+  // `run` keeps no run: it writes results.json and results.csv from the lines its journal
+  // serialised as each run finished, read back in plan order (issue 29). Both must be what the
+  // library's in-memory sweep serialises: equal only if no run changed after it finished and the
+  // streamed writer lays the file out as resultsJson does. Failed runs (a fixed-step explicit
+  // method on a stiff problem, an error of Infinity/NaN) and a parallel sweep are included; --json
+  // prints the written file.
+  it.each([1, 2])('run --jobs %i writes results.json and results.csv as the in-memory sweep serialises them', async (jobs) => {
     const out = join(mkdtempSync(join(tmpdir(), 'stepgauge-json-lines-')), 'r');
     const r = await runCli(['run', '-p', 'kepler-circular,robertson', '-m', 'dormand-prince-54,rk4,hairer-wanner-rodas4', '-t', '1e-4,1e-6', '-s', '10,100', '--no-timing', '--no-report', '--json', '--jobs', String(jobs), '-o', out]);
     expect(r.code, r.stderr).toBe(0);
@@ -54,5 +57,11 @@ describe('results.json text', () => {
     const runs = (JSON.parse(written) as ResultsFile).runs;
     expect(runs.some((x) => x.status !== 'ok')).toBe(true);
     expect(runs.length).toBeGreaterThan(8);
+    const fresh = await runSweep({ problem: 'kepler-circular,robertson', method: 'dormand-prince-54,rk4,hairer-wanner-rodas4', tolerances: [1e-4, 1e-6], steps: [10, 100], timing: null });
+    const text = resultsJson(fresh);
+    // Everything from the runs to the plan, byte for byte (the environment and times differ).
+    const from = (t: string) => t.slice(t.indexOf('  "runs": ['), t.indexOf('  "skipped":'));
+    expect(from(written)).toBe(from(text));
+    expect(readFileSync(join(out, 'results.csv'), 'utf8')).toBe(resultsCsv(fresh));
   });
 });

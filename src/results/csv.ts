@@ -105,3 +105,13 @@ export function csvText(rows: readonly (readonly string[])[]): string {
 export function resultsCsv(results: ResultsFile): string {
   return csvText([[...CSV_COLUMNS], ...results.runs.map(row)]);
 }
+
+/** The header line of results.csv, for writing it a run at a time (see csvRunLine). */
+export function csvHeaderLine(): string {
+  return csvText([CSV_COLUMNS]);
+}
+
+/** One run's line of results.csv; the header line and these, in order, are resultsCsv's text. */
+export function csvRunLine(run: RunResult): string {
+  return csvText([row(run)]);
+}

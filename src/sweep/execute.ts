@@ -22,6 +22,8 @@ export interface SweepOptions extends ExecuteOptions {
   onRun?: (p: SweepProgress) => void;
   /** Checked between runs: when it returns true, no further run starts. */
   shouldStop?: () => boolean;
+  /** False: runs go to onRun only and are not collected (a caller that writes them as they come). */
+  keepRuns?: boolean;
 }
 
 export async function executeRun(

@@ -1,12 +1,14 @@
 // The sweep journal: one JSON line per finished run, appended as each run ends, so a crash, a
 // Ctrl-C or a killed CI job loses at most the runs in flight. `run --resume` reads it back.
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readSync, rmSync, writeSync } from 'node:fs';
 import { writeFileAtomicSync } from '../results/atomic.js';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { RunResult } from '../results/contract.js';
+import type { RunLines } from '../results/json.js';
 import { asFileSystemError, InputError } from '../core/errors.js';
 
 const JOURNAL_KIND = 'stepgauge-journal';
+const NEWLINE = Buffer.from('\n');
 const JOURNAL_VERSION = 1;
 
 export interface JournalHeader {
@@ -37,6 +39,15 @@ export class Journal {
    */
   private pending: Uint8Array[] = [];
   private flushQueued = false;
+  /** Bytes in the file once the pending lines are written. */
+  private size = 0;
+  /**
+   * Each run line's plan index, start and length in the file (the line feed left out), so the
+   * runs can be read back in plan order one at a time (runLines) instead of held in memory.
+   */
+  private readonly planIndex: number[] = [];
+  private readonly offset: number[] = [];
+  private readonly length: number[] = [];
   constructor(outDir: string, header: Omit<JournalHeader, 'kind' | 'version'>, keep: readonly RunResult[] = []) {
     this.path = journalPath(outDir);
     const head: JournalHeader = { kind: JOURNAL_KIND, version: JOURNAL_VERSION, ...header };
@@ -44,7 +55,9 @@ export class Journal {
       mkdirSync(dirname(this.path), { recursive: true });
       // A resumed sweep rewrites the journal with the runs it keeps: atomically, so a kill at that
       // moment leaves the old journal, never an empty one.
-      writeFileAtomicSync(this.path, [head, ...keep].map((x) => JSON.stringify(x)).join('\n') + '\n');
+      const lines = [head, ...keep].map((x) => Buffer.from(JSON.stringify(x)));
+      lines.forEach((line, i) => (i > 0 ? this.index(keep[i - 1]!, line.length) : (this.size += line.length + 1)));
+      writeFileAtomicSync(this.path, Buffer.concat(lines.flatMap((line) => [line, NEWLINE])));
       this.fd = openSync(this.path, 'a');
     } catch (e) {
       throw asFileSystemError(e, this.path);
@@ -57,6 +70,7 @@ export class Journal {
     if (this.fd === null) throw new Error(`journal ${this.path} was already closed`);
     if (this.failure) throw this.failure;
     const bytes = Buffer.from(`${JSON.stringify(run)}\n`);
+    this.index(run, bytes.length - 1);
     this.pending.push(bytes);
     if (!this.flushQueued) {
       this.flushQueued = true;
@@ -70,6 +84,41 @@ export class Journal {
     }
     return bytes.subarray(0, bytes.length - 1);
   }
+  private index(run: RunResult, length: number): void {
+    this.planIndex.push(run.planIndex ?? -1);
+    this.offset.push(this.size);
+    this.length.push(length);
+    this.size += length + 1;
+  }
+
+  /**
+   * The run lines in plan order (for a plan index journaled twice, the later line), read from the
+   * file one at a time when iterated; for after `close`. `keep` leaves runs out by plan index.
+   */
+  runLines(keep: (planIndex: number) => boolean = () => true): RunLines {
+    const latest = new Map<number, number>();
+    this.planIndex.forEach((planIndex, i) => keep(planIndex) && latest.set(planIndex, i));
+    const order = Int32Array.from([...latest.keys()].sort((a, b) => a - b), (planIndex) => latest.get(planIndex)!);
+    const { path, offset, length } = this;
+    return {
+      count: order.length,
+      *lines() {
+        const fd = openSync(path, 'r');
+        try {
+          for (const i of order) {
+            const line = Buffer.allocUnsafe(length[i]!);
+            if (readSync(fd, line, 0, line.length, offset[i]!) !== line.length) throw new Error(`journal ${path} ended early`);
+            yield line;
+          }
+        } catch (e) {
+          throw asFileSystemError(e, path, 'cannot read');
+        } finally {
+          closeSync(fd);
+        }
+      },
+    };
+  }
+
   /** Writes the pending lines now. */
   flush(): void {
     this.flushQueued = false;

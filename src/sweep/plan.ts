@@ -1,7 +1,7 @@
 // Planning a sweep: which (problem, method, setting) runs to make, in a fixed canonical order.
 import type { Method, Problem, Setting } from '../core/types.js';
 import { InputError } from '../core/errors.js';
-import { sha256 } from '../core/hash.js';
+import { sha256, sha256Parts } from '../core/hash.js';
 import { absoluteTolerance, type AtolOverride } from '../core/tolerance.js';
 import { DEFAULT_TOLERANCE_RANGE } from '../core/defaults.js';
 import { requestedRtolProblem, requestedStepsProblem } from '../core/setting.js';
@@ -141,11 +141,14 @@ export function planSweep(req: PlanRequest): SweepPlan {
       }
     }
   }
-  const fingerprint = sha256(
-    JSON.stringify({
-      runs: runs.map((r) => [r.problem, r.method, r.setting]),
-      problems: req.problems.map((p) => [p.id, p.definitionSha256 ?? sha256(p.definition ?? '')]),
-    }),
+  // The SHA-256 of JSON.stringify({ runs: [[problem, method, setting], ...], problems: [[id,
+  // sha256 of definition], ...] }), hashed a run at a time rather than built as one text.
+  const fingerprint = sha256Parts(
+    (function* () {
+      yield '{"runs":[';
+      for (let i = 0; i < runs.length; i++) yield (i > 0 ? ',' : '') + JSON.stringify([runs[i]!.problem, runs[i]!.method, runs[i]!.setting]);
+      yield `],"problems":${JSON.stringify(req.problems.map((p) => [p.id, p.definitionSha256 ?? sha256(p.definition ?? '')]))}}`;
+    })(),
   );
   return { runs, skipped, sha256: fingerprint };
 }

@@ -99,7 +99,7 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
   const out: RunResult[] = [];
   let failed = 0;
   // Callbacks stay here; workers get only the serialisable run options.
-  const { onRun, shouldStop, ...taskOptions } = options;
+  const { onRun, shouldStop, keepRuns, ...taskOptions } = options;
 
   const workerTask = (planned: PlannedRun): WorkerTask => {
     const task: WorkerTask = {
@@ -144,10 +144,11 @@ export async function executeOnPool(input: PoolInput): Promise<RunResult[]> {
     return { runs, notStarted: [], lost: !outcome.timedOut };
   };
 
+  let done = 0;
   const record = (run: RunResult): void => {
     if (run.status !== 'ok') failed++;
-    out.push(run);
-    onRun?.({ done: out.length, total: input.runs.length, failed, last: run });
+    if (keepRuns !== false) out.push(run);
+    onRun?.({ done: ++done, total: input.runs.length, failed, last: run });
   };
 
   const dealer = new RunDealer(input.runs, laneCount);

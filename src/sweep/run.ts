@@ -93,6 +93,7 @@ export async function executePlan(
 ): Promise<RunResult[]> {
   const out: RunResult[] = [];
   let failed = 0;
+  let done = 0;
   for (const planned of runs) {
     // Yield to the event loop between runs so signals (Ctrl-C) and progress output get through.
     await new Promise<void>((resolve) => setImmediate(resolve));
@@ -107,8 +108,8 @@ export async function executePlan(
       run = { ...failedRun(problem, { id: planned.method }, planned.setting, messageOf(e)), planIndex: planned.planIndex };
     }
     if (run.status !== 'ok') failed++;
-    out.push(run);
-    options.onRun?.({ done: out.length, total: runs.length, failed, last: run });
+    if (options.keepRuns !== false) out.push(run);
+    options.onRun?.({ done: ++done, total: runs.length, failed, last: run });
   }
   return out;
 }
@@ -185,6 +186,11 @@ export interface SweepRequest {
   /** Runs already finished (resume): matched by plan index and not run again. */
   finished?: readonly RunResult[];
   /**
+   * True: runs are not kept; each goes to onRun only (the CLI journals it and writes the files from
+   * the journal), so the sweep's memory does not grow with its runs. The answer's `runs` is empty.
+   */
+  streamRuns?: boolean;
+  /**
    * Workers started ahead of the sweep (prestartLanes). A parallel sweep takes up to `jobs` of
    * them and ends them; the caller releases the rest, e.g. all of them after bad input.
    */
@@ -241,7 +247,7 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   };
   // Runs are reported (progress, journal) once complete: a timed run after its timing phase.
   const timing = req.timing ?? null;
-  const report = progressCounter(todo.length, req.onRun);
+  const report = progressCounter(todo.length, req.onRun, Boolean(timing));
   const measured: { run: RunResult; planned: PlannedRun }[] = [];
   const byIndex = new Map(todo.map((r) => [r.planIndex, r]));
   const options: SweepOptions = {
@@ -253,6 +259,7 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
       else report(p.last);
     },
     ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
+    ...(req.streamRuns ? { keepRuns: false } : {}),
   };
   const environment = environmentFingerprint();
   const problemMap: ProblemLookup = { get: (id) => problems.get(id) };
@@ -298,7 +305,8 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   const samplesEarly = req.runTimeoutSeconds ? undefined : sampleStiffnessRatios(problems, plan.runs, early!);
   const fresh = await execution;
   const wanted = new Set(selected.map((s) => s.planIndex));
-  const runs = [...done.values(), ...fresh].filter((r) => wanted.has(r.planIndex ?? -1));
+  const runs = req.streamRuns ? [] : [...done.values(), ...fresh].filter((r) => wanted.has(r.planIndex ?? -1));
+  const finishedCount = req.streamRuns ? [...done.keys()].filter((i) => wanted.has(i ?? -1)).length + report.count() : runs.length;
   // User models are code: with a run timeout, their stiffness ratio is computed under it too.
   await samplesEarly;
   const stiffness = req.runTimeoutSeconds ? await stiffnessOnPool(absoluteEntries(entries), req.runTimeoutSeconds, uncertified) : early;
@@ -309,7 +317,7 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
     methods: methods.items,
     runs,
     timed: Boolean(req.timing),
-    interrupted: runs.length < selected.length,
+    interrupted: finishedCount < selected.length,
     environment,
     ...(stiffness ? { stiffness } : {}),
   });
@@ -318,16 +326,17 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   return results;
 }
 
-/** Numbers each completed run for the caller's progress callback, and remembers which were reported. */
-function progressCounter(total: number, onRun: SweepRequest['onRun']): ((run: RunResult) => void) & { reported(): RunResult[] } {
+/** Numbers each completed run for the caller's progress callback, and remembers which were reported (when `remember`). */
+function progressCounter(total: number, onRun: SweepRequest['onRun'], remember: boolean): ((run: RunResult) => void) & { reported(): RunResult[]; count(): number } {
   const seen: RunResult[] = [];
   let failed = 0;
+  let count = 0;
   const report = (run: RunResult): void => {
     if (run.status !== 'ok') failed++;
-    seen.push(run);
-    onRun?.({ done: seen.length, total, failed, last: run });
+    if (remember) seen.push(run);
+    onRun?.({ done: ++count, total, failed, last: run });
   };
-  return Object.assign(report, { reported: () => seen });
+  return Object.assign(report, { reported: () => seen, count: () => count });
 }
 
 /**

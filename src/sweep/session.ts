@@ -3,7 +3,8 @@
 // The CLI only parses flags, passes hooks that print, and prints the outcome.
 import type { Method } from '../core/types.js';
 import type { ResultsFile, RunResult } from '../results/contract.js';
-import type { KnownRunLine } from '../results/json.js';
+import type { StreamedRuns } from '../results/streamed-results.js';
+import { outputRun, unchangedReviser } from './unchanged-settings.js';
 import { Journal } from './journal.js';
 import { takeLock } from './lock.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from './lanes.js';
@@ -25,8 +26,12 @@ export interface SessionHooks {
 }
 
 export interface SweepSession {
-  /** Runs the sweep, then `write`s its folder; the journal goes once the folder is written. */
-  run(hooks: SessionHooks, write: (results: ResultsFile, known: KnownRunLine) => Promise<void>): Promise<ResultsFile>;
+  /**
+   * Runs the sweep, then `write`s its folder from `results` (its runs left out) and the runs kept
+   * in the journal; the journal goes once the folder is written. The answer's runs are what
+   * `write` answered (a summary view of each, see summaryView).
+   */
+  run(hooks: SessionHooks, write: (results: ResultsFile, runs: StreamedRuns) => Promise<RunResult[]>): Promise<ResultsFile>;
   /** Ends the workers the sweep did not take and releases the folder. */
   close(): Promise<void>;
 }
@@ -82,17 +87,24 @@ async function journaledSweep(
   req: SweepRequest,
   outDir: string,
   hooks: SessionHooks,
-  write: (results: ResultsFile, known: KnownRunLine) => Promise<void>,
+  write: (results: ResultsFile, runs: StreamedRuns) => Promise<RunResult[]>,
   checkPlan?: (sha256: string) => void,
 ): Promise<ResultsFile> {
   const { runSweep, sweepRequestRecord } = await import('./run.js');
   let journal: Journal | undefined;
-  // The journal serialises each run as it finishes, while the workers run; results.json reuses
-  // those lines instead of serialising every run again after the last one (bench/README.md).
-  const journalLines = new Map<RunResult, Uint8Array>();
+  // No run is kept (streamRuns): the journal serialises each as it finishes, while the workers run,
+  // and the folder is written from its lines (bench/README.md), so memory does not grow with the
+  // runs. Runs with a reported output keep what the unchanged-setting check needs.
+  let journaled = 0;
+  const outputs: NonNullable<ReturnType<typeof outputRun>>[] = [];
+  for (const r of req.finished ?? []) {
+    const o = outputRun(r);
+    if (o) outputs.push(o);
+  }
   const signals = stopSignals(() => hooks.onStopAsked?.());
   const sweep: SweepRequest = {
     ...req,
+    streamRuns: true,
     onPlan: (plan, selected, methods) => {
       checkPlan?.(plan.sha256);
       hooks.onPlan?.(plan, selected, methods, req);
@@ -103,7 +115,12 @@ async function journaledSweep(
       signals.listen();
     },
     onRun: (p) => {
-      if (journal) journalLines.set(p.last, journal.append(p.last));
+      if (journal) {
+        journal.append(p.last);
+        journaled++;
+      }
+      const o = outputRun(p.last);
+      if (o) outputs.push(o);
       hooks.onRun?.(p);
     },
     shouldStop: signals.stopping,
@@ -116,14 +133,16 @@ async function journaledSweep(
   } catch (e) {
     // A sweep that failed before any run finished (a worker that could not start, say) leaves
     // nothing to resume.
-    if (journal && journalLines.size === 0 && (req.finished?.length ?? 0) === 0) journal.remove();
+    if (journal && journaled === 0 && (req.finished?.length ?? 0) === 0) journal.remove();
     throw e;
   } finally {
     journal?.close();
     signals.close();
     hooks.onRunsEnded?.();
   }
-  await write(results, (run) => journalLines.get(run));
-  journal?.remove();
+  if (!journal) throw new Error('the sweep ended without a plan');
+  const planned = (results.plan as { runs: number }).runs;
+  results.runs = await write(results, { lines: journal.runLines((i) => i >= 0 && i < planned), revise: unchangedReviser(outputs) });
+  journal.remove();
   return results;
 }

@@ -5,6 +5,8 @@
 import type { Command } from 'commander';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
+import { createReadStream } from 'node:fs';
+import { pipeline } from 'node:stream/promises';
 import type { RegisterCommand } from './register.js';
 import { commandLine } from '../command-line.js';
 import { parseAtol, parseJobs, parseLevels, parsePositive, parsePositiveInt, parseRunTimeout, parseSteps, parseTolerances } from '../options.js';
@@ -115,7 +117,6 @@ async function sweepAndPrint(
   const { unusedFlagNotes } = await import('../flag-notes.js');
   const { progressLine } = await import('../progress.js');
   const { summaryText } = await import('../summary.js');
-  const { resultsJson } = await import('../../results/json.js');
   const { writeSweepFolder } = await import('../../results/sweep-folder.js');
   const stdout = divertStdout();
   const log = (s: string) => (flags.json ? process.stderr.write(`${s}\n`) : stdout.write(`${s}\n`));
@@ -141,11 +142,17 @@ async function sweepAndPrint(
         stdout.restore();
       },
     },
-    async (done, known) => {
+    async (done, runs) => {
       done.command = commandLine();
       // The renderer (chart.js, the canvas binding, fonts) is loaded only for a report, after the runs.
       const writeReport = flags.report ? (await import('../../report/index.js')).writeReport : null;
-      await writeSweepFolder(outDir, done, { known, ...(writeReport ? { addFiles: (tmp) => writeReport(done, tmp, levels ? { levels } : {}) } : {}) });
+      const { readResultsFile } = await import('../../results/read.js');
+      // A report draws every run, so it reads them all back (a large dispersion: --no-report, then `stepgauge envelope`).
+      const views = await writeSweepFolder(outDir, done, {
+        runs,
+        ...(writeReport ? { addFiles: (tmp) => writeReport(readResultsFile(join(tmp, 'results.json')), tmp, levels ? { levels } : {}) } : {}),
+      });
+      return views ?? [];
     },
   );
   if (!flags.out && flags.resume === undefined) pointLatest(outDir);
@@ -155,7 +162,7 @@ async function sweepAndPrint(
     return;
   }
 
-  if (flags.json) process.stdout.write(resultsJson(results));
+  if (flags.json) await pipeline(createReadStream(join(outDir, 'results.json')), process.stdout, { end: false });
   else {
     log(summaryText(results));
     log(`\nwrote ${join(outDir, 'results.json')}, results.csv${flags.report ? ', report.html, report.md and plots/' : ''}`);
