@@ -1,7 +1,13 @@
 // Merging shards: refuses overlaps and mismatches naming the files; the merge of all shards
 // equals the unsharded sweep in everything but time. SYNTHETIC runs (test/fixtures/gate).
 import { describe, expect, it } from 'vitest';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { mergeResults, type MergeInput } from '../src/results/merge.js';
+import { mergeFiles } from '../src/results/merge-files.js';
+import { resultsJson } from '../src/results/json.js';
+import { readResultsFile } from '../src/results/read.js';
 import { selectShard } from '../src/sweep/shard.js';
 import type { ResultsFile, RunResult } from '../src/results/contract.js';
 import { syntheticResults, syntheticRun, syntheticSweep } from './fixtures/gate/synthetic.js';
@@ -99,5 +105,35 @@ describe('mergeResults', () => {
     expect(merged.problems.map((p) => p.id)).toEqual(['zeta', 'alpha']);
     expect(merged.interrupted).toBe(true);
     expect(warnings.join('\n')).toContain('b.json');
+  });
+
+  // `stepgauge merge` holds one file's runs at a time (results/merge-files.ts): the file it writes
+  // must be, byte for byte, what the in-memory merge serialises.
+  it.each([
+    ['three shards', () => shardFiles(syntheticSweep(), 3).reverse()],
+    ['two separate sweeps, one interrupted', () => [
+      { path: 'a.json', results: syntheticResults([syntheticRun({ problem: 'zeta' })]) },
+      { path: 'b.json', results: syntheticResults([syntheticRun({ problem: 'alpha' })], { interrupted: true }) },
+    ]],
+  ])('mergeFiles writes what mergeResults serialises (%s)', (_, make) => {
+    const dir = mkdtempSync(join(tmpdir(), 'stepgauge-merge-files-'));
+    try {
+      const files = (make() as MergeInput[]).map((f) => {
+        const path = join(dir, f.path);
+        writeFileSync(path, resultsJson(f.results));
+        return { path, results: readResultsFile(path) };
+      });
+      const out = join(dir, 'merged.json');
+      const warned: string[] = [];
+      const count = mergeFiles(files.map((f) => f.path), out, (w) => warned.push(w));
+      const expected: string[] = [];
+      const inMemory = mergeResults(files, (w) => expected.push(w));
+      expect(readFileSync(out, 'utf8')).toBe(resultsJson(inMemory));
+      expect(count).toBe(inMemory.runs.length);
+      expect(warned).toEqual(expected);
+      expect(readdirSync(dir).filter((n) => n.startsWith('.'))).toEqual([]); // no temporary left
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });

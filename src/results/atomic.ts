@@ -8,7 +8,8 @@ import { basename, dirname, join, resolve } from 'node:path';
 import { assertReplaceableFolder, OUTPUT_MARKER, OUTPUT_MARKER_TEXT } from './ownership.js';
 import { asFileSystemError } from '../core/errors.js';
 
-function tempSibling(target: string, tag: string): string {
+/** A fresh temporary name beside `target` (hidden, with the process id and a random tag). */
+export function tempSibling(target: string, tag: string): string {
   const abs = resolve(target);
   return join(dirname(abs), `.${basename(abs)}.${tag}-${process.pid}-${randomBytes(4).toString('hex')}`);
 }
@@ -21,6 +22,28 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
     throw asFileSystemError(e, path);
   }
   writeFileAtomicSync(path, data);
+}
+
+/**
+ * Writes `path` by `fill(tmp)`, which writes the whole file at the temporary sibling `tmp` (for a
+ * file written piece by piece), then flushes it and renames it into place; on failure the
+ * temporary is removed and nothing is left at `path`.
+ */
+export function writeFileAtomicWith(path: string, fill: (tmp: string) => void): void {
+  const tmp = tempSibling(path, 'tmp');
+  try {
+    fill(tmp);
+    const fd = openSync(tmp, 'r+');
+    try {
+      fsyncSync(fd);
+    } finally {
+      closeSync(fd);
+    }
+    renameSync(tmp, path);
+  } catch (e) {
+    rmSync(tmp, { force: true });
+    throw asFileSystemError(e, path);
+  }
 }
 
 /**

@@ -1,7 +1,7 @@
 // Writing a large file piece by piece (results.json and results.csv of a sweep of any size): the
 // pieces are gathered into chunks of about a megabyte and written synchronously, so what is held
 // is one chunk, never the file.
-import { closeSync, openSync, writeSync } from 'node:fs';
+import { closeSync, openSync, readSync, writeSync } from 'node:fs';
 import { asFileSystemError } from '../core/errors.js';
 
 const CHUNK_BYTES = 1 << 20;
@@ -44,5 +44,36 @@ export class FileSink {
     } finally {
       closeSync(this.fd);
     }
+  }
+}
+
+/**
+ * The byte ranges [offset, offset + length) of the file at `path`, read one at a time as the
+ * caller iterates (run lines kept on disk: the sweep journal, a merge's spilled runs).
+ */
+export function* readSpans(path: string, spans: Iterable<readonly [offset: number, length: number]>): Generator<Buffer> {
+  let fd: number;
+  try {
+    fd = openSync(path, 'r');
+  } catch (e) {
+    throw asFileSystemError(e, path, 'cannot read');
+  }
+  try {
+    for (const [offset, length] of spans) {
+      const bytes = Buffer.allocUnsafe(length);
+      let got = 0;
+      try {
+        while (got < length) {
+          const n = readSync(fd, bytes, got, length - got, offset + got);
+          if (n === 0) throw new Error(`${path} ended before byte ${offset + length}`);
+          got += n;
+        }
+      } catch (e) {
+        throw asFileSystemError(e, path, 'cannot read');
+      }
+      yield bytes;
+    }
+  } finally {
+    closeSync(fd);
   }
 }

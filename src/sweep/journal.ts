@@ -1,6 +1,7 @@
 // The sweep journal: one JSON line per finished run, appended as each run ends, so a crash, a
 // Ctrl-C or a killed CI job loses at most the runs in flight. `run --resume` reads it back.
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readSync, rmSync, writeSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeSync } from 'node:fs';
+import { readSpans } from '../results/file-sink.js';
 import { writeFileAtomicSync } from '../results/atomic.js';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { RunResult } from '../results/contract.js';
@@ -102,20 +103,9 @@ export class Journal {
     const { path, offset, length } = this;
     return {
       count: order.length,
-      *lines() {
-        const fd = openSync(path, 'r');
-        try {
-          for (const i of order) {
-            const line = Buffer.allocUnsafe(length[i]!);
-            if (readSync(fd, line, 0, line.length, offset[i]!) !== line.length) throw new Error(`journal ${path} ended early`);
-            yield line;
-          }
-        } catch (e) {
-          throw asFileSystemError(e, path, 'cannot read');
-        } finally {
-          closeSync(fd);
-        }
-      },
+      lines: () => readSpans(path, (function* () {
+        for (const i of order) yield [offset[i]!, length[i]!] as const;
+      })()),
     };
   }
 

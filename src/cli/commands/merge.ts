@@ -1,9 +1,9 @@
 // `stepgauge merge`: join the shards of one sweep (or separate sweeps) into one results file.
-import { writeFileAtomic } from '../../results/atomic.js';
+import { mkdirSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
 import { assertReplaceableFile, declaresFormat } from '../../results/ownership.js';
-import { readResultsFile } from '../../results/read.js';
-import { mergeResults } from '../../results/merge.js';
-import { resultsJson } from '../../results/json.js';
+import { mergeFiles } from '../../results/merge-files.js';
+import { asFileSystemError } from '../../core/errors.js';
 import type { RegisterCommand } from './register.js';
 
 export const registerMerge: RegisterCommand = (program) => {
@@ -14,9 +14,13 @@ export const registerMerge: RegisterCommand = (program) => {
     .requiredOption('--out <file>', 'merged results file to write (atomically)')
     .action(async (paths: string[], flags: { out: string }) => {
       assertReplaceableFile(flags.out, '--out', (p) => declaresFormat(p, 'stepgauge-results'));
-      const files = paths.map((path) => ({ path, results: readResultsFile(path) }));
-      const merged = mergeResults(files, (w) => process.stderr.write(`stepgauge: warning: ${w}\n`));
-      await writeFileAtomic(flags.out, resultsJson(merged));
-      process.stdout.write(`wrote ${flags.out}: ${merged.runs.length} runs from ${files.length} file(s)\n`);
+      try {
+        mkdirSync(dirname(resolve(flags.out)), { recursive: true });
+      } catch (e) {
+        throw asFileSystemError(e, flags.out);
+      }
+      // One file's runs in memory at a time (results/merge-files.ts).
+      const runs = mergeFiles(paths, flags.out, (w) => process.stderr.write(`stepgauge: warning: ${w}\n`));
+      process.stdout.write(`wrote ${flags.out}: ${runs} runs from ${paths.length} file(s)\n`);
     });
 };
