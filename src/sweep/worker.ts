@@ -7,7 +7,7 @@ import { messageOf } from '../core/errors.js';
 import { executeRun, type ExecuteOptions } from './execute.js';
 import { failedRun } from '../measure/run-one.js';
 import type { PlannedRun } from './plan.js';
-import { isSampleSource, problemSources, resolveMethods, type ProblemSources } from './resolve.js';
+import { everyProblem, isSampleSource, problemSources, resolveMethods, type ProblemSources } from './resolve.js';
 import { problemStiffnessRatio } from '../measure/problem-stiffness.js';
 import { timeRun, type TimingOptions, type TimingResult } from '../measure/timing.js';
 import type { RunOptions } from '../measure/run-one.js';
@@ -50,6 +50,16 @@ async function problemFor(entry: string, id: string | undefined, uncertified?: s
   if (id !== undefined) return sources.get(id);
   const first = sources.sources[0]!;
   return isSampleSource(first) ? first.sample(1) : first;
+}
+
+/**
+ * Loads an entry and certifies its references here, every sample of a dispersion one after another
+ * (each certificate lands in the cache; no sample is kept). Answers the first reason one is unavailable.
+ */
+async function certifyEntry(entry: string): Promise<string | null> {
+  await problemFor(entry, undefined);
+  for (const p of everyProblem(problems.get(entry)!)) if (p.reference.unavailable) return p.reference.unavailable;
+  return null;
 }
 
 const methods = new Map<string, Method>();
@@ -153,6 +163,6 @@ export default async function runTask(
   if (task.kind === 'ping') return null;
   if (task.kind === 'time') return timeGroup(task);
   if (task.kind === 'batch') return runBatch(task);
-  if (task.kind === 'certify') return (await problemFor(task.problemEntry, undefined)).reference.unavailable ?? null;
+  if (task.kind === 'certify') return certifyEntry(task.problemEntry);
   return problemStiffnessRatio(await problemFor(task.problemEntry, task.problemId, task.uncertified));
 }
