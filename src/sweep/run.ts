@@ -16,6 +16,7 @@ import { planStandIn, planSweep, type PlannedRun, type PlanProblem, type SweepPl
 import { fileEntries, isSampleSource, problemEntries, problemSources, resolveMethods, type ProblemSources } from './resolve.js';
 import { sampleId } from '../problems/dispersion/expand.js';
 import { InputError } from '../core/errors.js';
+import { collectGarbage } from '../core/collect-garbage.js';
 import { CERTIFY_TIMEOUT_RUNS, certifyOnPool, executeOnPool, stiffnessOnPool } from './pool.js';
 import { timeOnClocks } from './clocks.js';
 import { executionOrder } from './dealer.js';
@@ -249,13 +250,13 @@ async function sweepOn(req: SweepRequest, lanes: number): Promise<ResultsFile> {
   const timing = req.timing ?? null;
   const report = progressCounter(todo.length, req.onRun, Boolean(timing));
   const measured: { run: RunResult; planned: PlannedRun }[] = [];
-  const byIndex = new Map(todo.map((r) => [r.planIndex, r]));
+  const byIndex = timing ? new Map(todo.map((r) => [r.planIndex, r])) : undefined;
   const options: SweepOptions = {
     ...runOptions,
     // The measuring phase never times: the clocks do (clocks.ts).
     timing: null,
     onRun: (p) => {
-      if (timing && p.last.status === 'ok') measured.push({ run: p.last, planned: byIndex.get(p.last.planIndex!)! });
+      if (timing && p.last.status === 'ok') measured.push({ run: p.last, planned: byIndex!.get(p.last.planIndex!)! });
       else report(p.last);
     },
     ...(req.shouldStop ? { shouldStop: req.shouldStop } : {}),
@@ -427,6 +428,8 @@ async function sampleStiffnessRatios(sources: ProblemSources, runs: readonly Pla
       } catch {
         // left to assembling the results (see above)
       }
+      // Each sample built here is garbage at once; see core/collect-garbage.ts.
+      if (k % COLLECT_EVERY_SAMPLES === 0) collectGarbage();
       if (performance.now() - slice > STIFFNESS_SLICE_MS) {
         await new Promise<void>((resolve) => setImmediate(resolve));
         slice = performance.now();
@@ -434,6 +437,9 @@ async function sampleStiffnessRatios(sources: ProblemSources, runs: readonly Pla
     }
   }
 }
+
+/** Samples between the full collections asked for while their stiffness ratios are computed. */
+const COLLECT_EVERY_SAMPLES = 2000;
 
 /** Longest stretch the samples' stiffness ratios hold the event loop in a parallel sweep. */
 const STIFFNESS_SLICE_MS = 10;

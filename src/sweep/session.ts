@@ -5,6 +5,10 @@ import type { Method } from '../core/types.js';
 import type { ResultsFile, RunResult } from '../results/contract.js';
 import type { StreamedRuns } from '../results/streamed-results.js';
 import { outputRun, unchangedReviser } from './unchanged-settings.js';
+import { collectGarbage } from '../core/collect-garbage.js';
+
+/** Runs between the full collections a streamed sweep asks for (see core/collect-garbage.ts). */
+const COLLECT_EVERY_RUNS = 5000;
 import { Journal } from './journal.js';
 import { takeLock } from './lock.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from './lanes.js';
@@ -117,7 +121,7 @@ async function journaledSweep(
     onRun: (p) => {
       if (journal) {
         journal.append(p.last);
-        journaled++;
+        if (++journaled % COLLECT_EVERY_RUNS === 0) collectGarbage();
       }
       const o = outputRun(p.last);
       if (o) outputs.push(o);
