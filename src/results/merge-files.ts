@@ -9,6 +9,22 @@ import { calibrationOf, checkFormat, mergeSources, ProblemMerger, runSlot, withC
 import { FileSink, readSpans } from './file-sink.js';
 import { tempSibling, writeFileAtomicWith } from './atomic.js';
 import { InputError } from '../core/errors.js';
+import { collectGarbage } from '../core/collect-garbage.js';
+
+/** Reads one file into the spill: its fields and run slots, and where each run's line went. */
+function spillFile(path: string, sink: FileSink, problems: ProblemMerger): { source: MergeSource; lines: (readonly [number, number])[] } {
+  const results = readResultsFile(path);
+  checkFormat(results, path);
+  problems.add(path, results.problems);
+  const calibration = calibrationOf(results);
+  const lines: (readonly [number, number])[] = [];
+  for (const run of results.runs) {
+    const line = Buffer.from(JSON.stringify(withCalibrationRatio(run, calibration)));
+    lines.push([sink.bytes, line.length]);
+    sink.write(line);
+  }
+  return { source: { path, header: { ...results, runs: [], problems: [] }, slots: results.runs.map(runSlot) }, lines };
+}
 
 /** Merges the results files at `paths` into `out` (written atomically); answers the number of runs. */
 export function mergeFiles(paths: readonly string[], out: string, onWarning: (message: string) => void = () => {}): number {
@@ -21,18 +37,12 @@ export function mergeFiles(paths: readonly string[], out: string, onWarning: (me
     const problems = new ProblemMerger();
     try {
       for (const path of paths) {
-        const results = readResultsFile(path);
-        checkFormat(results, path);
-        problems.add(path, results.problems);
-        const calibration = calibrationOf(results);
-        const fileSpans: (readonly [number, number])[] = [];
-        for (const run of results.runs) {
-          const line = Buffer.from(JSON.stringify(withCalibrationRatio(run, calibration)));
-          fileSpans.push([sink.bytes, line.length]);
-          sink.write(line);
-        }
-        spans.push(fileSpans);
-        sources.push({ path, header: { ...results, runs: [], problems: [] }, slots: results.runs.map(runSlot) });
+        const { source, lines } = spillFile(path, sink, problems);
+        sources.push(source);
+        spans.push(lines);
+        // The file's runs and records are garbage now; collected before the next file is read, or
+        // V8 lets several files' worth pile up (core/collect-garbage.ts).
+        collectGarbage();
       }
     } finally {
       sink.close();
