@@ -12,11 +12,15 @@ export class FileSink {
   private held = 0;
   /** Bytes written so far, pending ones included. */
   bytes = 0;
-  constructor(readonly path: string) {
+  /** `named`: the file a failure names (the target, when `path` is a temporary beside it). */
+  constructor(
+    readonly path: string,
+    private readonly named = path,
+  ) {
     try {
       this.fd = openSync(path, 'w');
     } catch (e) {
-      throw asFileSystemError(e, path);
+      throw asFileSystemError(e, named);
     }
   }
   write(piece: string | Uint8Array): void {
@@ -34,7 +38,7 @@ export class FileSink {
     try {
       for (let at = 0; at < chunk.length; ) at += writeSync(this.fd, chunk, at, chunk.length - at);
     } catch (e) {
-      throw asFileSystemError(e, this.path);
+      throw asFileSystemError(e, this.named);
     }
   }
   /** Writes what is pending and closes the file (closed even when that write fails). */

@@ -31,7 +31,7 @@ export function mergeFiles(paths: readonly string[], out: string, onWarning: (me
   if (paths.length === 0) throw new InputError('nothing to merge: give at least one results file');
   const spill = tempSibling(out, 'runs');
   try {
-    const sink = new FileSink(spill);
+    const sink = new FileSink(spill, out);
     const spans: (readonly [number, number])[][] = [];
     const sources: MergeSource[] = [];
     const problems = new ProblemMerger();
@@ -50,7 +50,7 @@ export function mergeFiles(paths: readonly string[], out: string, onWarning: (me
     const { merged, order } = mergeSources(sources, problems, onWarning);
     const lines = { count: order.length, lines: () => readSpans(spill, order.map(([file, at]) => spans[file]![at]!)) };
     writeFileAtomicWith(out, (tmp) => {
-      const json = new FileSink(tmp);
+      const json = new FileSink(tmp, out);
       try {
         for (const piece of resultsJsonPieces(merged, undefined, lines)) json.write(piece);
       } finally {
