@@ -6,9 +6,6 @@ import type { ResultsFile, RunResult } from '../results/contract.js';
 import type { StreamedRuns } from '../results/streamed-results.js';
 import { outputRun, unchangedReviser } from './unchanged-settings.js';
 import { collectGarbage } from '../core/collect-garbage.js';
-
-/** Runs between the full collections a streamed sweep asks for (see core/collect-garbage.ts). */
-const COLLECT_EVERY_RUNS = 5000;
 import { Journal } from './journal.js';
 import { takeLock } from './lock.js';
 import { prestartLanes, workerLaneCount, type PrestartedLanes } from './lanes.js';
@@ -16,6 +13,9 @@ import { interruptedSweep } from './resume.js';
 import { stopSignals } from './stop-signals.js';
 import type { PlannedRun, SweepPlan } from './plan.js';
 import type { SweepProgress, SweepRequest } from './run.js';
+
+/** Runs between the full collections a streamed sweep asks for (see core/collect-garbage.ts). */
+const COLLECT_EVERY_RUNS = 5000;
 
 export interface SessionHooks {
   /** The plan is known (the selection already checked against a resumed sweep's plan). */
