@@ -16,6 +16,9 @@ import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, errorCoefficients,
 /** Largest state size whose component loop is written out; larger systems loop. */
 export const UNROLL_MAX_N = 8;
 
+/** Most right-hand-side calls in one generated function (see piecesSource). */
+export const CALLS_PER_PIECE = 6;
+
 /** A coefficient as source text that parses back to the same double. */
 function lit(v: number): string {
   if (!Number.isFinite(v)) throw new InputError(`tableau coefficient ${v} is not finite`);
@@ -109,29 +112,57 @@ export function unrolledSource(d: TableauData, name: string, n?: number): string
     for (let j = 0; j < n; j++) out.push(line(fixedIndexing(j, n)));
     return out;
   };
-  const lines: string[] = [
-    `const t = io[${IO_T}]; const tNew = io[${IO_T_NEW}]; const h = io[${IO_H}]; const rtol = io[${IO_RTOL}];`,
-  ];
-  if (n === undefined) for (let i = 1; i < s; i++) lines.push(`const o${i} = ${i} * n;`);
+  const head = [`const t = io[${IO_T}]; const tNew = io[${IO_T_NEW}]; const h = io[${IO_H}]; const rtol = io[${IO_RTOL}];`];
+  if (n === undefined) for (let i = 1; i < s; i++) head.push(`const o${i} = ${i} * n;`);
+  // One segment per stage evaluation (its state sum, the call, the increment), then the last.
+  const segments: string[][] = [];
   const w = workingWeights(d);
   for (let i = 1; i <= lastFromA; i++) {
-    lines.push(...each((ix) => stateUpdate('ys', w.a[i]!, ix)));
-    lines.push(`f(${stageTime(d.c[i]!)}, ys, kRow[${i}]);`);
-    if (d.increments) lines.push(...each((ix) => `${ix.stage(i)} -= ${ix.stage(0)};`));
+    const seg = each((ix) => stateUpdate('ys', w.a[i]!, ix));
+    seg.push(`f(${stageTime(d.c[i]!)}, ys, kRow[${i}]);`);
+    if (d.increments) seg.push(...each((ix) => `${ix.stage(i)} -= ${ix.stage(0)};`));
+    segments.push(seg);
   }
-  lines.push(...each((ix) => stateUpdate('yNew', w.b, ix)));
-  if (fsal) lines.push(`f(tNew, yNew, kRow[${last}]);`);
-  lines.push(w.bHat2 ? 'let s5 = 0; let s3 = 0; let bad = 0;' : 'let sum = 0; let bad = 0;');
-  lines.push(...each((ix) => errorTerm(w, ix, fsal ? last : null)));
-  lines.push(`io[${IO_NONFINITE}] = bad;`);
-  lines.push(...errorNorm(w));
+  const end = each((ix) => stateUpdate('yNew', w.b, ix));
+  if (fsal) end.push(`f(tNew, yNew, kRow[${last}]);`);
+  end.push(w.bHat2 ? 'let s5 = 0; let s3 = 0; let bad = 0;' : 'let sum = 0; let bad = 0;');
+  end.push(...each((ix) => errorTerm(w, ix, fsal ? last : null)));
+  end.push(`io[${IO_NONFINITE}] = bad;`);
+  end.push(...errorNorm(w));
+  segments.push(end);
   const fn = `${name.replace(/[^A-Za-z0-9_]/g, '_')}${n === undefined ? '' : `_n${n}`}`;
-  return [
-    '"use strict";',
-    `return function step_${fn}(f, io, y, yNew, ys, K, kRow, atol, n) {`,
-    ...lines.map((l) => '  ' + l),
-    '};',
-  ].join('\n');
+  return piecesSource(`step_${fn}`, 'f, io, y, yNew, ys, K, kRow, atol, n', head, segments);
+}
+
+/**
+ * The step as a few functions of at most CALLS_PER_PIECE evaluations each, called in turn by the
+ * returned one. V8 inlines callees into an optimised function only within a bytecode budget per
+ * function, so a kernel of 9 to 13 calls inlined the first few right-hand sides and made real
+ * calls (each boxing its double t) for the rest (bench/README.md); each piece has a budget of its
+ * own. Calls are spread evenly over the pieces; statements and their order are unchanged, so the
+ * bits are too.
+ */
+function piecesSource(name: string, params: string, head: readonly string[], segments: readonly string[][]): string {
+  const callsIn = (seg: readonly string[]) => seg.filter((l) => l.startsWith('f(')).length;
+  const total = segments.reduce((sum, seg) => sum + callsIn(seg), 0);
+  const perPiece = total === 0 ? 1 : Math.ceil(total / Math.ceil(total / CALLS_PER_PIECE));
+  const pieces: string[][] = [[]];
+  let calls = 0;
+  for (const seg of segments) {
+    const segCalls = callsIn(seg);
+    if (calls > 0 && calls + segCalls > perPiece) {
+      pieces.push([]);
+      calls = 0;
+    }
+    pieces[pieces.length - 1]!.push(...seg);
+    calls += segCalls;
+  }
+  const out = ['"use strict";'];
+  pieces.forEach((body, k) => {
+    out.push(`function ${name}_${k + 1}(${params}) {`, ...[...head, ...body].map((l) => '  ' + l), '}');
+  });
+  out.push(`return function ${name}(${params}) {`, ...pieces.map((_, k) => `  ${name}_${k + 1}(${params});`), '};');
+  return out.join('\n');
 }
 
 function build(d: TableauData, name: string, n?: number): StageKernel {
