@@ -67,11 +67,21 @@ function alone(): Map<string, number | null> {
   return out;
 }
 
+/**
+ * The problems of the big sweep: the whole catalogue, or the list in
+ * STEPGAUGE_BENCH_ISOLATION_PROBLEMS (comma-separated ids, each compared run's problem among them)
+ * for a shorter look on a busy machine: every method still runs in the sweep.
+ */
+function sweepProblems(): string[] {
+  const list = process.env.STEPGAUGE_BENCH_ISOLATION_PROBLEMS;
+  return list ? ['-p', list] : [];
+}
+
 export function runIsolationBench(): IsolationRow[] {
   const before = alone();
   // The catalogue's default tolerances are 1e-3..1e-10; the compared settings are added to them.
   const tolerances = [...new Set(['1e-3', '1e-4', '1e-5', '1e-6', '1e-7', '1e-8', '1e-9', '1e-10', ...ISOLATION_RUNS.map(([, , r]) => String(r))])];
-  const all = sweep(['-t', tolerances.join(',')]);
+  const all = sweep([...sweepProblems(), '-t', tolerances.join(',')]);
   const after = alone();
   return ISOLATION_RUNS.map(([problem, method, rtol]) => {
     const key = `${problem}|${method}|${rtol}`;
