@@ -1,7 +1,7 @@
 // PlotSpec -> PNG bytes: chart.js drawing on an @napi-rs/canvas surface. The only module that
 // knows chart.js. Fixed size, pixel ratio 1, no animation and a fixed font keep re-renders of the
 // same spec byte-identical.
-import { createCanvas } from '@napi-rs/canvas';
+import { createCanvas, type Canvas } from '@napi-rs/canvas';
 import {
   Chart,
   Legend,
@@ -177,10 +177,20 @@ export function chartConfig(spec: PlotSpec): ChartConfiguration<'scatter'> {
   };
 }
 
+// One drawing surface for every plot of a process: each surface holds PLOT_WIDTH x PLOT_HEIGHT x 4
+// bytes outside V8's heap, which the collector does not count, so a new one per plot piled up
+// until the process ended (bench/README.md). chart.js clears the surface before it draws.
+let surface: Canvas | undefined;
+
+function sharedSurface(): Canvas {
+  surface ??= createCanvas(PLOT_WIDTH, PLOT_HEIGHT);
+  return surface;
+}
+
 /** The PNG bytes of one plot, PLOT_WIDTH x PLOT_HEIGHT. */
 export function renderPlot(spec: PlotSpec): Buffer {
   register();
-  const canvas = createCanvas(PLOT_WIDTH, PLOT_HEIGHT);
+  const canvas = sharedSurface();
   const chart = new Chart(canvas as unknown as HTMLCanvasElement, chartConfig(spec));
   try {
     return canvas.toBuffer('image/png');
@@ -200,7 +210,7 @@ export interface PlotLayout {
 
 export function plotLayout(spec: PlotSpec): PlotLayout {
   register();
-  const canvas = createCanvas(PLOT_WIDTH, PLOT_HEIGHT);
+  const canvas = sharedSurface();
   const chart = new Chart(canvas as unknown as HTMLCanvasElement, chartConfig(spec));
   try {
     const items = chart.legend?.legendItems ?? [];
