@@ -25,6 +25,7 @@ import { DEFAULT_TIMING } from '../src/measure/timing.js';
 import { findMethod } from '../src/methods/registry.js';
 import { chooseMethod, loosestRtol } from '../src/sweep/choose.js';
 import { findProblem } from '../problems/index.js';
+import type { MatchedRow } from './peers.js';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = join(here, here.endsWith(join('dist', 'bench')) ? '../..' : '..');
@@ -56,18 +57,9 @@ export const COMPILED_TARGETS: readonly { problem: string; target: number; metho
   { problem: 'brusselator-1d', target: 1e-6, methods: ['hairer-wanner-rodas4', 'radau-iia-5', 'bdf-variable'] },
 ];
 
-export interface CompiledPeerRow {
+export interface CompiledPeerRow extends MatchedRow {
   problem: string;
-  target: number;
   side: 'stepgauge' | 'boost' | 'cvode';
-  method: string;
-  met: boolean;
-  rtol: number | null;
-  achieved: number | null;
-  nfev: number | null;
-  medianMs: number | null;
-  nsPerEval: number | null;
-  note?: string;
 }
 
 interface Build {

@@ -20,7 +20,8 @@ function finalError(run: RunResult): number | null {
   return run.status === 'ok' ? run.error.final : null;
 }
 
-export interface PeerRow {
+/** A method matched to a final-error target and timed there (both peer benchmarks' rows). */
+export interface MatchedRow {
   target: number;
   method: string;
   met: boolean;
@@ -29,6 +30,10 @@ export interface PeerRow {
   nfev: number | null;
   medianMs: number | null;
   nsPerEval: number | null;
+  note?: string;
+}
+
+export interface PeerRow extends MatchedRow {
   /** odex time / this method's time at the same target (null for odex itself or when unmet). */
   speedupVsOdex: number | null;
   samples: number;
@@ -36,7 +41,6 @@ export interface PeerRow {
   rmePercent: number | null;
   /** Timing budget the row used, ms (null when not timed). */
   budgetMs: number | null;
-  note?: string;
 }
 
 function contenders(): Method[] {
