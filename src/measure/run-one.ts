@@ -29,7 +29,9 @@ export function runSetting(problem: Problem, setting: Setting, result?: SolveRes
 
 /** A method that offers its own continuous extension (see methods/explicit/dense-dp54.ts). */
 interface WithInterpolant {
-  readonly dense: { solve(p: Problem, s: Setting, o: SolveOptions, onStep: (tOld: number, tNew: number, evaluate: (t: number, out: Float64Array) => void) => void): SolveResult };
+  readonly dense: {
+    solve(p: Problem, s: Setting, o: SolveOptions, onStep: (tOld: number, tNew: number, evaluate: (t: number, out: Float64Array) => void) => void): SolveResult & { readonly denseEvaluations?: number };
+  };
   readonly notes?: string;
 }
 
@@ -61,7 +63,7 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   const landing = problem.landOnCheckTimes === true;
   const own = landing ? undefined : ownInterpolant(method);
   const watch = watchRun(problem, own !== undefined);
-  let result: SolveResult;
+  let result: SolveResult & { readonly denseEvaluations?: number };
   try {
     const o = solveOptions(problem, options, watch.observer);
     result = own ? own.dense.solve(problem, setting, o, watch.denseStep) : method.solve(problem, setting, o);
@@ -92,6 +94,9 @@ export function measureRun(problem: Problem, method: Method, setting: Setting, o
   const effective = effectiveTolerance(method, setting);
   if (effective) run.effectiveTolerance = effective;
   if (result.countsReported === false) run.countsReported = false;
+  // Read after the solve: every value the measurement asks for is asked for inside it.
+  const extra = result.denseEvaluations;
+  if (typeof extra === 'number' && Number.isSafeInteger(extra) && extra >= 0) run.denseEvaluations = extra;
   if (result.outputSha256 !== undefined) run.outputSha256 = result.outputSha256;
   const trace = watch.trace();
   if (trace) run.trace = trace;

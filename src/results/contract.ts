@@ -114,6 +114,13 @@ export interface RunResult {
    * interpolant), not part of `counts`; 0 when the method's own interpolant located them.
    */
   eventEvaluations?: number;
+  /**
+   * Right-hand-side evaluations the method's own interpolant made for its extra stages (Verner's
+   * interpolants evaluate a few stages per step in which a value between steps is asked for: at
+   * output times, events, error.dense), not part of `counts`, which are the steps' work alone;
+   * present only for such interpolants.
+   */
+  denseEvaluations?: number;
   /** False when the method did not report its work (an external program): counts are not figures. */
   countsReported?: boolean;
   /** External programs: SHA-256 of the reported times and states (settings that change nothing). */

@@ -100,6 +100,7 @@ function validateRun(v: Validator, value: unknown, at: string): RunResult {
   }
   if (r.denseInterpolant !== undefined) v.string(r.denseInterpolant, `${at}.denseInterpolant`);
   if (r.eventEvaluations !== undefined) v.integer(r.eventEvaluations, `${at}.eventEvaluations`, 0);
+  if (r.denseEvaluations !== undefined) v.integer(r.denseEvaluations, `${at}.denseEvaluations`, 0);
   if (r.events !== undefined) {
     for (const [name, e] of Object.entries(v.object(r.events, `${at}.events`))) {
       const rec = v.object(e, `${at}.events.${name}`);

@@ -1,6 +1,7 @@
 // Continuous extension of Dormand-Prince 5(4): the fourth-order interpolant of Shampine (1986) in
 // the form of HNW I, sec. II.6; and the dense capability any pair's step formula plugs into
-// (denseCapability). Only built when asked for, so plain solves pay nothing for it.
+// (denseCapability, or denseCapabilityFor when the interpolation has work of its own per solve).
+// Only built when asked for, so plain solves pay nothing for it.
 import { InputError } from '../../core/errors.js';
 import type { Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { solveEmbedded } from './embedded.js';
@@ -48,6 +49,20 @@ export interface DenseSolveResult extends SolveResult {
   lastStep: { tOld: number; tNew: number } | null;
   /** y(t) for t inside the last accepted step. */
   evaluate: DenseEvaluate;
+  /**
+   * Right-hand-side evaluations the interpolant made for its own stages so far (values between
+   * steps), outside `counts`; present only for interpolants that have such stages.
+   */
+  readonly denseEvaluations?: number;
+}
+
+/** How a dense capability interpolates its accepted steps; one per solve. */
+export interface StepInterpolation {
+  readonly formula: StepFormula;
+  /** Called at each accepted step before its values are asked for. */
+  readonly begin?: (tOld: number, tNew: number) => void;
+  /** Right-hand-side evaluations made so far for values between steps. */
+  readonly evaluations?: () => number;
 }
 
 export interface DenseCapability {
@@ -74,9 +89,15 @@ export function denseDormandPrince54(tab: Tableau, methodId: string): DenseCapab
 
 /** Solves keeping each accepted step's end states and stages, interpolated by `formula`. */
 export function denseCapability(tab: Tableau, methodId: string, formula: StepFormula): DenseCapability {
+  return denseCapabilityFor(tab, methodId, () => ({ formula }));
+}
+
+/** The same with an interpolation made per solve (one that evaluates stages of its own, say). */
+export function denseCapabilityFor(tab: Tableau, methodId: string, interpolationFor: (problem: Problem) => StepInterpolation): DenseCapability {
   return {
     solve(problem, setting, options, onStep) {
       const n = problem.dimension;
+      const { formula, begin, evaluations } = interpolationFor(problem);
       const y0 = new Float64Array(n);
       const y1 = new Float64Array(n);
       const k = new Float64Array(tab.stages * n);
@@ -102,12 +123,16 @@ export function denseCapability(tab: Tableau, methodId: string, formula: StepFor
         hStep = h;
         tNewStep = tNew;
         taken = true;
+        if (begin) begin(t, tNew);
         if (onStep) onStep(t, tNew, evaluate);
       });
-      return Object.assign(result, {
+      const dense = Object.assign(result, {
         lastStep: taken ? { tOld, tNew: tNewStep } : null,
         evaluate,
       });
+      // A getter: the last step's values may still be asked for after the solve returns.
+      if (evaluations) Object.defineProperty(dense, 'denseEvaluations', { get: evaluations, enumerable: true });
+      return dense;
     },
   };
 }

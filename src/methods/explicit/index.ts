@@ -3,7 +3,8 @@
 // composition of Stormer-Verlet is one file in compositions/ plus one line in its index.ts. This
 // file turns each into a Method (a tableau with its generated kernel).
 import type { Family, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { denseCapability, denseDormandPrince54, type DenseCapability } from './dense-dp54.js';
+import { denseCapability, denseCapabilityFor, denseDormandPrince54, type DenseCapability } from './dense-dp54.js';
+import { extraStageInterpolation } from './dense-extra-stages.js';
 import { fsalHermiteFormula } from './dense-hermite.js';
 import { solveEmbedded } from './embedded.js';
 import { solveFixed } from './fixed.js';
@@ -35,7 +36,7 @@ interface Meta {
   readonly notes?: string;
 }
 
-/** A Method that also offers a continuous extension (dormand-prince-54, bogacki-shampine-32). */
+/** A Method that also offers a continuous extension (dormand-prince-54, bogacki-shampine-32, Verner's pairs). */
 export interface DenseMethod extends Method {
   readonly dense: DenseCapability;
 }
@@ -88,6 +89,7 @@ function tableauMethod(rec: TableauMethod): Method | DenseMethod {
   if (!dense) return method;
   // The last stage is f(t1, y1) only in a first-same-as-last pair.
   if (dense.form === 'fsal-hermite' && !tab.fsal) throw new Error(`${rec.id}: fsal-hermite dense output needs a first-same-as-last pair`);
+  if (dense.form === 'extra-stages') return { ...method, dense: denseCapabilityFor(tab, rec.id, extraStageInterpolation(tab, dense)) };
   return { ...method, dense: dense.form === 'dopri5' ? denseDormandPrince54(tab, rec.id) : denseCapability(tab, rec.id, fsalHermiteFormula(tab.stages)) };
 }
 

@@ -108,9 +108,25 @@ export interface TableauMethod {
    * A continuous extension, when the method has one: `form` names the interpolation formula the
    * coefficients `d` plug into ('dopri5': HNW I sec. II.6, see dense-dp54.ts), or 'fsal-hermite':
    * the cubic Hermite of the step's end values and slopes, free with a first-same-as-last pair
-   * (dense-hermite.ts).
+   * (dense-hermite.ts), or 'extra-stages': a published interpolant that needs stages of its own
+   * beyond the step's, evaluated only when a value between steps is asked for (dense-extra-stages.ts).
    */
-  readonly denseOutput?: { readonly form: 'dopri5'; readonly d: readonly number[] } | { readonly form: 'fsal-hermite' };
+  readonly denseOutput?: { readonly form: 'dopri5'; readonly d: readonly number[] } | { readonly form: 'fsal-hermite' } | ExtraStageInterpolant;
+}
+
+/**
+ * A continuous extension with extra stages (J. H. Verner's interpolants, Numer. Algorithms 53
+ * (2010) 383-396): stages s+1 .. s+m at nodes c, with rows a over all earlier stages (the step's
+ * s and the extra ones before it), and y(t + theta h) = y + h sum_i b_i(theta) k_i over all s+m
+ * stages, where b_i(theta) = sum_k weights[i][k-1] theta^k ([] for a stage that does not enter).
+ */
+export interface ExtraStageInterpolant {
+  readonly form: 'extra-stages';
+  /** Published order of the interpolant. */
+  readonly order: number;
+  readonly c: readonly number[];
+  readonly a: readonly (readonly number[])[];
+  readonly weights: readonly (readonly number[])[];
 }
 
 /** The compiled form the engines step with. */

@@ -14,4 +14,5 @@ export { verner65 } from './verner-65.js';
 export { verner76 } from './verner-76.js';
 export { dormandPrince853 } from './dormand-prince-853.js';
 export { verner87 } from './verner-87.js';
+export { verner98 } from './verner-98.js';
 export { heunEuler21 } from './heun-euler-21.js';
