@@ -117,3 +117,20 @@ describe.each(withExtraStages)('%s interpolant', (id, m, order, extra) => {
     void id;
   });
 });
+
+describe('events located on an interpolant with extra stages', () => {
+  it('eclipse-circular-orbit with verner-87 at rtol 1e-5: every entry and exit found, none extra (analytic shadow times)', () => {
+    // Entry and exit are located in different steps of the same orbit; locating one must not
+    // change what the other's sign test reads at the step's end (the root search reuses the
+    // state buffer). Reference: the cylindrical shadow's analytic times (problems/eclipse-circular-orbit.ts).
+    const eclipse = findProblem('eclipse-circular-orbit')!;
+    const run = measureRun(eclipse, findMethod('verner-87')!, { rtol: 1e-5, atol: 1e-5 }, { maxSteps: 1e6 });
+    for (const name of ['eclipse-entry', 'eclipse-exit']) {
+      const e = run.events![name]!;
+      expect(e.reference!.length).toBeGreaterThan(1);
+      expect([e.missed, e.extra]).toEqual([0, 0]);
+      expect(e.locatedBy).toContain("Verner's");
+    }
+    expect(run.eventEvaluations).toBe(0);
+  });
+});

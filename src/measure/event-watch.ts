@@ -58,6 +58,7 @@ function methodWatch(problem: Problem): EventWatch {
   const events = problem.events!;
   const yi = new Float64Array(problem.dimension);
   const gPrev = new Float64Array(events.length);
+  const gNew = new Float64Array(events.length);
   const times = events.map(() => [] as number[]);
   let started = false;
   return {
@@ -71,9 +72,11 @@ function methodWatch(problem: Problem): EventWatch {
       // Both ends from the interpolant, so a crossing is bracketed by the function it is located on.
       evaluate(tNew, yi);
       for (let i = 0; i < yi.length; i++) if (!Number.isFinite(yi[i]!)) return;
+      // Every event's g at tNew before any root search: the search reuses yi.
+      for (let k = 0; k < events.length; k++) gNew[k] = events[k]!.fn(tNew, yi);
       for (let k = 0; k < events.length; k++) {
         const ev = events[k]!;
-        const g = ev.fn(tNew, yi);
+        const g = gNew[k]!;
         if (crosses(ev.direction, gPrev[k]!, g)) {
           const at = (s: number) => (evaluate(s, yi), ev.fn(s, yi));
           times[k]!.push(illinoisRoot(at, tOld, gPrev[k]!, tNew, g, rootTolerance(tOld, tNew)));
