@@ -14,11 +14,16 @@
 // The Kepler pair the same way: `kepler-product N` and `kepler-scalar N` make N solves of one
 // kind; the difference between N = 100 and N = 300, divided by the evaluations, is instructions
 // per evaluation with start-up and compilation taken out.
+// `stiff-solves <method-id> <rtol> N` does the same for an implicit method on robertson (atol =
+// rtol times the problem's atolScale, as the catalogue sets it).
 import { fileURLToPath } from 'node:url';
 import { dormandPrince54 } from '../src/methods/explicit/index.js';
 import { DORMAND_PRINCE_54 as DP } from '../src/methods/explicit/tableaus/dormand-prince-54.js';
 import { keplerEccentric } from '../problems/kepler-eccentric.js';
 import { denseLinearProblem, median, medianMs } from './floor.js';
+import { DEFAULT_MAX_STEPS } from '../src/core/defaults.js';
+import { robertson } from '../problems/robertson.js';
+import { implicitMethods } from '../src/methods/implicit/index.js';
 
 const a = DP.a;
 const [a21] = a[1]!;
@@ -164,6 +169,15 @@ if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
     let nfev = 0;
     for (let i = 0; i < solves; i++) nfev += solve();
     console.log(JSON.stringify({ probe: which, solves, nfev }));
+  } else if (which === 'stiff-solves') {
+    const method = implicitMethods.find((m) => m.id === process.argv[3]);
+    if (!method) throw new Error(`probe-limits: no implicit method '${process.argv[3]}'`);
+    const rtol = Number(process.argv[4]);
+    const solves = Number(process.argv[5] ?? 100);
+    const setting = { rtol, atol: rtol * (robertson.atolScale as number) };
+    let counts = null;
+    for (let i = 0; i < solves; i++) counts = method.solve(robertson, setting, { maxSteps: DEFAULT_MAX_STEPS }).counts;
+    console.log(JSON.stringify({ probe: which, method: method.id, rtol, solves, counts }));
   } else if (which === 'buffers-constant') buffers('constant');
   else if (which === 'buffers-variable') buffers('variable');
   else {
