@@ -10,6 +10,7 @@ import type { RosenbrockData } from '../src/methods/implicit/rosenbrock-data.js'
 import { rosenbrockStepper } from '../src/methods/implicit/rosenbrock.js';
 import { ROSENBROCK_UNROLL_MAX_N, rosenbrockSource } from '../src/methods/implicit/rosenbrock-kernel.js';
 import { RODAS4 } from '../src/methods/implicit/rodas4.js';
+import { ROS4_L_STABLE } from '../src/methods/implicit/ros4-l-stable.js';
 
 function solveWith(data: RosenbrockData, writtenOut: boolean, p: Problem, rtol: number): SolveResult {
   const factory = rosenbrockStepper(data, 'under-test', writtenOut);
@@ -37,6 +38,10 @@ describe('written-out Rosenbrock attempts', () => {
   test('RODAS4: the same counts and final states, bit for bit, as the loops on every small catalogue problem', () => {
     expect(small.length).toBeGreaterThan(5);
     expectSameRuns(RODAS4, small, [1e-3, 1e-6]);
+  });
+
+  test('ROS4 (L-stable set, a stage reusing the previous evaluation, a combined error estimate): the same', () => {
+    expectSameRuns(ROS4_L_STABLE, small, [1e-3, 1e-6]);
   });
 
   test('the generated source is straight-line code (no loops) for each size up to the limit', () => {

@@ -4,7 +4,8 @@ import { bdfVariable } from './bdf-variable.js';
 import { implicitMidpoint } from './implicit-midpoint.js';
 import { radauIIA5 } from './radau-iia-5.js';
 import { rodas4 } from './rodas4.js';
+import { ros4LStable } from './ros4-l-stable.js';
 import { trBdf2 } from './tr-bdf2.js';
 
 /** Implicit methods for stiff problems. */
-export const implicitMethods: Method[] = [backwardEuler, implicitMidpoint, trBdf2, rodas4, radauIIA5, bdfVariable];
+export const implicitMethods: Method[] = [backwardEuler, implicitMidpoint, trBdf2, ros4LStable, rodas4, radauIIA5, bdfVariable];
