@@ -2,10 +2,9 @@
 // E. Hairer & G. Wanner, Solving Ordinary Differential Equations II, 2nd ed., Springer 1996,
 // sec. IV.7 (method RODAS; coefficients as distributed with the authors' code RODAS), in the
 // transformed form (7.25)-(7.26) stepped by rosenbrock.ts; the error estimate is u_6.
-import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { solveAdaptive } from './common.js';
+import type { Method } from '../../core/types.js';
 import type { RosenbrockData } from './rosenbrock-data.js';
-import { rosenbrockStepper } from './rosenbrock.js';
+import { rosenbrockMethod4 } from './rosenbrock.js';
 
 /** Coefficients of RODAS4 (Hairer & Wanner 1996, sec. IV.7), transformed form. */
 export const RODAS4: RosenbrockData = {
@@ -38,22 +37,11 @@ export const RODAS4: RosenbrockData = {
   errorExponent: 0.25,
 };
 
-const createStepper = rosenbrockStepper(RODAS4, 'hairer-wanner-rodas4');
-
-
-export const rodas4: Method = {
+export const rodas4: Method = rosenbrockMethod4(RODAS4, {
   id: 'hairer-wanner-rodas4',
   name: 'RODAS4 (Hairer-Wanner)',
-  family: 'implicit',
-  order: 4,
-  embeddedOrder: 3,
   source: 'E. Hairer, G. Wanner, Solving Ordinary Differential Equations II, 2nd ed., Springer 1996, sec. IV.7 (RODAS)',
-  adaptive: true,
-  stiff: true,
   notes:
     'L-stable, stiffly accurate Rosenbrock 4(3), one Jacobian and one LU per attempt; ' +
     'df/dt by forward difference (1 f evaluation per step, counted in nfev).',
-  solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-    return solveAdaptive(problem, setting, options, 'hairer-wanner-rodas4', 4, createStepper);
-  },
-};
+});

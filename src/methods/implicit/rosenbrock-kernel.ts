@@ -7,6 +7,7 @@
 // compares them run for run.
 import { InputError } from '../../core/errors.js';
 import type { Rhs } from '../../core/types.js';
+import { numberLiteral } from '../source-literal.js';
 import { errorTerms, unitEstimateStage, type RosenbrockData } from './rosenbrock-data.js';
 
 /** Largest state size whose attempt is written out; larger (or banded) systems loop. */
@@ -40,11 +41,7 @@ export type RosenbrockKernel = (
 ) => boolean;
 
 /** A coefficient as source text that parses back to the same double. */
-function lit(v: number): string {
-  if (!Number.isFinite(v)) throw new InputError(`Rosenbrock coefficient ${v} is not finite`);
-  const s = String(v);
-  return v < 0 ? `(${s})` : s;
-}
+const lit = (v: number): string => numberLiteral(v, 'Rosenbrock coefficient');
 
 const range = (k: number): number[] => Array.from({ length: k }, (_, i) => i);
 

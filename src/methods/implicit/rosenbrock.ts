@@ -10,8 +10,9 @@
 // rest the loops below, which do the same operations in the same order.
 import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
 import { RealIterationMatrix } from './iteration-matrix.js';
-import type { Counts, Problem } from '../../core/types.js';
-import { EPS, propose, type Stepper, type StepperFactory, type Tolerances } from './common.js';
+import { scaledRmsNorm } from '../../core/vector.js';
+import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
+import { EPS, propose, solveAdaptive, type Stepper, type StepperFactory, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
 import { errorTerms, unitEstimateStage, type RosenbrockData } from './rosenbrock-data.js';
 import { IO_ERR, IO_FAC, IO_H, IO_RTOL, IO_T, rosenbrockKernel, ROSENBROCK_UNROLL_MAX_N } from './rosenbrock-kernel.js';
@@ -103,15 +104,7 @@ export function rosenbrockStepper(data: RosenbrockData, name: string, writtenOut
           ev[i] = v;
         }
       }
-      let sum = 0;
-      for (let i = 0; i < n; i++) {
-        const ya = Math.abs(y[i]!);
-        const yb = Math.abs(ynew[i]!);
-        const sc = atol[i]! + rtol * (ya > yb ? ya : yb);
-        const r = ev[i]! / sc;
-        sum += r * r;
-      }
-      io[IO_ERR] = Math.sqrt(sum / n);
+      io[IO_ERR] = scaledRmsNorm(ev, y, ynew, rtol, atol, n);
       return true;
     }
 
@@ -166,5 +159,32 @@ export function rosenbrockStepper(data: RosenbrockData, name: string, writtenOut
     }
 
     return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };
+  };
+}
+
+/** What a Rosenbrock method's record says besides its coefficients. */
+export interface RosenbrockIdentity {
+  readonly id: string;
+  readonly name: string;
+  readonly source: string;
+  readonly notes: string;
+}
+
+/** A Rosenbrock method of order 4 with embedded order 3, stepped by this engine. */
+export function rosenbrockMethod4(data: RosenbrockData, who: RosenbrockIdentity): Method {
+  const createStepper = rosenbrockStepper(data, who.id);
+  return {
+    id: who.id,
+    name: who.name,
+    family: 'implicit',
+    order: 4,
+    embeddedOrder: 3,
+    source: who.source,
+    adaptive: true,
+    stiff: true,
+    notes: who.notes,
+    solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
+      return solveAdaptive(problem, setting, options, who.id, 4, createStepper);
+    },
   };
 }

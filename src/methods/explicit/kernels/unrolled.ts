@@ -10,6 +10,7 @@
 // rounding) is tested per kernel.
 import { InputError } from '../../../core/errors.js';
 import type { Rhs } from '../../../core/types.js';
+import { numberLiteral } from '../../source-literal.js';
 import { COMBINED_ERR3_WEIGHT } from '../control.js';
 import { IO_ERR, IO_H, IO_NONFINITE, IO_RTOL, IO_T, IO_T_NEW, errorCoefficients, isFsal, workingWeights, type KernelFactory, type StageKernel, type TableauData } from '../tableau.js';
 
@@ -20,11 +21,7 @@ export const UNROLL_MAX_N = 8;
 export const CALLS_PER_PIECE = 6;
 
 /** A coefficient as source text that parses back to the same double. */
-function lit(v: number): string {
-  if (!Number.isFinite(v)) throw new InputError(`tableau coefficient ${v} is not finite`);
-  const s = String(v);
-  return v < 0 ? `(${s})` : s;
-}
+const lit = (v: number): string => numberLiteral(v, 'tableau coefficient');
 
 /** How component j and stage i's entry are spelled: a loop variable, or fixed indices. */
 interface Indexing {
