@@ -5,9 +5,10 @@
 // sec. IV.7, Table 7.2 (the L-stable set, gamma = 0.57282, beside Shampine's 1982 set, Kaps and
 // Rentrop's GRK4T and Van Veldhuizen's); coefficients in the transformed form (7.25)-(7.26) as
 // distributed with the authors' code ROS4, stepped by rosenbrock.ts. Error estimate sum e_i u_i.
-import type { Method } from '../../core/types.js';
+import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
+import { solveAdaptive } from './common.js';
 import type { RosenbrockData } from './rosenbrock-data.js';
-import { rosenbrockMethod4 } from './rosenbrock.js';
+import { rosenbrockStepper } from './rosenbrock.js';
 
 /** The L-stable ROS4 set (Hairer & Wanner 1996, sec. IV.7, Table 7.2), transformed form. */
 export const ROS4_L_STABLE: RosenbrockData = {
@@ -28,11 +29,21 @@ export const ROS4_L_STABLE: RosenbrockData = {
   errorExponent: 0.25,
 };
 
-export const ros4LStable: Method = rosenbrockMethod4(ROS4_L_STABLE, {
+const createStepper = rosenbrockStepper(ROS4_L_STABLE, 'hairer-wanner-ros4-l-stable');
+
+export const ros4LStable: Method = {
   id: 'hairer-wanner-ros4-l-stable',
   name: 'ROS4, L-stable set (Hairer-Wanner)',
+  family: 'implicit',
+  order: 4,
+  embeddedOrder: 3,
   source: 'E. Hairer, G. Wanner, Solving Ordinary Differential Equations II, 2nd ed., Springer 1996, sec. IV.7, Table 7.2 (ROS4, L-stable set)',
+  adaptive: true,
+  stiff: true,
   notes:
     'L-stable Rosenbrock 4(3), 4 stages with 3 evaluations of f, one Jacobian and one LU per attempt; ' +
     'df/dt by forward difference (1 f evaluation per step, counted in nfev).',
-});
+  solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
+    return solveAdaptive(problem, setting, options, 'hairer-wanner-ros4-l-stable', 4, createStepper);
+  },
+};

@@ -11,8 +11,8 @@
 import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
 import { RealIterationMatrix } from './iteration-matrix.js';
 import { scaledRmsNorm } from '../../core/vector.js';
-import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { EPS, propose, solveAdaptive, type Stepper, type StepperFactory, type Tolerances } from './common.js';
+import type { Counts, Problem } from '../../core/types.js';
+import { EPS, propose, type Stepper, type StepperFactory, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
 import { errorTerms, unitEstimateStage, type RosenbrockData } from './rosenbrock-data.js';
 import { IO_ERR, IO_FAC, IO_H, IO_RTOL, IO_T, rosenbrockKernel, ROSENBROCK_UNROLL_MAX_N } from './rosenbrock-kernel.js';
@@ -162,29 +162,3 @@ export function rosenbrockStepper(data: RosenbrockData, name: string, writtenOut
   };
 }
 
-/** What a Rosenbrock method's record says besides its coefficients. */
-export interface RosenbrockIdentity {
-  readonly id: string;
-  readonly name: string;
-  readonly source: string;
-  readonly notes: string;
-}
-
-/** A Rosenbrock method of order 4 with embedded order 3, stepped by this engine. */
-export function rosenbrockMethod4(data: RosenbrockData, who: RosenbrockIdentity): Method {
-  const createStepper = rosenbrockStepper(data, who.id);
-  return {
-    id: who.id,
-    name: who.name,
-    family: 'implicit',
-    order: 4,
-    embeddedOrder: 3,
-    source: who.source,
-    adaptive: true,
-    stiff: true,
-    notes: who.notes,
-    solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-      return solveAdaptive(problem, setting, options, who.id, 4, createStepper);
-    },
-  };
-}
