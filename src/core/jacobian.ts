@@ -4,6 +4,9 @@
 // Schnabel, Numerical Methods for Unconstrained Optimization, sec. 5.4.
 import type { Counts, JacobianBand, JacobianFn, Rhs } from './types.js';
 import { bandWidth } from './band-lu.js';
+import type { ColumnGroups } from './column-groups.js';
+import type { SparseJacobian } from './jacobian-structure.js';
+import type { SparsePattern } from './sparse-pattern.js';
 
 const EPS = 2.220446049250313e-16;
 
@@ -85,14 +88,62 @@ export function bandedFiniteDifferenceJacobian(
 }
 
 /**
+ * Forward-difference Jacobian of f with a sparse pattern, values in the pattern's row order
+ * (src/core/sparse-pattern.ts), the columns perturbed group by group (src/core/column-groups.ts,
+ * Curtis, Powell and Reid): no row sees two perturbed columns of a group, so each entry is the
+ * column-by-column quotient. Same increments as finiteDifferenceJacobian. Costs one evaluation
+ * per group, the returned count.
+ */
+export function sparseFiniteDifferenceJacobian(
+  f: Rhs,
+  t: number,
+  y: Float64Array,
+  fy: Float64Array,
+  jac: Float64Array,
+  pattern: SparsePattern,
+  groups: ColumnGroups,
+  work: DifferenceWork & { readonly dWork: Float64Array },
+): number {
+  const n = pattern.n;
+  const { yWork, fWork, dWork } = work;
+  const { colStart, row, rowOrderOf } = pattern;
+  for (let i = 0; i < n; i++) yWork[i] = y[i]!;
+  for (let g = 0; g < groups.count; g++) {
+    const g0 = groups.start[g]!;
+    const g1 = groups.start[g + 1]!;
+    for (let c = g0; c < g1; c++) {
+      const j = groups.columns[c]!;
+      const yj = y[j]!;
+      yWork[j] = yj + increment(yj);
+      dWork[j] = yWork[j]! - yj;
+    }
+    f(t, yWork, fWork);
+    for (let c = g0; c < g1; c++) {
+      const j = groups.columns[c]!;
+      const inv = 1 / dWork[j]!;
+      for (let q = colStart[j]!; q < colStart[j + 1]!; q++) {
+        const i = row[q]!;
+        jac[rowOrderOf[q]!] = (fWork[i]! - fy[i]!) * inv;
+      }
+      yWork[j] = y[j]!;
+    }
+  }
+  return groups.count;
+}
+
+/**
  * A Jacobian source bound to one solve: `evaluate` fills `jac` at (t, y) with the analytic
  * Jacobian when present, else by forward differences, and updates njev and nfev in counts.
  */
 export interface JacobianSource {
-  /** Row-major n x n, or band rows (src/core/band-lu.ts) when `band` is set. */
+  /**
+   * Row-major n x n, band rows (src/core/band-lu.ts) when `band` is set, or the values of the
+   * pattern's entries in its row order when `sparse` is set.
+   */
   readonly jac: Float64Array;
   readonly analytic: boolean;
   readonly band: JacobianBand | null;
+  readonly sparse: SparseJacobian | null;
   /** fy must hold f(t, y) (used only by the finite-difference path). */
   evaluate(t: number, y: Float64Array, fy: Float64Array): void;
 }
@@ -104,15 +155,17 @@ export function makeJacobianSource(
   n: number,
   counts: Counts,
   buffer: (length: number) => Float64Array = (length) => new Float64Array(length),
-  band: JacobianBand | null = null,
+  structure: JacobianBand | SparseJacobian | null = null,
 ): JacobianSource {
-  if (band) return bandedSource(f, jacobian, n, counts, buffer, band);
+  if (structure && 'pattern' in structure) return sparseSource(f, jacobian, n, counts, buffer, structure);
+  if (structure) return bandedSource(f, jacobian, n, counts, buffer, structure);
   const jac = buffer(n * n);
   if (jacobian) {
     return {
       jac,
       analytic: true,
       band: null,
+      sparse: null,
       evaluate(t, y) {
         jacobian(t, y, jac);
         counts.njev++;
@@ -124,20 +177,12 @@ export function makeJacobianSource(
     jac,
     analytic: false,
     band: null,
+    sparse: null,
     evaluate(t, y, fy) {
       counts.nfev += finiteDifferenceJacobian(f, t, y, fy, jac, n, work);
       counts.njev++;
     },
   };
-}
-
-/**
- * The band a solve should use for a problem that declares one: only when it is narrower than
- * the matrix (a band as wide as n stores more than the dense matrix and saves nothing).
- */
-export function usefulBand(band: JacobianBand | undefined, n: number): JacobianBand | null {
-  if (!band) return null;
-  return bandWidth(band.lower, band.upper) < n ? band : null;
 }
 
 function bandedSource(
@@ -159,6 +204,7 @@ function bandedSource(
       jac,
       analytic: true,
       band,
+      sparse: null,
       evaluate(t, y) {
         jacobian(t, y, dense);
         for (let i = 0; i < n; i++) {
@@ -175,8 +221,50 @@ function bandedSource(
     jac,
     analytic: false,
     band,
+    sparse: null,
     evaluate(t, y, fy) {
       counts.nfev += bandedFiniteDifferenceJacobian(f, t, y, fy, jac, n, band, work);
+      counts.njev++;
+    },
+  };
+}
+
+function sparseSource(
+  f: Rhs,
+  jacobian: JacobianFn | undefined,
+  n: number,
+  counts: Counts,
+  buffer: (length: number) => Float64Array,
+  sparse: SparseJacobian,
+): JacobianSource {
+  const { pattern, groups } = sparse;
+  const jac = buffer(pattern.nnz);
+  if (jacobian) {
+    // The analytic Jacobian's contract is the dense row-major matrix; the pattern's entries are copied out.
+    const dense = buffer(n * n);
+    const { rowStart, column } = pattern;
+    return {
+      jac,
+      analytic: true,
+      band: null,
+      sparse,
+      evaluate(t, y) {
+        jacobian(t, y, dense);
+        for (let i = 0; i < n; i++) {
+          for (let q = rowStart[i]!; q < rowStart[i + 1]!; q++) jac[q] = dense[i * n + column[q]!]!;
+        }
+        counts.njev++;
+      },
+    };
+  }
+  const work = { yWork: buffer(n), fWork: buffer(n), dWork: buffer(n) };
+  return {
+    jac,
+    analytic: false,
+    band: null,
+    sparse,
+    evaluate(t, y, fy) {
+      counts.nfev += sparseFiniteDifferenceJacobian(f, t, y, fy, jac, pattern, groups, work);
       counts.njev++;
     },
   };

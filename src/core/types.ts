@@ -111,6 +111,13 @@ export interface JacobianBand {
   readonly upper: number;
 }
 
+/**
+ * Which entries of the Jacobian may be nonzero: entry i lists the columns of row i (the states
+ * equation i depends on), each once, in 0..n-1. The diagonal is always kept by the solvers
+ * (iteration matrices have it) whether listed or not.
+ */
+export type JacobianPattern = readonly (readonly number[])[];
+
 /** Index split for separable problems q' = g(p), p' = h(t, q) (symplectic methods need it). */
 export interface SeparableSplit {
   /** Indices of position-like states, whose derivatives depend only on `velocities`. */
@@ -155,6 +162,13 @@ export interface Problem {
    * lower + upper + 1 grouped columns for a Jacobian.
    */
   readonly jacobianBand?: JacobianBand;
+  /**
+   * The Jacobian's sparsity pattern, when it is sparse but not narrow-banded (2-D grids,
+   * networks): implicit methods then factor sparse matrices (src/core/sparse-lu.ts) and difference
+   * grouped columns (src/core/column-groups.ts). With a band too, the solve takes the cheaper
+   * (src/core/jacobian-structure.ts).
+   */
+  readonly jacobianPattern?: JacobianPattern;
   /** True when the problem is meant for stiff methods; sweeps pair it with those by default. */
   readonly stiff: boolean;
   readonly invariants: readonly Invariant[];

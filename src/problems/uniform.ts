@@ -47,6 +47,7 @@ export function uniformProblem(p: Problem): Problem {
     f: p.f,
     jacobian: p.jacobian,
     jacobianBand: p.jacobianBand,
+    jacobianPattern: p.jacobianPattern,
     stiff: p.stiff,
     invariants: p.invariants.map(uniformInvariant),
     errorScale: uniformErrorScale(p.errorScale),

@@ -4,7 +4,8 @@
 // sum_j D_j, corrector gamma_k (y - y_pred) + sum_j gamma_j D_j = h f, local error
 // ||y - y_pred|| / (k + 1), order chosen among k-1, k, k+1 after k+1 steps of constant size,
 // simplified Newton with the Jacobian kept until Newton fails.
-import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { makeJacobianSource } from '../../core/jacobian.js';
+import { jacobianStructure } from '../../core/jacobian-structure.js';
 import { RealIterationMatrix } from './iteration-matrix.js';
 import { inverseScales, weightedRms } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
@@ -41,7 +42,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const ycur = lease.float64(n), fcur = lease.float64(n), delta = lease.float64(n);
   const w = lease.float64(n), fy = lease.float64(n);
   const work = lease.float64(3 * (MAX_ORDER + 1) ** 2 + (MAX_ORDER + 1) * n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), jacobianStructure(problem, n));
   const M = new RealIterationMatrix(jacSrc, n, lease);
   const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
 

@@ -2,7 +2,8 @@
 // z = y0 + theta h f(t0 + theta h, z) by Newton, and y1 = y0 + (z - y0) / theta.
 // theta = 1 is backward Euler (y1 = z), theta = 1/2 the implicit midpoint rule (y1 = 2 z - y0);
 // Hairer & Wanner, Solving ODEs II, sec. IV.3.
-import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { makeJacobianSource } from '../../core/jacobian.js';
+import { jacobianStructure } from '../../core/jacobian-structure.js';
 import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
 import { zeroCounts } from '../../core/types.js';
 import { fixedStepCount } from '../../core/setting.js';
@@ -30,7 +31,7 @@ export function oneStageFixedMethod(meta: OneStageMeta, theta: 1 | 0.5): Method 
       return withLease(owner, n, (lease) => {
         const y = lease.copyOf(problem.y0);
         const fy = lease.float64(n);
-        const jac = makeJacobianSource(problem.f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+        const jac = makeJacobianSource(problem.f, problem.jacobian, n, counts, (length) => lease.float64(length), jacobianStructure(problem, n));
         const stage = stageNewton(problem.f, jac, n, counts, lease);
         return driveFixed(problem, options, y, steps, (t, h) => {
           problem.f(t, y, fy);

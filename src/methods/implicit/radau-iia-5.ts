@@ -5,7 +5,8 @@
 // polynomial (8.16), convergence-rate monitoring with theta and eta (8.10)-(8.13), embedded
 // error estimate (8.19)-(8.20) with its second, filtered evaluation on first and rejected steps,
 // and the predictive step-size controller of Gustafsson (8.25).
-import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { makeJacobianSource } from '../../core/jacobian.js';
+import { jacobianStructure } from '../../core/jacobian-structure.js';
 import { ComplexIterationMatrix, RealIterationMatrix } from './iteration-matrix.js';
 import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
@@ -84,7 +85,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const cont1 = lease.float64(n), cont2 = lease.float64(n), cont3 = lease.float64(n);
   const scal = lease.float64(n);
   const yEnd = lease.float64(n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), jacobianStructure(problem, n));
   const e1 = new RealIterationMatrix(jacSrc, n, lease);
   const e2 = new ComplexIterationMatrix(jacSrc, n, lease);
   const fnewt = Math.max((10 * EPS) / rtol, KAPPA);

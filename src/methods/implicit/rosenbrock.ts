@@ -8,7 +8,8 @@
 // not declare whether they are autonomous. A method is its coefficients (RosenbrockData); small
 // dense systems run stage code generated per method and state size (rosenbrock-kernel.ts), the
 // rest the loops below, which do the same operations in the same order.
-import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { makeJacobianSource } from '../../core/jacobian.js';
+import { jacobianStructure } from '../../core/jacobian-structure.js';
 import { RealIterationMatrix } from './iteration-matrix.js';
 import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Problem } from '../../core/types.js';
@@ -48,7 +49,7 @@ export function rosenbrockStepper(data: RosenbrockData, name: string, writtenOut
     for (let s = 0; s < stages; s++) u.push(lease.float64(n));
     const ytmp = lease.float64(n), ftmp = lease.float64(n), ynew = lease.float64(n), est = lease.float64(n);
     const io = lease.float64(8);
-    const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+    const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), jacobianStructure(problem, n));
     const M = new RealIterationMatrix(jacSrc, n, lease);
     const kernel = writtenOut && jacSrc.band === null && n <= ROSENBROCK_UNROLL_MAX_N ? kernels(n) : null;
     const stageCalls = reuse.filter((r, s) => s > 0 && !r).length;

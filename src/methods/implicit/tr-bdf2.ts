@@ -29,7 +29,8 @@
 // factor (1e-3/rtol)^(1/6) more than without the map (6.8 at rtol 1e-8), which is what second
 // order costs for a global error near the request; long spans at rtol <= 1e-9 need more than
 // 100000 steps.
-import { makeJacobianSource, usefulBand } from '../../core/jacobian.js';
+import { makeJacobianSource } from '../../core/jacobian.js';
+import { jacobianStructure } from '../../core/jacobian-structure.js';
 import { RealIterationMatrix } from './iteration-matrix.js';
 import { rmsOverScales, scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
@@ -109,7 +110,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const f1 = lease.float64(n), f2 = lease.float64(n), f3 = lease.float64(n);
   const z = lease.float64(n), rhs = lease.float64(n), delta = lease.float64(n);
   const fz = lease.float64(n), scal = lease.float64(n), est = lease.float64(n);
-  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), usefulBand(problem.jacobianBand, n));
+  const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), jacobianStructure(problem, n));
   const M = new RealIterationMatrix(jacSrc, n, lease);
   const newtonTol = Math.max((10 * EPS) / rtol, KAPPA);
   let needJac = true;
