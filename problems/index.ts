@@ -15,6 +15,7 @@ import { arenstorfOrbit } from './arenstorf-orbit.js';
 import { tetheredPair } from './tethered-pair.js';
 import { decayingOrbitDrag } from './decaying-orbit-drag.js';
 import { brusselator1d } from './brusselator-1d.js';
+import { heat2d } from './heat-2d.js';
 
 export const catalogue: Problem[] = [
   harmonicOscillator,
@@ -30,6 +31,7 @@ export const catalogue: Problem[] = [
   tetheredPair,
   decayingOrbitDrag,
   brusselator1d,
+  heat2d,
 ].map(uniformProblem);
 
 export function findProblem(id: string): Problem | undefined {

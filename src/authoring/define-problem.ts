@@ -1,8 +1,9 @@
 // defineProblem: the way a user's module describes a problem in code. It checks the spec, fills
 // the defaults and records a stable text of the spec (functions by their source) as the
 // definition; the module loader appends a hash of the module's source files.
-import type { ErrorScale, Invariant, JacobianFn, OrbitStates, Problem, ProblemEvent, Reference, Rhs, SeparableSplit } from '../core/types.js';
+import type { ErrorScale, Invariant, JacobianBand, JacobianFn, JacobianPattern, OrbitStates, Problem, ProblemEvent, Reference, Rhs, SeparableSplit } from '../core/types.js';
 import { InputError } from '../core/errors.js';
+import { patternProblem } from '../core/sparse-pattern.js';
 import { brand, PROBLEM_BRAND } from './brand.js';
 
 export interface ProblemSpec {
@@ -18,6 +19,17 @@ export interface ProblemSpec {
   readonly span: readonly [number, number];
   readonly f: Rhs;
   readonly jacobian?: JacobianFn;
+  /**
+   * df/dy is zero outside `lower` diagonals below and `upper` above the main one: implicit
+   * methods then factor band matrices and difference grouped columns.
+   */
+  readonly jacobianBand?: JacobianBand;
+  /**
+   * Which entries of df/dy may be nonzero: one list of column indices per row (state), e.g.
+   * [[0, 1], [0, 1, 2], [1, 2]]. Implicit methods then factor sparse matrices and difference
+   * grouped columns when the pattern is much sparser than the band (README, "Sparse Jacobians").
+   */
+  readonly jacobianPattern?: JacobianPattern;
   /** Default false. */
   readonly stiff?: boolean;
   /** Default none. */
@@ -80,6 +92,17 @@ export function defineProblem(spec: ProblemSpec): Problem {
   if (spec.jacobian !== undefined && typeof spec.jacobian !== 'function') bad(spec, 'jacobian must be a function (t, y, jac) => void');
   const n = y0.length;
   if (spec.stateNames && spec.stateNames.length !== n) bad(spec, `stateNames has ${spec.stateNames.length} names for ${n} states`);
+  if (spec.jacobianBand !== undefined) {
+    const b = spec.jacobianBand as Partial<JacobianBand> | null;
+    const ok = (v: unknown): boolean => Number.isInteger(v) && (v as number) >= 0 && (v as number) < n;
+    if (!b || typeof b !== 'object' || !ok(b.lower) || !ok(b.upper)) {
+      bad(spec, `jacobianBand must be { lower, upper } with whole numbers in 0..${n - 1}, got ${JSON.stringify(b)}`);
+    }
+  }
+  if (spec.jacobianPattern !== undefined) {
+    const wrong = patternProblem(spec.jacobianPattern, n, 'jacobianPattern');
+    if (wrong) bad(spec, wrong);
+  }
   const checkTimes = [...finiteList(spec, 'checkTimes', spec.checkTimes ?? [])].sort((a, b) => a - b);
   const outside = checkTimes.find((t) => !(t > t0 && t <= tEnd));
   if (outside !== undefined) bad(spec, `check time ${outside} is outside the span (${t0}, ${tEnd}]`);
@@ -135,6 +158,8 @@ export function defineProblem(spec: ProblemSpec): Problem {
     y0: [...y0],
     f: spec.f,
     ...(spec.jacobian ? { jacobian: spec.jacobian } : {}),
+    ...(spec.jacobianBand ? { jacobianBand: { lower: spec.jacobianBand.lower, upper: spec.jacobianBand.upper } } : {}),
+    ...(spec.jacobianPattern ? { jacobianPattern: spec.jacobianPattern.map((row) => [...row]) } : {}),
     stiff: spec.stiff ?? false,
     invariants,
     errorScale: spec.errorScale ?? { kind: 'absolute' },

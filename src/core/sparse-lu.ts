@@ -60,8 +60,11 @@ class SparseLuStructure {
   private readonly next: Int32Array;
   protected readonly mark: Int32Array;
   protected stamp = 0;
+  /** Times the factors' storage had to grow (pivots off the diagonal filling past the estimate). */
+  growths = 0;
 
-  constructor(analysis: SparseLuAnalysis, buffers: Buffers) {
+  /** `slack`: room past the analysis' estimate in each factor (n unless a test asks for less). */
+  constructor(analysis: SparseLuAnalysis, buffers: Buffers, slack: number) {
     const n = analysis.pattern.n;
     this.n = n;
     this.p = analysis.pattern;
@@ -70,7 +73,7 @@ class SparseLuStructure {
     this.prow = buffers.int32(n);
     this.lStart = buffers.int32(n + 1);
     this.uStart = buffers.int32(n + 1);
-    const cap = analysis.factorEntries + n;
+    const cap = analysis.factorEntries + slack;
     this.lRow = buffers.int32(cap);
     this.uRow = buffers.int32(cap);
     this.xi = buffers.int32(n);
@@ -129,10 +132,12 @@ class SparseLuStructure {
   }
 
   protected growL(cap: number): void {
+    this.growths++;
     this.lRow = grownInt(this.lRow, cap);
   }
 
   protected growU(cap: number): void {
+    this.growths++;
     this.uRow = grownInt(this.uRow, cap);
   }
 
@@ -174,8 +179,8 @@ export class SparseLu extends SparseLuStructure {
   private readonly uDiag: Float64Array;
   private readonly x: Float64Array;
 
-  constructor(analysis: SparseLuAnalysis, buffers: Buffers = FRESH) {
-    super(analysis, buffers);
+  constructor(analysis: SparseLuAnalysis, buffers: Buffers = FRESH, slack = analysis.pattern.n) {
+    super(analysis, buffers, slack);
     this.lVal = buffers.float64(this.lRow.length);
     this.uVal = buffers.float64(this.uRow.length);
     this.uDiag = buffers.float64(this.n);
@@ -280,8 +285,8 @@ export class ComplexSparseLu extends SparseLuStructure {
   private readonly xr: Float64Array;
   private readonly xm: Float64Array;
 
-  constructor(analysis: SparseLuAnalysis, buffers: Buffers = FRESH) {
-    super(analysis, buffers);
+  constructor(analysis: SparseLuAnalysis, buffers: Buffers = FRESH, slack = analysis.pattern.n) {
+    super(analysis, buffers, slack);
     this.lRe = buffers.float64(this.lRow.length);
     this.lIm = buffers.float64(this.lRow.length);
     this.uRe = buffers.float64(this.uRow.length);

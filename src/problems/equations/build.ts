@@ -21,6 +21,7 @@ import { symbolicJacobian } from './jacobian.js';
 import { expandVectors } from './vectors.js';
 import { isolateTableCalls, type FileTables } from '../tables/file-tables.js';
 import { detectedBand } from './band.js';
+import { detectedPattern } from './pattern.js';
 import { checkName, makeScope, MAX_FILE_STATES } from './names.js';
 import { checkSeparableSplit, findSeparableSplit, type Dependencies } from './separable.js';
 
@@ -128,6 +129,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
   };
   const { separable, separableReason } = separability(site, spec, dependencies);
   const jacobianBand = detectedBand(dependencies.deps);
+  const jacobianPattern = detectedPattern(dependencies.deps);
 
   const derivativeScope = makeScope({ time: true, states, parameters, definitions: visibleDefs, functions: new Map([...DERIVATIVE_FUNCTIONS, ...(tables?.valueRules ?? [])]) });
   const jac = symbolicJacobian(graph, equations.map((e) => e.node), derivativeScope, tables?.slopeRules);
@@ -146,6 +148,7 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     f,
     ...(jacobian ? { jacobian } : {}),
     ...(jacobianBand ? { jacobianBand } : {}),
+    ...(jacobianPattern ? { jacobianPattern } : {}),
     jacobianSource: jacobian ? 'symbolic' : 'finite-difference',
     ...('reason' in jac ? { jacobianNote: jac.reason } : {}),
     stiff: spec.stiff ?? false,
