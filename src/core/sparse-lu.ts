@@ -60,11 +60,17 @@ class SparseLuStructure {
   private readonly next: Int32Array;
   protected readonly mark: Int32Array;
   protected stamp = 0;
+  /** Values of L and U (one array for the real form; real and imaginary parts for the complex). */
+  protected readonly lValues: Float64Array[] = [];
+  protected readonly uValues: Float64Array[] = [];
+  /** U's diagonal and the column being computed, by part likewise. */
+  protected readonly diagonal: Float64Array[] = [];
+  protected readonly work: Float64Array[] = [];
   /** Times the factors' storage had to grow (pivots off the diagonal filling past the estimate). */
   growths = 0;
 
-  /** `slack`: room past the analysis' estimate in each factor (n unless a test asks for less). */
-  constructor(analysis: SparseLuAnalysis, buffers: Buffers, slack: number) {
+  /** `slack`: room past the analysis' estimate in each factor (n unless a test asks for less); parts: 1 real, 2 complex. */
+  constructor(analysis: SparseLuAnalysis, buffers: Buffers, slack: number, parts: number) {
     const n = analysis.pattern.n;
     this.n = n;
     this.p = analysis.pattern;
@@ -80,6 +86,12 @@ class SparseLuStructure {
     this.stack = buffers.int32(n);
     this.next = buffers.int32(n);
     this.mark = buffers.int32(n);
+    for (let k = 0; k < parts; k++) {
+      this.lValues.push(buffers.float64(cap));
+      this.uValues.push(buffers.float64(cap));
+      this.diagonal.push(buffers.float64(n));
+      this.work.push(buffers.float64(n));
+    }
   }
 
   protected begin(): void {
@@ -125,20 +137,20 @@ class SparseLuStructure {
     return top;
   }
 
-  /** Room for `more` entries in L and U past lnz and unz (grows both by doubling when short). */
+  /** Room for `more` entries in L and U past lnz and unz (grows them by doubling when short). */
   protected room(lnz: number, unz: number, more: number): void {
-    if (lnz + more > this.lRow.length) this.growL(Math.max(2 * this.lRow.length, lnz + more));
-    if (unz + more > this.uRow.length) this.growU(Math.max(2 * this.uRow.length, unz + more));
-  }
-
-  protected growL(cap: number): void {
-    this.growths++;
-    this.lRow = grownInt(this.lRow, cap);
-  }
-
-  protected growU(cap: number): void {
-    this.growths++;
-    this.uRow = grownInt(this.uRow, cap);
+    if (lnz + more > this.lRow.length) {
+      const cap = Math.max(2 * this.lRow.length, lnz + more);
+      this.lRow = grownInt(this.lRow, cap);
+      for (let k = 0; k < this.lValues.length; k++) this.lValues[k] = grownFloat(this.lValues[k]!, cap);
+      this.growths++;
+    }
+    if (unz + more > this.uRow.length) {
+      const cap = Math.max(2 * this.uRow.length, unz + more);
+      this.uRow = grownInt(this.uRow, cap);
+      for (let k = 0; k < this.uValues.length; k++) this.uValues[k] = grownFloat(this.uValues[k]!, cap);
+      this.growths++;
+    }
   }
 
   /** Steps of the last factorization whose pivot left the diagonal of the ordered matrix. */
@@ -174,32 +186,15 @@ function grownFloat(a: Float64Array, cap: number): Float64Array {
 }
 
 export class SparseLu extends SparseLuStructure {
-  private lVal: Float64Array;
-  private uVal: Float64Array;
-  private readonly uDiag: Float64Array;
-  private readonly x: Float64Array;
-
   constructor(analysis: SparseLuAnalysis, buffers: Buffers = FRESH, slack = analysis.pattern.n) {
-    super(analysis, buffers, slack);
-    this.lVal = buffers.float64(this.lRow.length);
-    this.uVal = buffers.float64(this.uRow.length);
-    this.uDiag = buffers.float64(this.n);
-    this.x = buffers.float64(this.n);
-  }
-
-  protected override growL(cap: number): void {
-    super.growL(cap);
-    this.lVal = grownFloat(this.lVal, cap);
-  }
-
-  protected override growU(cap: number): void {
-    super.growU(cap);
-    this.uVal = grownFloat(this.uVal, cap);
+    super(analysis, buffers, slack, 1);
   }
 
   /** Factor the matrix with these values (the pattern's row order); false on a zero pivot. */
   factor(values: Float64Array): boolean {
-    const { n, p, order, pinv, prow, lStart, uStart, xi, mark, x, uDiag } = this;
+    const { n, p, order, pinv, prow, lStart, uStart, xi, mark } = this;
+    const x = this.work[0]!;
+    const uDiag = this.diagonal[0]!;
     this.begin();
     let lnz = 0;
     let unz = 0;
@@ -208,7 +203,9 @@ export class SparseLu extends SparseLuStructure {
       const top = this.reach(j);
       this.room(lnz, unz, n - top);
       const lRow = this.lRow;
-      const lVal = this.lVal;
+      const lVal = this.lValues[0]!;
+      const uRow = this.uRow;
+      const uVal = this.uValues[0]!;
       for (let t = top; t < n; t++) x[xi[t]!] = 0;
       for (let q = p.colStart[j]!; q < p.colStart[j + 1]!; q++) x[p.row[q]!] = values[p.rowOrderOf[q]!]!;
       for (let t = top; t < n; t++) {
@@ -224,8 +221,8 @@ export class SparseLu extends SparseLuStructure {
         const i = xi[t]!;
         const s = pinv[i]!;
         if (s >= 0) {
-          this.uRow[unz] = s;
-          this.uVal[unz++] = x[i]!;
+          uRow[unz] = s;
+          uVal[unz++] = x[i]!;
         } else {
           const a = Math.abs(x[i]!);
           if (a > largest) {
@@ -257,7 +254,11 @@ export class SparseLu extends SparseLuStructure {
 
   /** Solve A x = b in place (b becomes x) with the last factors. */
   solve(b: Float64Array): void {
-    const { n, order, prow, lStart, uStart, lRow, lVal, uRow, uVal, uDiag, x } = this;
+    const { n, order, prow, lStart, uStart, lRow, uRow } = this;
+    const lVal = this.lValues[0]!;
+    const uVal = this.uValues[0]!;
+    const uDiag = this.diagonal[0]!;
+    const x = this.work[0]!;
     for (let k = 0; k < n; k++) x[k] = b[prow[k]!]!;
     for (let k = 0; k < n; k++) {
       const xk = x[k]!;
@@ -276,42 +277,17 @@ export class SparseLu extends SparseLuStructure {
 
 /** Complex analogue of SparseLu (values re + i im); pivots on |re| + |im| like complexLuFactor. */
 export class ComplexSparseLu extends SparseLuStructure {
-  private lRe: Float64Array;
-  private lIm: Float64Array;
-  private uRe: Float64Array;
-  private uIm: Float64Array;
-  private readonly dRe: Float64Array;
-  private readonly dIm: Float64Array;
-  private readonly xr: Float64Array;
-  private readonly xm: Float64Array;
-
   constructor(analysis: SparseLuAnalysis, buffers: Buffers = FRESH, slack = analysis.pattern.n) {
-    super(analysis, buffers, slack);
-    this.lRe = buffers.float64(this.lRow.length);
-    this.lIm = buffers.float64(this.lRow.length);
-    this.uRe = buffers.float64(this.uRow.length);
-    this.uIm = buffers.float64(this.uRow.length);
-    this.dRe = buffers.float64(this.n);
-    this.dIm = buffers.float64(this.n);
-    this.xr = buffers.float64(this.n);
-    this.xm = buffers.float64(this.n);
-  }
-
-  protected override growL(cap: number): void {
-    super.growL(cap);
-    this.lRe = grownFloat(this.lRe, cap);
-    this.lIm = grownFloat(this.lIm, cap);
-  }
-
-  protected override growU(cap: number): void {
-    super.growU(cap);
-    this.uRe = grownFloat(this.uRe, cap);
-    this.uIm = grownFloat(this.uIm, cap);
+    super(analysis, buffers, slack, 2);
   }
 
   /** Factor the matrix re + i im (values in the pattern's row order); false on a zero pivot. */
   factor(re: Float64Array, im: Float64Array): boolean {
-    const { n, p, order, pinv, prow, lStart, uStart, xi, mark, xr, xm, dRe, dIm } = this;
+    const { n, p, order, pinv, prow, lStart, uStart, xi, mark } = this;
+    const xr = this.work[0]!;
+    const xm = this.work[1]!;
+    const dRe = this.diagonal[0]!;
+    const dIm = this.diagonal[1]!;
     this.begin();
     let lnz = 0;
     let unz = 0;
@@ -319,7 +295,11 @@ export class ComplexSparseLu extends SparseLuStructure {
       const j = order[k]!;
       const top = this.reach(j);
       this.room(lnz, unz, n - top);
-      const { lRow, lRe, lIm } = this;
+      const { lRow, uRow } = this;
+      const lRe = this.lValues[0]!;
+      const lIm = this.lValues[1]!;
+      const uRe = this.uValues[0]!;
+      const uIm = this.uValues[1]!;
       for (let t = top; t < n; t++) {
         xr[xi[t]!] = 0;
         xm[xi[t]!] = 0;
@@ -348,9 +328,9 @@ export class ComplexSparseLu extends SparseLuStructure {
         const i = xi[t]!;
         const s = pinv[i]!;
         if (s >= 0) {
-          this.uRow[unz] = s;
-          this.uRe[unz] = xr[i]!;
-          this.uIm[unz++] = xm[i]!;
+          uRow[unz] = s;
+          uRe[unz] = xr[i]!;
+          uIm[unz++] = xm[i]!;
         } else {
           const a = Math.abs(xr[i]!) + Math.abs(xm[i]!);
           if (a > largest) {
@@ -389,7 +369,15 @@ export class ComplexSparseLu extends SparseLuStructure {
 
   /** Solve (re + i im) x = br + i bi in place with the last factors. */
   solve(br: Float64Array, bi: Float64Array): void {
-    const { n, order, prow, lStart, uStart, lRow, lRe, lIm, uRow, uRe, uIm, dRe, dIm, xr, xm } = this;
+    const { n, order, prow, lStart, uStart, lRow, uRow } = this;
+    const lRe = this.lValues[0]!;
+    const lIm = this.lValues[1]!;
+    const uRe = this.uValues[0]!;
+    const uIm = this.uValues[1]!;
+    const dRe = this.diagonal[0]!;
+    const dIm = this.diagonal[1]!;
+    const xr = this.work[0]!;
+    const xm = this.work[1]!;
     for (let k = 0; k < n; k++) {
       xr[k] = br[prow[k]!]!;
       xm[k] = bi[prow[k]!]!;
