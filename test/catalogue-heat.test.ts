@@ -1,7 +1,7 @@
 // heat-2d (problems/heat-2d.ts): the discrete sine modes are eigenvectors of the 5-point
 // Laplacian with eigenvalues -(4/h^2)(sin^2(p pi h/2) + sin^2(q pi h/2)) (LeVeque, Finite
 // Difference Methods for ODEs and PDEs, 2007, sec. 3.4, from memory; checked here on the grid
-// through the problem's own right-hand side), and the sparse solve of the 900-state problem
+// through the problem's own right-hand side), and the sparse solve of the 400-state catalogue problem
 // against the exact formula.
 import { describe, expect, it } from 'vitest';
 import { SparseJacobian, jacobianStructure } from '../src/core/jacobian-structure.js';
