@@ -9,6 +9,7 @@ import { findProblem } from '../problems/index.js';
 import { explicitTableaus, type DenseMethod } from '../src/methods/explicit/index.js';
 import { findMethod } from '../src/methods/registry.js';
 import { measureRun } from '../src/measure/run-one.js';
+import { watchRun } from '../src/measure/observer.js';
 import { validateResults } from '../src/results/read.js';
 import type { ResultsFile } from '../src/results/contract.js';
 import { makeProblem } from './methods-explicit-helpers.js';
@@ -49,6 +50,26 @@ describe.each(withExtraStages)('%s interpolant', (id, m, order, extra) => {
         expect(slope, `theta ${theta}, h ${h0 / 2 ** k}`).toBeGreaterThan(order + 1 - 0.4);
         expect(slope, `theta ${theta}, h ${h0 / 2 ** k}`).toBeLessThan(order + 1 + 0.8);
       }
+    }
+  });
+
+  it(`error.dense on the oscillator falls like h^${order} with the step, as the steps' own error does`, () => {
+    // Steps bounded to h (a loose tolerance, so the bound sets them), as for dormand-prince-54 in
+    // test/dense-accuracy.test.ts: the midpoint error is the global error of order p of the steps
+    // plus the interpolant's local h^(q+1), q = p here. Measured slopes: verner-76 7.24, 7.09;
+    // verner-87 7.91, 8.03; verner-98 10.07, 9.44 (its order-10 terms still count at these steps).
+    const hs = order >= 8 ? [0.2, 0.1, 0.05] : [0.1, 0.05, 0.025];
+    const figures = hs.map((h) => {
+      const watch = watchRun(oscillator, true);
+      const r = m.dense.solve(oscillator, LOOSE, { maxSteps: 1e6, maxStep: h, observer: watch.observer }, watch.denseStep);
+      expect(r.status).toBe('ok');
+      return { dense: watch.dense()!.value, along: watch.along()!.value };
+    });
+    for (const f of figures) expect(f.dense).toBeLessThan(1.2 * f.along);
+    for (let k = 1; k < figures.length; k++) {
+      const slope = Math.log2(figures[k - 1]!.dense / figures[k]!.dense);
+      expect(slope).toBeGreaterThan(order - 0.3);
+      expect(slope).toBeLessThan(order + 1.2);
     }
   });
 

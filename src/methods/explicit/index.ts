@@ -15,7 +15,7 @@ import * as registry from './tableaus/index.js';
 import * as compositionRegistry from './compositions/index.js';
 
 export { dormandPrince54Dense, type DenseCapability, type DenseEvaluate, type DenseSolveResult } from './dense-dp54.js';
-export { compileTableau, isFsal, type KernelFactory, type StageKernel, type Tableau, type TableauData, type TableauMethod } from './tableau.js';
+export { compileTableau, isFsal, type ExtraStageInterpolant, type KernelFactory, type StageKernel, type Tableau, type TableauData, type TableauMethod } from './tableau.js';
 export {
   UNROLL_MAX_N,
   fixedStepKernel,
