@@ -23,20 +23,31 @@ export const CALLS_PER_PIECE = 6;
 /** A coefficient as source text that parses back to the same double. */
 const lit = (v: number): string => numberLiteral(v, 'tableau coefficient');
 
-/** How component j and stage i's entry are spelled: a loop variable, or fixed indices. */
+/**
+ * How component j and stage i's entry are spelled: a loop variable over the buffers, or, written
+ * out for one state size, locals read once from the buffers (see localsOf).
+ */
 interface Indexing {
   /** Component index as text. */
   readonly j: string;
-  /** Entry j of stage i in the flat stage buffer. */
+  /** Entry j of stage i. */
   stage(i: number): string;
+  /** y_j at the start of the step, and y_new_j once it is computed. */
+  readonly y: string;
+  readonly yNew: string;
 }
 
 function loopIndexing(): Indexing {
-  return { j: 'j', stage: (i) => (i === 0 ? 'K[j]' : `K[o${i} + j]`) };
+  return { j: 'j', stage: (i) => (i === 0 ? 'K[j]' : `K[o${i} + j]`), y: 'y[j]', yNew: 'yNew[j]' };
 }
 
-function fixedIndexing(j: number, n: number): Indexing {
-  return { j: String(j), stage: (i) => `K[${i * n + j}]` };
+/** Fixed indices into the buffers themselves (the fixed-step kernels). */
+function bufferIndexing(j: number, n: number): Indexing {
+  return { j: String(j), stage: (i) => `K[${i * n + j}]`, y: `y[${j}]`, yNew: `yNew[${j}]` };
+}
+
+function fixedIndexing(j: number): Indexing {
+  return { j: String(j), stage: (i) => `k${i}_${j}`, y: `y_${j}`, yNew: `yn_${j}` };
 }
 
 /** sum_i w_i k_i over the nonzero weights, or null when all are zero. */
@@ -50,8 +61,10 @@ function combination(w: readonly number[], ix: Indexing): string | null {
 
 function stateUpdate(target: string, w: readonly number[], ix: Indexing): string {
   const sum = combination(w, ix);
-  const j = ix.j;
-  return `${target}[${j}] = ${sum === null ? `y[${j}]` : `y[${j}] + h * (${sum})`};`;
+  const value = sum === null ? ix.y : `${ix.y} + h * (${sum})`;
+  // Written out, y_new also gets a local, which the error sums read.
+  if (target === 'yNew' && ix.yNew !== 'yNew[j]') return `const ${ix.yNew} = ${value}; yNew[${ix.j}] = ${ix.yNew};`;
+  return `${target}[${ix.j}] = ${value};`;
 }
 
 function stageTime(c: number): string {
@@ -59,8 +72,8 @@ function stageTime(c: number): string {
   return c === 1 ? 'tNew' : c === 0 ? 't' : `t + ${lit(c)} * h`;
 }
 
-function scale(j: string): string {
-  return `const ya = Math.abs(y[${j}]); const yb = Math.abs(yNew[${j}]); const sk = atol[${j}] + rtol * (ya > yb ? ya : yb);`;
+function scale(ix: Indexing): string {
+  return `const ya = Math.abs(${ix.y}); const yb = Math.abs(${ix.yNew}); const sk = atol[${ix.j}] + rtol * (ya > yb ? ya : yb);`;
 }
 
 /**
@@ -72,11 +85,10 @@ function errorTerm(d: ReturnType<typeof workingWeights>, ix: Indexing, fsalStage
   const e = combination(errorCoefficients(d.b, d.bHat!), ix);
   if (e === null) throw new InputError('an unrolled kernel needs nonzero error weights');
   // v - v is 0 for finite v and NaN otherwise: the finiteness check rides along with the norm.
-  const j = ix.j;
-  const bad = `bad += yNew[${j}] - yNew[${j}];` + (fsalStage === null ? '' : ` bad += ${ix.stage(fsalStage)} - ${ix.stage(fsalStage)};`);
-  if (!d.bHat2) return `{ ${scale(j)} const r = (h * (${e})) / sk; sum += r * r; ${bad} }`;
+  const bad = `bad += ${ix.yNew} - ${ix.yNew};` + (fsalStage === null ? '' : ` bad += ${ix.stage(fsalStage)} - ${ix.stage(fsalStage)};`);
+  if (!d.bHat2) return `{ ${scale(ix)} const r = (h * (${e})) / sk; sum += r * r; ${bad} }`;
   const e2 = combination(errorCoefficients(d.b, d.bHat2), ix) ?? '0';
-  return `{ ${scale(j)} const a5 = (${e}) / sk; const a3 = (${e2}) / sk; s5 += a5 * a5; s3 += a3 * a3; ${bad} }`;
+  return `{ ${scale(ix)} const a5 = (${e}) / sk; const a3 = (${e2}) / sk; s5 += a5 * a5; s3 += a3 * a3; ${bad} }`;
 }
 
 /** Final error norm from the sums, stored in io. */
@@ -106,7 +118,7 @@ export function unrolledSource(d: TableauData, name: string, n?: number): string
   const each = (line: (ix: Indexing) => string): string[] => {
     if (n === undefined) return [`for (let j = 0; j < n; j++) ${line(loopIndexing())}`];
     const out: string[] = [];
-    for (let j = 0; j < n; j++) out.push(line(fixedIndexing(j, n)));
+    for (let j = 0; j < n; j++) out.push(line(fixedIndexing(j)));
     return out;
   };
   const head = [`const t = io[${IO_T}]; const tNew = io[${IO_T_NEW}]; const h = io[${IO_H}]; const rtol = io[${IO_RTOL}];`];
@@ -117,18 +129,60 @@ export function unrolledSource(d: TableauData, name: string, n?: number): string
   for (let i = 1; i <= lastFromA; i++) {
     const seg = each((ix) => stateUpdate('ys', w.a[i]!, ix));
     seg.push(`f(${stageTime(d.c[i]!)}, ys, kRow[${i}]);`);
-    if (d.increments) seg.push(...each((ix) => `${ix.stage(i)} -= ${ix.stage(0)};`));
+    if (n === undefined) {
+      if (d.increments) seg.push(...each((ix) => `${ix.stage(i)} -= ${ix.stage(0)};`));
+    } else {
+      // The stage just filled, read into locals (as an increment over stage 1, stored back).
+      for (let j = 0; j < n; j++) {
+        const at = `K[${i * n + j}]`;
+        seg.push(d.increments ? `const k${i}_${j} = ${at} - k0_${j}; ${at} = k${i}_${j};` : `const k${i}_${j} = ${at};`);
+      }
+    }
     segments.push(seg);
   }
   const end = each((ix) => stateUpdate('yNew', w.b, ix));
-  if (fsal) end.push(`f(tNew, yNew, kRow[${last}]);`);
+  if (fsal) {
+    end.push(`f(tNew, yNew, kRow[${last}]);`);
+    if (n !== undefined) for (let j = 0; j < n; j++) end.push(`const k${last}_${j} = K[${last * n + j}];`);
+  }
   end.push(w.bHat2 ? 'let s5 = 0; let s3 = 0; let bad = 0;' : 'let sum = 0; let bad = 0;');
   end.push(...each((ix) => errorTerm(w, ix, fsal ? last : null)));
   end.push(`io[${IO_NONFINITE}] = bad;`);
   end.push(...errorNorm(w));
   segments.push(end);
   const fn = `${name.replace(/[^A-Za-z0-9_]/g, '_')}${n === undefined ? '' : `_n${n}`}`;
-  return piecesSource(`step_${fn}`, 'f, io, y, yNew, ys, K, kRow, atol, n', head, segments);
+  return piecesSource(`step_${fn}`, 'f, io, y, yNew, ys, K, kRow, atol, n', head, segments, n === undefined ? undefined : (body) => localsOf(body, n));
+}
+
+/**
+ * The reads a written-out piece needs at its top: y_j and every stage local it uses but does not
+ * fill itself (stage 1, or stages filled by an earlier piece); and its own stage reads that
+ * nothing uses are dropped. Each typed-array read costs V8 a bounds check, and the sums read a
+ * stage up to s times: one read per entry is what is left (the arithmetic is unchanged).
+ */
+function localsOf(body: readonly string[], n: number): string[] {
+  const text = body.join('\n');
+  const uses = (name: string) => (text.match(new RegExp(`\\b${name}\\b`, 'g')) ?? []).length;
+  const declared = new Set<string>();
+  const kept: string[] = [];
+  for (const line of body) {
+    const m = /^const (k(\d+)_\d+) = K\[\d+\];$/.exec(line);
+    if (m && uses(m[1]!) === 1) continue;
+    const d = /^const ((?:k\d+|yn)_\d+) = /.exec(line);
+    if (d) declared.add(d[1]!);
+    kept.push(line);
+  }
+  const top: string[] = [];
+  for (let j = 0; j < n; j++) if (uses(`y_${j}`) > 0) top.push(`const y_${j} = y[${j}];`);
+  const stages = new Set<number>();
+  for (const m of text.matchAll(/\bk(\d+)_\d+\b/g)) stages.add(Number(m[1]));
+  for (const i of [...stages].sort((a, b) => a - b)) {
+    for (let j = 0; j < n; j++) {
+      const name = `k${i}_${j}`;
+      if (!declared.has(name) && uses(name) > 0) top.push(`const ${name} = K[${i * n + j}];`);
+    }
+  }
+  return [...top, ...kept];
 }
 
 /**
@@ -139,7 +193,13 @@ export function unrolledSource(d: TableauData, name: string, n?: number): string
  * own. Calls are spread evenly over the pieces; statements and their order are unchanged, so the
  * bits are too.
  */
-function piecesSource(name: string, params: string, head: readonly string[], segments: readonly string[][]): string {
+function piecesSource(
+  name: string,
+  params: string,
+  head: readonly string[],
+  segments: readonly string[][],
+  locals: (body: readonly string[]) => string[] = (body) => [...body],
+): string {
   const callsIn = (seg: readonly string[]) => seg.filter((l) => l.startsWith('f(')).length;
   const total = segments.reduce((sum, seg) => sum + callsIn(seg), 0);
   const perPiece = total === 0 ? 1 : Math.ceil(total / Math.ceil(total / CALLS_PER_PIECE));
@@ -156,7 +216,7 @@ function piecesSource(name: string, params: string, head: readonly string[], seg
   }
   const out = ['"use strict";'];
   pieces.forEach((body, k) => {
-    out.push(`function ${name}_${k + 1}(${params}) {`, ...[...head, ...body].map((l) => '  ' + l), '}');
+    out.push(`function ${name}_${k + 1}(${params}) {`, ...[...head, ...locals(body)].map((l) => '  ' + l), '}');
   });
   out.push(`return function ${name}(${params}) {`, ...pieces.map((_, k) => `  ${name}_${k + 1}(${params});`), '};');
   return out.join('\n');
@@ -207,7 +267,7 @@ export function fixedStepSource(d: TableauData, name: string, n?: number): strin
   const each = (line: (ix: Indexing) => string): string[] => {
     if (n === undefined) return [`for (let j = 0; j < n; j++) ${line(loopIndexing())}`];
     const out: string[] = [];
-    for (let j = 0; j < n; j++) out.push(line(fixedIndexing(j, n)));
+    for (let j = 0; j < n; j++) out.push(line(bufferIndexing(j, n)));
     return out;
   };
   // An all-zero row is y + h * 0 in the generic engine; keep that arithmetic.
