@@ -19,6 +19,8 @@ import { implicitMethods } from '../src/methods/implicit/index.js';
 import { loadProblemFile } from '../src/problems/load-file.js';
 import { uniformProblem } from '../src/problems/uniform.js';
 import { heatPattern, heatProblem, heatRhs } from '../problems/heat-2d.js';
+import { catalogue } from '../problems/index.js';
+import { patternProblem } from '../src/core/sparse-pattern.js';
 
 const patternArb = fc.integer({ min: 1, max: 30 }).chain((n) =>
   fc.record({
@@ -119,6 +121,27 @@ describe('which structure a solve takes', () => {
   it('a pattern is prepared once and shared by every solve of it', () => {
     const rows = heatPattern(6);
     expect(sparseJacobian(rows, 36)).toBe(sparseJacobian(rows, 36));
+  });
+});
+
+describe('the catalogue declares its structure truly', () => {
+  const structured = catalogue.filter((p) => p.jacobianPattern || p.jacobianBand);
+  it.each(structured.map((p) => [p.id, p] as const))('%s: column-by-column differences vanish outside the declared pattern and band', (_id, p) => {
+    const n = p.dimension;
+    if (p.jacobianPattern) expect(patternProblem(p.jacobianPattern, n, 'jacobianPattern')).toBeNull();
+    const y = Float64Array.from(p.y0, (v, i) => v + 0.01 * Math.sin(i + 1));
+    const fy = new Float64Array(n);
+    p.f(p.t0, y, fy);
+    const dense = new Float64Array(n * n);
+    finiteDifferenceJacobian(p.f, p.t0, y, fy, dense, n, { yWork: new Float64Array(n), fWork: new Float64Array(n) });
+    const allowed = p.jacobianPattern?.map((row, i) => new Set([...row, i]));
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j < n; j++) {
+        const outside = (allowed && !allowed[i]!.has(j)) || (p.jacobianBand && (i - j > p.jacobianBand.lower || j - i > p.jacobianBand.upper));
+        // A perturbation of y_j leaves f_i bit for bit unchanged when f_i does not read y_j.
+        if (outside) expect(dense[i * n + j], `${p.id} J[${i}][${j}]`).toBe(0);
+      }
+    }
   });
 });
 
