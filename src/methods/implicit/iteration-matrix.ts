@@ -2,10 +2,12 @@
 // (complex, Radau IIA), formed from a Jacobian source and factored: dense LU (src/core/lu.ts) for
 // a dense Jacobian, banded LU (src/core/band-lu.ts) when the source holds a band, sparse LU
 // (src/core/sparse-lu.ts) when it holds a pattern. The dense forms are the loops the steppers had
-// inline, operation for operation, so dense counts and results are unchanged.
+// inline, operation for operation, so dense counts and results are unchanged; small dense systems
+// use the same routines written out (lu-small.ts).
 import { bandLuFactor, bandLuSolve, bandWidth, complexBandLuFactor, complexBandLuSolve } from '../../core/band-lu.js';
 import type { JacobianSource } from '../../core/jacobian.js';
 import { complexLuFactor, complexLuSolve, luFactor, luSolve } from '../../core/lu.js';
+import { SMALL_LU_MAX_N, smallLu, type SmallLu } from '../../core/lu-small.js';
 import { ComplexSparseLu, SparseLu } from '../../core/sparse-lu.js';
 import type { WorkLease } from '../work-lease.js';
 
@@ -21,6 +23,8 @@ class Layout {
   readonly ml: number;
   readonly mu: number;
   readonly banded: boolean;
+  /** Written-out dense routines for this n, or null (banded, sparse, or n too large). */
+  readonly small: SmallLu | null;
 
   constructor(src: JacobianSource, n: number) {
     this.banded = src.band !== null;
@@ -31,6 +35,7 @@ class Layout {
     this.length = src.sparse ? src.sparse.pattern.nnz : n * w;
     this.diagStart = this.banded ? this.ml : 0;
     this.diagStride = this.banded ? w : n + 1;
+    this.small = !this.banded && !src.sparse && n <= SMALL_LU_MAX_N ? smallLu(n) : null;
   }
 }
 
@@ -70,12 +75,14 @@ export class RealIterationMatrix {
       return this.sparse.factor(m);
     }
     for (let i = 0, q = l.diagStart; i < n; i++, q += l.diagStride) m[q] = m[q]! + d;
+    if (l.small !== null) return l.small.factor(m, this.piv);
     return l.banded ? bandLuFactor(m, n, l.ml, l.mu, this.piv) : luFactor(m, n, this.piv);
   }
 
   /** b := M^{-1} b with the last factors. */
   solve(b: Float64Array): void {
     if (this.sparse) this.sparse.solve(b);
+    else if (this.l.small !== null) this.l.small.solve(this.m, this.piv, b);
     else if (this.l.banded) bandLuSolve(this.m, this.n, this.l.ml, this.l.mu, this.piv, b);
     else luSolve(this.m, this.n, this.piv, b);
   }
@@ -125,12 +132,14 @@ export class ComplexIterationMatrix {
       mr[q] = mr[q]! + dr;
       mi[q] = di;
     }
+    if (l.small !== null) return l.small.complexFactor(mr, mi, this.piv);
     return l.banded ? complexBandLuFactor(mr, mi, n, l.ml, l.mu, this.piv) : complexLuFactor(mr, mi, n, this.piv);
   }
 
   /** (br + i bi) := M^{-1} (br + i bi) with the last factors. */
   solve(br: Float64Array, bi: Float64Array): void {
     if (this.sparse) this.sparse.solve(br, bi);
+    else if (this.l.small !== null) this.l.small.complexSolve(this.mr, this.mi, this.piv, br, bi);
     else if (this.l.banded) complexBandLuSolve(this.mr, this.mi, this.n, this.l.ml, this.l.mu, this.piv, br, bi);
     else complexLuSolve(this.mr, this.mi, this.n, this.piv, br, bi);
   }
