@@ -51,7 +51,7 @@ export function rosenbrockStepper(data: RosenbrockData, name: string, writtenOut
     const io = lease.float64(8);
     const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), jacobianStructure(problem, n));
     const M = new RealIterationMatrix(jacSrc, n, lease);
-    const kernel = writtenOut && jacSrc.band === null && n <= ROSENBROCK_UNROLL_MAX_N ? kernels(n) : null;
+    const kernel = writtenOut && jacSrc.band === null && !jacSrc.sparse && n <= ROSENBROCK_UNROLL_MAX_N ? kernels(n) : null;
     const stageCalls = reuse.filter((r, s) => s > 0 && !r).length;
     let f0Valid = false;
     let jacValid = false;
