@@ -54,13 +54,15 @@ export const COMPILED_PEERS: readonly Peer[] = [
 export const COMPILED_TARGETS: readonly { problem: string; target: number; methods: readonly string[] }[] = [
   { problem: 'kepler-eccentric', target: 1e-8, methods: ['verner-87', 'verner-98', 'verner-76', 'dormand-prince-853', 'verner-65', 'dormand-prince-54', 'tsitouras-54'] },
   { problem: 'kepler-eccentric', target: 1e-10, methods: ['verner-87', 'verner-98', 'verner-76', 'dormand-prince-853', 'verner-65'] },
-  { problem: 'robertson', target: 1e-7, methods: ['hairer-wanner-rodas4', 'radau-iia-5', 'bdf-variable', 'trapezoidal-bdf2'] },
+  { problem: 'robertson', target: 1e-7, methods: ['hairer-wanner-rodas4', 'hairer-wanner-ros4-l-stable', 'radau-iia-5', 'bdf-variable', 'trapezoidal-bdf2'] },
   { problem: 'brusselator-1d', target: 1e-6, methods: ['hairer-wanner-rodas4', 'radau-iia-5', 'bdf-variable'] },
 ];
 
 export interface CompiledPeerRow extends MatchedRow {
   problem: string;
   side: 'stepgauge' | 'boost' | 'cvode';
+  /** Each round's time, ms, when the bench ran more than one round. */
+  roundsMs?: number[];
 }
 
 interface Build {
@@ -116,7 +118,14 @@ function referenceAtEnd(p: Problem): Float64Array {
   return out;
 }
 
-function peerRow(binary: string, peer: Peer, p: Problem, target: number): CompiledPeerRow {
+/** A matched row and how to time it once (ms, and the nfev of that solve). */
+interface Timed {
+  row: CompiledPeerRow;
+  /** wallMs: a peer's wall-clock median, when its time is CPU time. */
+  time: () => { ms: number | null; nfev: number | null; wallMs?: number };
+}
+
+function peerRow(binary: string, peer: Peer, p: Problem, target: number): Timed | CompiledPeerRow {
   const meter = errorMeter(p);
   const ref = referenceAtEnd(p);
   const errorAt = (rtol: number) => {
@@ -130,18 +139,15 @@ function peerRow(binary: string, peer: Peer, p: Problem, target: number): Compil
   const found = loosestRtol(errorAt, (r) => r.e <= target);
   const base = { problem: p.id, target, side: peer.library, method: peer.method };
   if (!found) return { ...base, met: false, rtol: null, achieved: null, nfev: null, medianMs: null, nsPerEval: null, note: 'target not reached down to rtol 1e-15' };
-  const timed = peerSolve(binary, peer, found.rtol, atolFor(p, found.rtol), BUDGET_MS);
+  const row: CompiledPeerRow = { ...base, met: true, rtol: found.rtol, achieved: found.result.e, nfev: found.result.s?.nfev ?? null, medianMs: null, nsPerEval: null };
   return {
-    ...base,
-    met: true,
-    rtol: found.rtol,
-    achieved: found.result.e,
-    nfev: timed.nfev,
-    // The solve's CPU time: a solve of a few ms waits for a core inside its wall time on a loaded
-    // machine (bench/README.md), which the stepgauge rows (runs well under a ms) mostly escape.
-    medianMs: timed.cpuMedianMs,
-    nsPerEval: (timed.cpuMedianMs * 1e6) / timed.nfev,
-    note: `CPU time; wall-clock median ${timed.medianMs.toPrecision(3)} ms`,
+    row,
+    time: () => {
+      const timed = peerSolve(binary, peer, found.rtol, atolFor(p, found.rtol), BUDGET_MS);
+      // The solve's CPU time: a solve of a few ms waits for a core inside its wall time on a loaded
+      // machine (bench/README.md), which the stepgauge rows (runs well under a ms) mostly escape.
+      return { ms: timed.cpuMedianMs, nfev: timed.nfev, wallMs: timed.medianMs };
+    },
   };
 }
 
@@ -167,7 +173,7 @@ function timedAsRun(problem: string, method: string, rtol: number): { ms: number
   }
 }
 
-async function stepgaugeRows(p: Problem, target: number, ids: readonly string[]): Promise<CompiledPeerRow[]> {
+async function stepgaugeRows(p: Problem, target: number, ids: readonly string[]): Promise<(Timed | CompiledPeerRow)[]> {
   const methods = ids.map((id) => findMethod(id)).filter((m): m is Method => m !== undefined);
   const choice = await chooseMethod(p, methods, { target, measure: 'final', cost: 'nfev', maxSteps: 10_000_000, timing: DEFAULT_TIMING });
   return choice.candidates.map((c) => {
@@ -176,32 +182,59 @@ async function stepgaugeRows(p: Problem, target: number, ids: readonly string[])
     if (!c.met || !setting || !('rtol' in setting)) {
       return { ...base, met: false, rtol: null, achieved: c.achieved, nfev: null, medianMs: null, nsPerEval: null, note: c.note ?? 'target not reached' };
     }
-    const t = timedAsRun(p.id, c.method, setting.rtol);
-    return {
-      ...base,
-      met: true,
-      rtol: setting.rtol,
-      achieved: c.achieved,
-      nfev: t.nfev,
-      medianMs: t.ms,
-      nsPerEval: t.ms !== null && t.nfev ? (t.ms * 1e6) / t.nfev : null,
-    };
+    const row: CompiledPeerRow = { ...base, met: true, rtol: setting.rtol, achieved: c.achieved, nfev: c.run?.counts.nfev ?? null, medianMs: null, nsPerEval: null };
+    return { row, time: () => timedAsRun(p.id, c.method, setting.rtol) };
   });
 }
 
-export async function runCompiledPeersBench(): Promise<{ rows: CompiledPeerRow[]; notes: string[] }> {
+/**
+ * Timing rounds (STEPGAUGE_BENCH_ROUNDS, default 1): every matched row is timed once per round,
+ * the rows one after another, and a row's time is the median of its rounds. On a shared machine
+ * the speed drifts over minutes; interleaving puts every row in the same minutes.
+ */
+const ROUNDS = Math.max(1, Math.floor(Number(process.env.STEPGAUGE_BENCH_ROUNDS ?? 1)) || 1);
+/** Only these problems (STEPGAUGE_BENCH_PEER_PROBLEMS, comma-separated ids); all by default. */
+const ONLY = process.env.STEPGAUGE_BENCH_PEER_PROBLEMS?.split(',').map((x) => x.trim()).filter(Boolean);
+
+function median(xs: readonly number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+}
+
+export async function runCompiledPeersBench(rounds = ROUNDS): Promise<{ rows: CompiledPeerRow[]; notes: string[] }> {
   const build = buildPeers();
-  const rows: CompiledPeerRow[] = [];
+  const entries: (Timed | CompiledPeerRow)[] = [];
   for (const { problem, target, methods } of COMPILED_TARGETS) {
+    if (ONLY && !ONLY.includes(problem)) continue;
     const p = findProblem(problem);
     if (!p) continue;
-    rows.push(...(await stepgaugeRows(p, target, methods)));
+    entries.push(...(await stepgaugeRows(p, target, methods)));
     for (const peer of COMPILED_PEERS.filter((x) => x.problem === problem)) {
       if (!build.binary || (peer.library === 'cvode' && !build.cvode)) continue;
-      rows.push(peerRow(build.binary, peer, p, target));
+      entries.push(peerRow(build.binary, peer, p, target));
     }
   }
-  return { rows, notes: build.notes };
+  const timed = entries.filter((e): e is Timed => 'time' in e);
+  const times = timed.map(() => [] as number[]);
+  const walls = timed.map(() => [] as number[]);
+  for (let round = 0; round < rounds; round++) {
+    timed.forEach((e, k) => {
+      const t = e.time();
+      if (t.ms !== null) times[k]!.push(t.ms);
+      if (t.wallMs !== undefined) walls[k]!.push(t.wallMs);
+      if (t.nfev !== null) e.row.nfev = t.nfev;
+    });
+  }
+  timed.forEach((e, k) => {
+    const ms = times[k]!;
+    if (ms.length === 0) return;
+    e.row.medianMs = median(ms);
+    e.row.nsPerEval = e.row.nfev ? (e.row.medianMs * 1e6) / e.row.nfev : null;
+    if (rounds > 1) e.row.roundsMs = ms;
+    if (walls[k]!.length > 0) e.row.note = `CPU time; wall-clock median ${median(walls[k]!).toPrecision(3)} ms`;
+  });
+  return { rows: entries.map((e) => ('time' in e ? e.row : e)), notes: build.notes };
 }
 
 /** Ratios of the issue's targets from the rows (null where a side is missing). */
