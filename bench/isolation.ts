@@ -2,8 +2,9 @@
 // against the time it records for the same run in a sweep of that run alone. The sweep times each
 // (problem, method) pair's runs in a fresh process (src/sweep/clocks.ts), so the two should agree
 // within the machine's noise; the target is 10%. The lone sweeps run before and after the
-// catalogue sweep and their mean is the reference, so a drift of the VM's speed during the
-// catalogue sweep shows as a spread between them (`aloneSpread`).
+// catalogue sweep (every round, see ROUNDS) and their median is the reference; a drift of the
+// VM's speed during the catalogue sweep shows as a spread between the first and the last
+// (`aloneSpread`).
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -27,15 +28,18 @@ export interface IsolationRow {
   problem: string;
   method: string;
   rtol: number;
-  /** Median ms recorded inside the catalogue sweep. */
+  /** Median ms recorded inside the catalogue sweep (median over the rounds). */
   inSweepMs: number | null;
-  /** Mean of the medians recorded by the lone sweeps before and after. */
+  /** Median of the medians recorded by the lone sweeps (before and after, every round). */
   aloneMs: number | null;
-  /** (before - after) / mean of the lone sweeps. */
+  /** (first - last) / mean of the first and last lone sweeps. */
   aloneSpread: number | null;
   /** inSweepMs / aloneMs. */
   ratio: number | null;
   withinTenPercent: boolean;
+  /** Every sweep's figure, ms, when the bench ran more than one round. */
+  inSweepRoundsMs?: number[];
+  aloneRoundsMs?: number[];
 }
 
 interface RunLine {
@@ -77,18 +81,39 @@ function sweepProblems(): string[] {
   return list ? ['-p', list] : [];
 }
 
-export function runIsolationBench(): IsolationRow[] {
-  const before = alone();
+/**
+ * Rounds (STEPGAUGE_BENCH_ISOLATION_ROUNDS, default 1): the lone sweeps, then the big sweep, per
+ * round, and the lone sweeps once more at the end; each side's figure is the median of its
+ * sweeps. On a busy machine more rounds put both sides in the same minutes.
+ */
+const ROUNDS = Math.max(1, Math.floor(Number(process.env.STEPGAUGE_BENCH_ISOLATION_ROUNDS ?? 1)) || 1);
+
+function median(xs: readonly number[]): number | null {
+  if (xs.length === 0) return null;
+  const s = [...xs].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+}
+
+export function runIsolationBench(rounds = ROUNDS): IsolationRow[] {
   // The catalogue's default tolerances are 1e-3..1e-10; the compared settings are added to them.
   const tolerances = [...new Set(['1e-3', '1e-4', '1e-5', '1e-6', '1e-7', '1e-8', '1e-9', '1e-10', ...ISOLATION_RUNS.map(([, , r]) => String(r))])];
-  const all = sweep([...sweepProblems(), '-t', tolerances.join(',')]);
-  const after = alone();
+  const lone: Map<string, number | null>[] = [];
+  const sweeps: RunLine[][] = [];
+  for (let round = 0; round < rounds; round++) {
+    lone.push(alone());
+    sweeps.push(sweep([...sweepProblems(), '-t', tolerances.join(',')]));
+  }
+  lone.push(alone());
+  const values = (xs: (number | null)[]) => xs.filter((x): x is number => x !== null);
   return ISOLATION_RUNS.map(([problem, method, rtol]) => {
     const key = `${problem}|${method}|${rtol}`;
-    const a = before.get(key) ?? null;
-    const b = after.get(key) ?? null;
-    const aloneMs = a !== null && b !== null ? (a + b) / 2 : (a ?? b);
-    const inSweepMs = msOf(all, problem, method, rtol);
+    const aloneAll = values(lone.map((m) => m.get(key) ?? null));
+    const a = lone[0]!.get(key) ?? null;
+    const b = lone[lone.length - 1]!.get(key) ?? null;
+    const aloneMs = median(aloneAll);
+    const inSweepAll = values(sweeps.map((all) => msOf(all, problem, method, rtol)));
+    const inSweepMs = median(inSweepAll);
     const ratio = inSweepMs !== null && aloneMs !== null ? inSweepMs / aloneMs : null;
     return {
       problem,
@@ -99,6 +124,7 @@ export function runIsolationBench(): IsolationRow[] {
       aloneSpread: a !== null && b !== null ? (a - b) / ((a + b) / 2) : null,
       ratio,
       withinTenPercent: ratio !== null && Math.abs(ratio - 1) <= 0.1,
+      ...(rounds > 1 ? { inSweepRoundsMs: inSweepAll, aloneRoundsMs: aloneAll } : {}),
     };
   });
 }
