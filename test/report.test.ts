@@ -35,6 +35,7 @@ describe('escaping', () => {
     expect(escapeHtml(`a"b'c&`)).toBe('a&quot;b&#39;c&amp;');
     expect(escapeMarkdown('a|b *c* [d](e)\nf')).toBe('a\\|b \\*c\\* \\[d\\](e) f');
     expect(escapeMarkdown(XSS)).toBe('&lt;script&gt;alert(1)&lt;/script&gt;');
+    expect(escapeMarkdown(`it's "quoted" & <b>`)).toBe(`it's "quoted" &amp; &lt;b&gt;`);
   });
 
   it('never lets data open a tag in report.html or report.md', async () => {
@@ -55,7 +56,8 @@ describe('escaping', () => {
     expect(md).not.toMatch(/<script|<img|<svg|<b>/i);
     expect(md).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
     // A pipe in a method name must not split a Markdown table cell.
-    expect(md).toContain('RK4 &lt;b&gt;&quot;bold&quot;&lt;/b&gt; \\| pipe');
+    // Quotes stay as typed in Markdown: without `<` no tag or attribute can open.
+    expect(md).toContain('RK4 &lt;b&gt;"bold"&lt;/b&gt; \\| pipe');
   });
 });
 

@@ -9,12 +9,14 @@ export function escapeHtml(s: string): string {
 }
 
 /**
- * Safe as Markdown inline text and inside a table cell: HTML-escaped (renderers pass raw HTML
- * through), emphasis, code, link brackets, strike and table pipes backslash-escaped (a link cannot
- * open without `[`), line breaks folded so a cell stays one row.
+ * Safe as Markdown inline text and inside a table cell: `&`, `<` and `>` HTML-escaped (renderers
+ * pass raw HTML through, and no tag can open without `<`; quotes stay readable in the raw file),
+ * emphasis, code, link brackets, strike and table pipes backslash-escaped (a link cannot open
+ * without `[`), line breaks folded so a cell stays one row.
  */
 export function escapeMarkdown(s: string): string {
-  return escapeHtml(String(s))
+  return String(s)
+    .replace(/[&<>]/g, (c) => HTML[c]!)
     .replace(/[\\`*_[\]|~]/g, (c) => `\\${c}`)
     .replace(/\r?\n|\r/g, ' ');
 }
