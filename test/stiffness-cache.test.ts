@@ -57,6 +57,14 @@ describe('cached stiffness ratios', () => {
     expect(readdirSync(dir).filter((f) => f.startsWith('stiffness-'))).toHaveLength(2);
   });
 
+  it('leaves dispersion samples out of the cache', () => {
+    const p = heatProblem(15);
+    const sample = { ...p, id: 'heat-2d-m15-s1', dispersion: { of: p.id, seed: 1, sample: 1, explicitCase: false, values: {} } };
+    expect(problemStiffnessRatio(sample)).toBe(problemStiffnessRatio(p));
+    // Only the plain problem's entry.
+    expect(readdirSync(dir).filter((f) => f.startsWith('stiffness-'))).toHaveLength(1);
+  });
+
   it('leaves small problems out of the cache', () => {
     const p = heatProblem(6);
     expect(p.dimension).toBeLessThan(STIFFNESS_CACHE_FROM);

@@ -1,6 +1,7 @@
 // The stiffness ratio of a problem along its reference trajectory: at the start and at every
 // time where the reference gives the state (check times for analytic references, the tabulated
-// points otherwise). Large problems keep the figure in stepgauge's cache (see STIFFNESS_CACHE_FROM).
+// points otherwise). Large problems keep the figure in stepgauge's cache (see STIFFNESS_CACHE_FROM),
+// except a dispersion's samples.
 import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Problem } from '../core/types.js';
@@ -48,7 +49,8 @@ export function problemStiffnessRatio(problem: Problem): number | null {
       return null;
     }
   };
-  if (problem.dimension < STIFFNESS_CACHE_FROM) return compute();
+  // A dispersion's samples stay out: one file each would grow the cache with the sample count.
+  if (problem.dimension < STIFFNESS_CACHE_FROM || problem.dispersion) return compute();
   // Keyed by everything the figure depends on: the definition (its sources' hashes included)
   // and the states the Jacobian is taken at (a certified reference's come from its own cache).
   const key = sha256Parts([String(RECIPE), '\n', problem.definition, '\n', JSON.stringify(times), '\n', ...states.map((s) => s.join(',') + '\n')]);
