@@ -3,7 +3,9 @@
 // q = cos(2 pi t), p = -2 pi sin(2 pi t), the published order of Dormand-Prince 5(4)'s continuous
 // extension (Shampine 1986, order 4, so an O(h^5) local interpolation error on top of the
 // method's O(h^5) global error: Hairer, Norsett and Wanner, Solving ODEs I, sec. II.6), and the
-// eclipse orbit's analytic shadow times (problems/eclipse-circular-orbit.ts).
+// eclipse orbit's analytic shadow times (problems/eclipse-circular-orbit.ts), located on
+// dormand-prince-54's, dormand-prince-853's and bogacki-shampine-32's own interpolants and on
+// stepgauge's Hermite for a method without one (fehlberg-45).
 import { describe, expect, it } from 'vitest';
 import { findProblem } from '../problems/index.js';
 import { findMethod } from '../src/methods/registry.js';
@@ -97,7 +99,7 @@ describe('error.dense', () => {
   });
 
   it('is absent for methods without their own interpolant, and written to results.csv and read back', () => {
-    const run = measureRun(oscillator, findMethod('dormand-prince-853')!, { rtol: 1e-6, atol: 1e-6 }, { maxSteps: 1e6 });
+    const run = measureRun(oscillator, findMethod('fehlberg-45')!, { rtol: 1e-6, atol: 1e-6 }, { maxSteps: 1e6 });
     expect(run.error.dense).toBeUndefined();
     expect(run.denseInterpolant).toBeUndefined();
     const own = measureRun(oscillator, dormandPrince54, { rtol: 1e-6, atol: 1e-6 }, { maxSteps: 1e6 });
@@ -169,6 +171,21 @@ describe('events on the method interpolant', () => {
     }
   });
 
+  it('dormand-prince-853 locates them on its 7th-order continuous extension (HNW I sec. II.6), its extra stages counted apart', () => {
+    const setting = { rtol: 1e-8, atol: 1e-8 };
+    const dop853 = findMethod('dormand-prince-853')!;
+    const run = measureRun(p, dop853, setting, { maxSteps: 1e6 });
+    expect(run.counts).toEqual(dop853.solve(p, setting, { maxSteps: 1e6 }).counts);
+    expect(run.eventEvaluations).toBe(0);
+    for (const name of ['eclipse-entry', 'eclipse-exit']) {
+      const e = run.events![name]!;
+      expect(e.locatedBy).toContain("dormand-prince-853's own continuous extension");
+      expect([e.missed, e.extra]).toEqual([0, 0]);
+      expect(e.maxTimeError!).toBeLessThan(2 * (run.orbitError!.max!.inTrack / speed) + 1e-7);
+      e.times.forEach((t, k) => expect(Math.abs(t - analytic[name]![k]!)).toBeLessThan(1e-3));
+    }
+  });
+
   it('bogacki-shampine-32 locates them on its cubic Hermite, evaluated at step ends far from t = 0 without a rounding complaint', () => {
     const run = measureRun(p, findMethod('bogacki-shampine-32')!, { rtol: 1e-8, atol: 1e-8 }, { maxSteps: 1e7 });
     expect(run.status).toBe('ok');
@@ -181,7 +198,7 @@ describe('events on the method interpolant', () => {
   });
 
   it('methods without one use the Hermite of the accepted steps, and its evaluations are counted apart (3 per step)', () => {
-    const run = measureRun(p, findMethod('dormand-prince-853')!, { rtol: 1e-8, atol: 1e-8 }, { maxSteps: 1e6 });
+    const run = measureRun(p, findMethod('fehlberg-45')!, { rtol: 1e-8, atol: 1e-8 }, { maxSteps: 1e6 });
     expect(run.events!['eclipse-entry']!.locatedBy).toContain('Hermite');
     expect(run.eventEvaluations).toBe(3 * (run.counts.accepted + 1));
   });
@@ -190,7 +207,7 @@ describe('events on the method interpolant', () => {
 describe('the report table', () => {
   it('shows error.dense and event timing where some run has them, and says which interpolant gave them', () => {
     const p = findProblem('eclipse-circular-orbit')!;
-    const runs = ['dormand-prince-54', 'dormand-prince-853'].map((id) => measureRun(p, findMethod(id)!, { rtol: 1e-8, atol: 1e-8 }, { maxSteps: 1e6 }));
+    const runs = ['dormand-prince-54', 'fehlberg-45'].map((id) => measureRun(p, findMethod(id)!, { rtol: 1e-8, atol: 1e-8 }, { maxSteps: 1e6 }));
     const columns = sectionColumns(runs, new Map());
     const headers = columns.map((c) => c.header);
     expect(headers).toContain('error.dense');
@@ -201,7 +218,7 @@ describe('the report table', () => {
     expect(rows[1]![headers.indexOf('error.dense')]!.text).toBe('—');
     const notes = interpolantNotes(runs);
     expect(notes.some((n) => n.startsWith('Event times of dormand-prince-54: located on dormand-prince-54') && n.includes('Shampine'))).toBe(true);
-    expect(notes.some((n) => n.startsWith('Event times of dormand-prince-853: located on') && n.includes('Hermite'))).toBe(true);
+    expect(notes.some((n) => n.startsWith('Event times of fehlberg-45: located on') && n.includes('Hermite'))).toBe(true);
     expect(notes.some((n) => n.startsWith('error.dense of dormand-prince-54:'))).toBe(true);
     // A problem without events and runs without an interpolant of their own: neither column.
     const plain = sectionColumns([measureRun(oscillator, findMethod('rk4')!, { steps: 200 }, { maxSteps: 1e6 })], new Map()).map((c) => c.header);

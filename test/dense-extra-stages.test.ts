@@ -1,9 +1,11 @@
-// Verner's interpolants with extra stages (verner-76, verner-87, verner-98: J. H. Verner, Numer.
-// Algorithms 53 (2010) 383-396, orders 7, 8 and 9 with 6, 8 and 10 extra stages), against outside checks:
-// the local solution of y' = y cos t through each step's start, y0 exp(sin t - sin t0) (exact by
-// substitution), whose interpolation error must fall like h^(q+1) for an interpolant of order q;
-// the harmonic oscillator's q = cos(2 pi t), p = -2 pi sin(2 pi t); and the work they cost,
-// counted apart from the steps' (which stay those of a plain solve).
+// Interpolants with extra stages, against outside checks: Verner's (verner-76, verner-87,
+// verner-98: J. H. Verner, Numer. Algorithms 53 (2010) 383-396, orders 7, 8 and 9 with 6, 8 and 10
+// extra stages) and DOP853's (dormand-prince-853: E. Hairer and G. Wanner's continuous extension,
+// HNW I sec. II.6, order 7 with 4 extra stages here); the local solution of y' = y cos t through
+// each step's start, y0 exp(sin t - sin t0) (exact by substitution), whose interpolation error must
+// fall like h^(q+1) for an interpolant of order q; the harmonic oscillator's q = cos(2 pi t),
+// p = -2 pi sin(2 pi t); and the work they cost, counted apart from the steps' (which stay those of
+// a plain solve).
 import { describe, expect, it } from 'vitest';
 import { findProblem } from '../problems/index.js';
 import { explicitTableaus, type DenseMethod } from '../src/methods/explicit/index.js';
@@ -40,7 +42,8 @@ describe.each(withExtraStages)('%s interpolant', (id, m, order, extra) => {
   it(`has a local error falling like h^${order + 1} between its steps (order ${order})`, () => {
     // Steps bounded to h0, h0/2, h0/4, larger for the higher order, so that every error stays
     // above the rounding floor the weight coefficients leave (1e-14 to 1e-13 here). Measured
-    // slopes: verner-76 8.01, 7.96; verner-87 8.70, 8.88; verner-98 10.30, 10.46 (theta 1/2).
+    // slopes: verner-76 8.01, 7.96; verner-87 8.70, 8.88; verner-98 10.30, 10.46;
+    // dormand-prince-853 8.10, 8.04 (theta 1/2).
     const h0 = order >= 8 ? 0.8 : 0.4;
     for (const theta of [0.5, 0.3]) {
       const e = [h0, h0 / 2, h0 / 4].map((h) => localError(m, h, theta));
@@ -58,6 +61,7 @@ describe.each(withExtraStages)('%s interpolant', (id, m, order, extra) => {
     // test/dense-accuracy.test.ts: the midpoint error is the global error of order p of the steps
     // plus the interpolant's local h^(q+1), q = p here. Measured slopes: verner-76 7.24, 7.09;
     // verner-87 7.91, 8.03; verner-98 10.07, 9.44 (its order-10 terms still count at these steps).
+    // dormand-prince-853 (p = 8, q = 7: both terms of order h^8) 7.97, 7.79.
     const hs = order >= 8 ? [0.2, 0.1, 0.05] : [0.1, 0.05, 0.025];
     const figures = hs.map((h) => {
       const watch = watchRun(oscillator, true);
@@ -118,7 +122,7 @@ describe.each(withExtraStages)('%s interpolant', (id, m, order, extra) => {
     const setting = { rtol: 1e-9, atol: 1e-9 };
     const run = measureRun(oscillator, m as never, setting, { maxSteps: 1e6 });
     expect(run.counts).toEqual(m.solve(oscillator, setting, { maxSteps: 1e6 }).counts);
-    expect(run.denseInterpolant).toContain("Verner's");
+    expect(run.denseInterpolant).toContain(`${id}'s own continuous extension`);
     // The oscillator's reference is exact, so every accepted step's midpoint is asked for.
     expect(run.denseEvaluations).toBe(extra * run.counts.accepted);
     // Interpolated values are about as good as the steps (the global error dominates).
@@ -135,7 +139,6 @@ describe.each(withExtraStages)('%s interpolant', (id, m, order, extra) => {
     const bad = JSON.parse(JSON.stringify(file));
     bad.runs[0].denseEvaluations = 1.5;
     expect(() => validateResults(bad, 'results.json')).toThrow(/runs\[0\]\.denseEvaluations/);
-    void id;
   });
 });
 

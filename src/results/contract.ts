@@ -116,9 +116,9 @@ export interface RunResult {
   eventEvaluations?: number;
   /**
    * Right-hand-side evaluations the method's own interpolant made for its extra stages (Verner's
-   * interpolants evaluate a few stages per step in which a value between steps is asked for: at
-   * output times, events, error.dense), not part of `counts`, which are the steps' work alone;
-   * present only for such interpolants.
+   * and DOP853's interpolants evaluate a few stages per step in which a value between steps is
+   * asked for: at output times, events, error.dense), not part of `counts`, which are the steps'
+   * work alone; present only for such interpolants.
    */
   denseEvaluations?: number;
   /** False when the method did not report its work (an external program): counts are not figures. */

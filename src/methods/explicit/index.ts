@@ -36,7 +36,7 @@ interface Meta {
   readonly notes?: string;
 }
 
-/** A Method that also offers a continuous extension (dormand-prince-54, bogacki-shampine-32, Verner's pairs). */
+/** A Method that also offers a continuous extension (dormand-prince-54, bogacki-shampine-32, dormand-prince-853, Verner's pairs). */
 export interface DenseMethod extends Method {
   readonly dense: DenseCapability;
 }

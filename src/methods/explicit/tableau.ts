@@ -116,9 +116,10 @@ export interface TableauMethod {
 
 /**
  * A continuous extension with extra stages (J. H. Verner's interpolants, Numer. Algorithms 53
- * (2010) 383-396): stages s+1 .. s+m at nodes c, with rows a over all earlier stages (the step's
- * s and the extra ones before it), and y(t + theta h) = y + h sum_i b_i(theta) k_i over all s+m
- * stages, where b_i(theta) = sum_k weights[i][k-1] theta^k ([] for a stage that does not enter).
+ * (2010) 383-396; DOP853's, HNW I sec. II.6, expanded into this form): stages s+1 .. s+m at
+ * nodes c, with rows a over all earlier stages (the step's s and the extra ones before it), and
+ * y(t + theta h) = y + h sum_i b_i(theta) k_i over all s+m stages, where
+ * b_i(theta) = sum_k weights[i][k-1] theta^k ([] for a stage that does not enter).
  */
 export interface ExtraStageInterpolant {
   readonly form: 'extra-stages';
