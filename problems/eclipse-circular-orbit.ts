@@ -97,7 +97,7 @@ function build(betaDeg: number, shadow: ProblemEvent['fn'], TIMES: { entry: numb
     checkTimes: Array.from({ length: 4 * ORBITS - 1 }, (_, k) => ((k + 1) * PERIOD) / 4),
     // 33 steps per orbit doubling: rk4 from visibly wrong to its asymptotic range (common practice, no source).
     defaultSteps: [100, 200, 400, 800, 1600, 3200, 6400, 12800],
-    separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
+    separable: { positions: [0, 1, 2], velocities: [3, 4, 5], secondOrder: true },
     orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' },
     events: EVENTS,
   }, { betaDeg });

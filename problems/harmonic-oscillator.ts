@@ -45,5 +45,5 @@ export const harmonicOscillator: Problem = catalogueProblem(import.meta.url, {
   checkTimes: CHECK_TIMES,
   // Equal steps from 200 doubling: reaches rk4's asymptotic range (common practice, no source).
   defaultSteps: [200, 400, 800, 1600, 3200, 6400, 12800, 25600],
-  separable: { positions: [0], velocities: [1] },
+  separable: { positions: [0], velocities: [1], secondOrder: true },
 });

@@ -49,5 +49,5 @@ export const keplerCircular: Problem = catalogueProblem(import.meta.url, {
   checkTimes: CHECK_TIMES,
   // Equal steps from 200 doubling: reaches rk4's asymptotic range (common practice, no source).
   defaultSteps: [200, 400, 800, 1600, 3200, 6400, 12800, 25600],
-  separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
+  separable: { positions: [0, 1, 2], velocities: [3, 4, 5], secondOrder: true },
 });

@@ -41,5 +41,5 @@ export const keplerEccentric: Problem = catalogueProblem(import.meta.url, {
   checkTimes: CHECK_TIMES,
   // Equal steps from 500 doubling: reaches rk4's asymptotic range (common practice, no source).
   defaultSteps: [500, 1000, 2000, 4000, 8000, 16000, 32000, 64000],
-  separable: { positions: [0, 1], velocities: [2, 3] },
+  separable: { positions: [0, 1], velocities: [2, 3], secondOrder: true },
 });

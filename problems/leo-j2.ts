@@ -119,6 +119,6 @@ export const leoJ2: Problem = catalogueProblem(import.meta.url, {
   // 720 steps a day (2 min) doubling to 92160 (under the default step limit): rk4 from hundreds of
   // kilometres off to its asymptotic range (common practice, no source).
   defaultSteps: [720, 1440, 2880, 5760, 11520, 23040, 46080, 92160],
-  separable: { positions: [0, 1, 2], velocities: [3, 4, 5] },
+  separable: { positions: [0, 1, 2], velocities: [3, 4, 5], secondOrder: true },
   orbit: { position: [0, 1, 2], velocity: [3, 4, 5], unit: 'm' },
 });

@@ -175,5 +175,5 @@ export const tetheredPair: Problem = catalogueProblem(import.meta.url, {
   checkTimes: [20, 40, 60, 80, 100],
   // From 2 s steps (one per tether oscillation, far too coarse) doubling to 1/64 s.
   defaultSteps: [60, 120, 240, 480, 960, 1920, 3840, 7680],
-  separable: { positions: [0, 1, 2, 3, 4, 5], velocities: [6, 7, 8, 9, 10, 11] },
+  separable: { positions: [0, 1, 2, 3, 4, 5], velocities: [6, 7, 8, 9, 10, 11], secondOrder: true },
 });

@@ -23,6 +23,7 @@ export function defineMethod(spec: MethodSpec): Method {
   if (typeof spec.adaptive !== 'boolean') bad('adaptive must be true or false');
   if (typeof spec.stiff !== 'boolean') bad('stiff must be true or false');
   if (spec.needsSeparable !== undefined && typeof spec.needsSeparable !== 'boolean') bad('needsSeparable must be true or false');
+  if (spec.needsSecondOrder !== undefined && typeof spec.needsSecondOrder !== 'boolean') bad('needsSecondOrder must be true or false');
   if (spec.embeddedOrder !== undefined && (!Number.isInteger(spec.embeddedOrder) || spec.embeddedOrder < 1)) bad('embeddedOrder must be a positive integer');
   if (spec.stepGrowth !== undefined && !(Number.isFinite(spec.stepGrowth) && spec.stepGrowth > 0 && spec.stepGrowth <= 1)) {
     bad(`stepGrowth must be a number in (0, 1] (steps grow like rtol^-stepGrowth), got ${JSON.stringify(spec.stepGrowth)}`);
@@ -39,6 +40,7 @@ export function defineMethod(spec: MethodSpec): Method {
     adaptive: spec.adaptive,
     stiff: spec.stiff,
     ...(spec.needsSeparable !== undefined ? { needsSeparable: spec.needsSeparable } : {}),
+    ...(spec.needsSecondOrder !== undefined ? { needsSecondOrder: spec.needsSecondOrder } : {}),
     ...(spec.embeddedOrder !== undefined ? { embeddedOrder: spec.embeddedOrder } : {}),
     ...(spec.stepGrowth !== undefined ? { stepGrowth: spec.stepGrowth } : {}),
     ...(spec.notes !== undefined ? { notes: spec.notes } : {}),

@@ -116,6 +116,11 @@ export function defineProblem(spec: ProblemSpec): Problem {
     if (new Set(all).size !== n || all.some((i) => !Number.isInteger(i) || i < 0 || i >= n)) {
       bad(spec, `separable must split the indices 0..${n - 1} into positions and velocities, each once`);
     }
+    const second = spec.separable.secondOrder;
+    if (second !== undefined && typeof second !== 'boolean') bad(spec, 'separable.secondOrder must be true or false');
+    if (second && spec.separable.positions.length !== spec.separable.velocities.length) {
+      bad(spec, 'separable.secondOrder pairs positions[k] with velocities[k] (q\' = v): the two lists need the same length');
+    }
   }
   if (spec.orbit) {
     const o = spec.orbit;

@@ -124,6 +124,11 @@ export interface SeparableSplit {
   readonly positions: readonly number[];
   /** Indices of velocity-like states, whose derivatives depend only on `positions` and t. */
   readonly velocities: readonly number[];
+  /**
+   * Each positions[k]' is exactly velocities[k] (q' = v, so q'' = v'(t, q)): the second-order form
+   * Runge-Kutta-Nystrom methods step. The lists are paired in order and of equal length.
+   */
+  readonly secondOrder?: boolean;
 }
 
 /** Output map y = g(t, x) (like y = Cx + Du): written into out (length names.length), never allocates. */
@@ -338,6 +343,8 @@ export interface Method {
   readonly stiff: boolean;
   /** Set for methods that need the problem's separable split (symplectic). */
   readonly needsSeparable?: boolean;
+  /** Set for methods that need a separable split in second-order form, q' = v (Runge-Kutta-Nystrom). */
+  readonly needsSecondOrder?: boolean;
   /** Set for methods that need a linear problem x' = A x + B u (exact discretisations). */
   readonly needsLinear?: boolean;
   /** Order of the embedded error estimate, for adaptive pairs. */

@@ -175,7 +175,7 @@ export function chooseOverSamples(of: string, samples: readonly Problem[], metho
   if (refused) return { of, samples: samples.length, target: o.target, measure: o.measure, quantile: o.quantile, candidates, recommended: null, refused };
   for (const m of methods) {
     const gap = pairingGap(samples[0]!, m);
-    if (gap && (m.needsSeparable || m.needsLinear || samples[0]!.stiff)) {
+    if (gap && (m.needsSeparable || m.needsSecondOrder || m.needsLinear || samples[0]!.stiff)) {
       candidates.push({ method: m.id, met: false, setting: null, quantileError: null, worstError: null, worstSample: null, failing: [], meanNfev: null, trials: 0, note: gap });
       continue;
     }

@@ -233,7 +233,7 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
   }
   for (const m of methods) {
     const gap = pairingGap(problem, m);
-    if (gap && (m.needsSeparable || m.needsLinear || problem.stiff)) {
+    if (gap && (m.needsSeparable || m.needsSecondOrder || m.needsLinear || problem.stiff)) {
       candidates.push({ method: m.id, family: m.family, met: false, run: null, achieved: null, margin: null, cost: null, trials: 0, note: gap, tried: [] });
       continue;
     }

@@ -94,6 +94,10 @@ export function pairingGap(problem: PlanProblem, method: Method): string | null 
     const why = problem.separableReason;
     return `${method.id} needs a separable problem (positions driven only by velocities, velocities only by positions and t)${why ? `: ${why}` : ''}`;
   }
+  if (method.needsSecondOrder && !problem.separable?.secondOrder) {
+    const why = problem.separable ? 'its split does not say that each position\'s rate is its velocity' : problem.separableReason;
+    return `${method.id} needs a second-order problem (positions' rates are the velocities, q' = v, and the accelerations depend only on positions and t)${why ? `: ${why}` : ''}`;
+  }
   if (method.needsLinear && !problem.linear) return `${method.id} needs a linear problem x' = A x + B u (a linear model file or a catalogue linear problem)`;
   if (problem.stiff && !method.stiff) return `${problem.id} is stiff and ${method.id} is not meant for stiff problems`;
   return null;
@@ -128,7 +132,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
       const gap = pairingGap(problem, method);
       // A named explicit method still runs on a stiff problem (its step limit is the result),
       // but a symplectic method cannot run at all without a separable split.
-      const hardGap = (method.needsSeparable && !problem.separable) || (method.needsLinear && !problem.linear) || (problem.modelOnlyInPrograms === true && !method.program);
+      const hardGap = (method.needsSeparable && !problem.separable) || (method.needsSecondOrder === true && !problem.separable?.secondOrder) || (method.needsLinear && !problem.linear) || (problem.modelOnlyInPrograms === true && !method.program);
       if (gap && (hardGap || !req.methodsNamed)) {
         skipped.push({ problem: problem.id, method: method.id, reason: gap });
         continue;

@@ -64,9 +64,24 @@ export function solveEmbedded(
   return withLease(tab, n, (lease) => stepAdaptively(lease, tab, problem, options, onAccept, step, rtol, atol, stops));
 }
 
+/**
+ * What the adaptive loop needs to know of a pair whose step comes from elsewhere (the
+ * Runge-Kutta-Nystrom pairs): its stage count, FSAL, orders. The object also keys the work buffers.
+ */
+export type StepShape = Pick<Tableau, 'stages' | 'fsal' | 'order' | 'controlOrder'>;
+
+/** The adaptive loop of solveEmbedded around a step function the caller made for this problem. */
+export function solveWithStep(shape: StepShape, methodId: string, problem: Problem, setting: Setting, options: SolveOptions, step: StageKernel): SolveResult {
+  checkProblem(problem, methodId);
+  checkOptions(options, methodId);
+  const { rtol, atol } = adaptiveTolerances(setting, problem.dimension, methodId, { rtolMayBeZero: true });
+  const stops = stopTimes(options.checkTimes, problem.t0, problem.tEnd, methodId);
+  return withLease(shape, problem.dimension, (lease) => stepAdaptively(lease, shape, problem, options, undefined, step, rtol, atol, stops));
+}
+
 function stepAdaptively(
   lease: WorkLease,
-  tab: Tableau,
+  tab: StepShape,
   problem: Problem,
   options: SolveOptions,
   onAccept: AcceptHook | undefined,

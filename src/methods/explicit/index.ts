@@ -13,6 +13,7 @@ import { compileTableau, type KernelFactory, type Tableau, type TableauData, typ
 import { fixedStepKernel, unrolledKernel, type FixedKernelFactory } from './kernels/unrolled.js';
 import * as registry from './tableaus/index.js';
 import * as compositionRegistry from './compositions/index.js';
+import { nystromMethods } from './nystrom/index.js';
 
 export { dormandPrince54Dense, type DenseCapability, type DenseEvaluate, type DenseSolveResult } from './dense-dp54.js';
 export { compileTableau, isFsal, type ExtraStageInterpolant, type KernelFactory, type StageKernel, type Tableau, type TableauData, type TableauMethod } from './tableau.js';
@@ -118,5 +119,5 @@ export const symplecticCompositions: readonly CompositionMethod[] = Object.value
   (x, y) => x.order - y.order || byId(x, y),
 );
 
-/** Fixed-step, embedded explicit and symplectic methods. */
-export const explicitMethods: Method[] = [...rungeKuttaMethods, ...symplecticCompositions.map(symplecticMethod)];
+/** Fixed-step, embedded explicit (Runge-Kutta and Runge-Kutta-Nystrom) and symplectic methods. */
+export const explicitMethods: Method[] = [...rungeKuttaMethods, ...nystromMethods, ...symplecticCompositions.map(symplecticMethod)];

@@ -193,7 +193,7 @@ function localsOf(body: readonly string[], n: number): string[] {
  * own. Calls are spread evenly over the pieces; statements and their order are unchanged, so the
  * bits are too.
  */
-function piecesSource(
+export function piecesSource(
   name: string,
   params: string,
   head: readonly string[],
