@@ -147,7 +147,8 @@ describe('compiled right-hand side', () => {
 describe('separable split', () => {
   test('crane: theta is the position, omega the velocity', async () => {
     const p = await loadProblemFile('examples/crane-payload-swing.yaml');
-    expect(p.separable).toEqual({ positions: [0], velocities: [1] });
+    // theta' = omega: the second-order form Runge-Kutta-Nystrom methods need, found from the text.
+    expect(p.separable).toEqual({ positions: [0], velocities: [1], secondOrder: true });
     expect(p.separableReason).toBeUndefined();
   });
   test('damped model: refused with the equation that breaks it', async () => {
@@ -167,7 +168,19 @@ describe('separable split', () => {
     const path = join(dir, 'forced.yaml');
     writeFileSync(path, 'id: forced\ntitle: Forced\nstates: [v, x]\nequations: { v: -x + cos(t), x: v }\ninitial: { x: 1, v: 0 }\nspan: [0, 1]\n');
     const p = await loadProblemFile(path);
-    expect(p.separable).toEqual({ positions: [1], velocities: [0] });
+    expect(p.separable).toEqual({ positions: [1], velocities: [0], secondOrder: true });
+  });
+  test('second-order form: velocities are paired with the positions whose rates they are', async () => {
+    const path = join(dir, 'pairs.yaml');
+    writeFileSync(path, 'id: pairs\ntitle: Pairs\nstates: [x, y, vy, vx]\nequations: { x: (vx), y: vy, vx: -x, vy: -y }\ninitial: { x: 1, y: 0, vx: 0, vy: 1 }\nspan: [0, 1]\n');
+    const p = await loadProblemFile(path);
+    expect(p.separable).toEqual({ positions: [0, 1], velocities: [3, 2], secondOrder: true });
+  });
+  test('a position whose rate is not just a velocity: separable, not second-order', async () => {
+    const path = join(dir, 'scaled.yaml');
+    writeFileSync(path, 'id: scaled\ntitle: Scaled\nstates: [x, v]\nequations: { x: 2 * v, v: -x }\ninitial: { x: 1, v: 0 }\nspan: [0, 1]\n');
+    const p = await loadProblemFile(path);
+    expect(p.separable).toEqual({ positions: [0], velocities: [1] });
   });
 });
 

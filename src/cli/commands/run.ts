@@ -128,7 +128,7 @@ async function sweepAndPrint(
         // Pairs the user asked for by name deserve a reason; default pairings left out are expected.
         if (req.method !== undefined) for (const s of plan.skipped) log(`skipped ${s.problem} x ${s.method}: ${s.reason}`);
         else if (plan.skipped.length > 0 && !flags.quiet) {
-          log(`${plan.skipped.length} default pairings left out (stiff problems take stiff methods; symplectic methods need a separable problem); see "skipped" in results.json`);
+          log(`${plan.skipped.length} default pairings left out (stiff problems take stiff methods; symplectic methods need a separable problem, Runge-Kutta-Nystrom methods one in second-order form); see "skipped" in results.json`);
         }
         if (selected.length === 0) throw new InputError('the selection pairs no method with any problem', req.method ? '--method' : '--problem');
         progress = progressLine(selected.length, Boolean(flags.quiet || flags.json));

@@ -23,7 +23,7 @@ import { isolateTableCalls, type FileTables } from '../tables/file-tables.js';
 import { detectedBand } from './band.js';
 import { detectedPattern } from './pattern.js';
 import { checkName, makeScope, MAX_FILE_STATES } from './names.js';
-import { checkSeparableSplit, findSeparableSplit, type Dependencies } from './separable.js';
+import { checkSeparableSplit, findSeparableSplit, secondOrderForm, type Dependencies } from './separable.js';
 
 type Expr = string | number;
 
@@ -127,7 +127,10 @@ export function buildEquationProblem(site: StructuredFile, given: EquationFile, 
     deps: reach.map((r) => new Set(reachedStates(r))),
     usesTime: reach.map((r) => r.usesTime),
   };
-  const { separable, separableReason } = separability(site, spec, dependencies);
+  const found = separability(site, spec, dependencies);
+  const bareState = equations.map((e) => bareStateOf(e.node, states));
+  const separable = found.separable ? secondOrderForm(found.separable, bareState) : undefined;
+  const separableReason = found.separableReason;
   const jacobianBand = detectedBand(dependencies.deps);
   const jacobianPattern = detectedPattern(dependencies.deps);
 
@@ -182,6 +185,15 @@ function readOrbit(site: StructuredFile, o: NonNullable<EquationFile['orbit']>, 
   const velocity = [0, 1, 2].map((k) => index('velocity', k)) as [number, number, number];
   if (new Set([...position, ...velocity]).size !== 6) fail(site, ['orbit'], 'position and velocity need six different states');
   return { position, velocity, unit: o.unit };
+}
+
+/** The state an equation's text names alone (`vx`, `(vx)`), or null. */
+function bareStateOf(node: unknown, states: readonly string[]): number | null {
+  let n = node as { type?: string; name?: string; content?: unknown };
+  while (n.type === 'ParenthesisNode') n = n.content as typeof n;
+  if (n.type !== 'SymbolNode' || typeof n.name !== 'string') return null;
+  const i = states.indexOf(n.name);
+  return i >= 0 ? i : null;
 }
 
 function separability(site: StructuredFile, spec: EquationFile, d: Dependencies): { separable?: SeparableSplit; separableReason?: string } {

@@ -101,3 +101,15 @@ export function checkSeparableSplit(d: Dependencies, split: SeparableSplit): str
   }
   return undefined;
 }
+
+/**
+ * The split in second-order form when every position's equation is just one velocity's name
+ * (q' = v, each velocity once): velocities re-ordered to pair with positions, secondOrder set.
+ * Otherwise the split as it was. `bareState[i]` is the state equation i names alone, or null.
+ */
+export function secondOrderForm(split: SeparableSplit, bareState: readonly (number | null)[]): SeparableSplit {
+  const paired = split.positions.map((p) => bareState[p] ?? null);
+  const velocities = new Set(split.velocities);
+  const complete = paired.length === split.velocities.length && paired.every((v) => v !== null && velocities.has(v)) && new Set(paired).size === paired.length;
+  return complete ? { positions: split.positions, velocities: paired as number[], secondOrder: true } : split;
+}
