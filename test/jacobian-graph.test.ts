@@ -90,7 +90,7 @@ describe('Jacobian through definitions as a graph', () => {
       'equations: { x: vx, y: vy, vx: ax, vy: ay }', 'initial: { x: 1, y: 0, vx: 0, vy: 1 }', 'span: [0, 1]',
     ].join('\n'));
     const p = await loadProblemFile(path);
-    expect(p.separable).toEqual({ positions: [0, 1], velocities: [2, 3] });
+    expect(p.separable).toEqual({ positions: [0, 1], velocities: [2, 3], secondOrder: true });
     const jac = new Float64Array(16);
     const state = Float64Array.of(0.8, 0.5, 0.1, -0.2);
     p.jacobian!(0, state, jac);

@@ -8,7 +8,7 @@ export function makeProblem(p: {
   tEnd: number;
   f: Rhs;
   exact?: (t: number, out: Float64Array) => void;
-  separable?: { positions: number[]; velocities: number[] };
+  separable?: { positions: number[]; velocities: number[]; secondOrder?: boolean };
 }): Problem {
   const base = {
     id: p.id,
@@ -45,7 +45,7 @@ export function oscillator(tEnd = 20): Problem {
       out[0] = Math.cos(W * t);
       out[1] = -W * Math.sin(W * t);
     },
-    separable: { positions: [0], velocities: [1] },
+    separable: { positions: [0], velocities: [1], secondOrder: true },
   });
 }
 
@@ -84,7 +84,7 @@ export function kepler(e: number, tEnd: number): Problem {
       dy[2] = -x / r3;
       dy[3] = -z / r3;
     },
-    separable: { positions: [0, 1], velocities: [2, 3] },
+    separable: { positions: [0, 1], velocities: [2, 3], secondOrder: true },
   });
 }
 

@@ -22,7 +22,7 @@ const OPTS = { maxSteps: 1_000_000 };
 
 /** y'' = 6 y^2, y(0) = 1, y'(0) = -2: y = 1/(1 + t)^2 (substitution; derivation by hand). */
 function inverseSquare(tEnd: number): Problem {
-  const p = makeProblem({
+  return makeProblem({
     id: 'inverse-square',
     y0: [1, -2],
     tEnd,
@@ -34,9 +34,8 @@ function inverseSquare(tEnd: number): Problem {
       out[0] = 1 / (1 + t) ** 2;
       out[1] = -2 / (1 + t) ** 3;
     },
-    separable: { positions: [0], velocities: [1] },
+    separable: { positions: [0], velocities: [1], secondOrder: true },
   });
-  return { ...p, separable: { positions: [0], velocities: [1], secondOrder: true } };
 }
 
 function maxError(p: Problem, y: Float64Array): number {
@@ -62,8 +61,10 @@ describe.each(PAIRS.map((p) => [p.id, p] as const))('%s', (id, pair) => {
     // HNW I, sec. II.14), so each step's velocity error is the same constant and the global one
     // is C h^p (the quadrature argument of the Runge-Kutta pairs' test, derivation by hand).
     const p = pair.order;
-    const problem = makeProblem({ id: 'power', y0: [0, 0], tEnd: 1, f: (t, y, dy) => void ((dy[0] = y[1]!), (dy[1] = (p + 1) * t ** p)) });
-    const form = { ...problem, separable: { positions: [0], velocities: [1], secondOrder: true } };
+    const form = makeProblem({
+      id: 'power', y0: [0, 0], tEnd: 1, f: (t, y, dy) => void ((dy[0] = y[1]!), (dy[1] = (p + 1) * t ** p)),
+      separable: { positions: [0], velocities: [1], secondOrder: true },
+    });
     const at = (steps: number) => {
       // Equal steps through the adaptive loop: a tolerance no step can fail, and the step capped.
       const h = 1 / steps;
@@ -116,6 +117,21 @@ describe.each(PAIRS.map((p) => [p.id, p] as const))('%s', (id, pair) => {
     const perAttempt = s - 1;
     const extra = nystromFsal(pair) ? 0 : r.counts.accepted - 1;
     expect(r.counts.nfev).toBe(2 + perAttempt * attempts + extra);
+  });
+
+  it('an acceleration that turns NaN gives status diverged, stopping near t = 0.5, state finite', () => {
+    const p = makeProblem({
+      id: 'nan-after-half',
+      y0: [1, 0],
+      tEnd: 1,
+      f: (t, y, dy) => void ((dy[0] = y[1]!), (dy[1] = t > 0.5 ? NaN : -y[0]!)),
+      separable: { positions: [0], velocities: [1], secondOrder: true },
+    });
+    const r = method.solve(p, { rtol: 1e-6, atol: 1e-6 }, OPTS);
+    expect(r.status).toBe('diverged');
+    expect(r.tFinal).toBeGreaterThan(0.49);
+    expect(r.tFinal).toBeLessThanOrEqual(0.5);
+    expect(Array.from(r.yFinal).every(Number.isFinite)).toBe(true);
   });
 
   it('written out and looped give the same steps and the same bits', () => {
