@@ -20,6 +20,7 @@ export const ISOLATION_RUNS: readonly [string, string, number][] = [
   ['kepler-eccentric', 'dormand-prince-853', 1e-10],
   ['kepler-eccentric', 'dormand-prince-54', 1e-8],
   ['kepler-eccentric', 'verner-87', 1e-10],
+  ['kepler-eccentric', 'dormand-el-mikkawy-prince-rkn1210', 1e-10],
   ['robertson', 'hairer-wanner-rodas4', 1e-7],
   ['robertson', 'radau-iia-5', 1e-7],
 ];

@@ -97,7 +97,14 @@ describe('exact reference from input generators', () => {
     const dy = new Float64Array(2);
     p.f(0.5, Float64Array.of(1, 2), dy);
     expect(Array.from(dy)).toEqual([2, -1 + Math.sin(0.5) ** 2]);
-    expect(p.separable).toEqual({ positions: [0], velocities: [1] });
+    // x' = v (A's first row is a single 1, no input): the second-order form the Nystrom pairs need.
+    expect(p.separable).toEqual({ positions: [0], velocities: [1], secondOrder: true });
+  });
+  test('a position row scaled or driven by an input is separable but not second-order', async () => {
+    const scaled = await loadProblemFile(write('scaled.yaml', [...BASE, 'linear: { A: [[0, 2], [-1, 0]], B: [[0], [1]] }', 'inputs: [ "sin(t)^2" ]']));
+    expect(scaled.separable).toEqual({ positions: [0], velocities: [1] });
+    const driven = await loadProblemFile(write('driven.yaml', [...BASE, 'linear: { A: [[0, 1], [-1, 0]], B: [[1], [1]] }', 'inputs: [ "1" ]']));
+    expect(driven.separable?.secondOrder).toBeUndefined();
   });
 });
 

@@ -11,7 +11,7 @@ import { readCheckTimes, readErrorScale, readReferencePoints, readSpan } from '.
 import { compileScalarFunction } from '../equations/codegen.js';
 import { constantValue, emitField, evaluateParameters } from '../equations/constants.js';
 import { checkName, makeScope, MAX_FILE_STATES } from '../equations/names.js';
-import { findSeparableSplit } from '../equations/separable.js';
+import { findSeparableSplit, secondOrderForm } from '../equations/separable.js';
 import type { UserProblem } from '../user-problem.js';
 import { augmentedSystem, exactSolution, EXPM_FLOOR } from './exact.js';
 import { expectShape, readMatrix, type Matrix } from './matrix.js';
@@ -90,6 +90,12 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
   const deps = Array.from({ length: n }, (_, i) => new Set(states.flatMap((_, j) => (a[i * n + j] !== 0 ? [j] : []))));
   const usesTime = Array.from({ length: n }, (_, i) => inputs.some((s, c) => !s.constant && b[i * m + c] !== 0));
   const split = findSeparableSplit({ names: states, deps, usesTime });
+  // A row x_i' = x_j (a single 1 in A, nothing from the inputs) is a position whose rate is a velocity.
+  const bareState = Array.from({ length: n }, (_, i): number | null => {
+    const cols = states.flatMap((_, j) => (a[i * n + j] !== 0 ? [j] : []));
+    const fromInputs = inputs.some((_, c) => b[i * m + c] !== 0);
+    return cols.length === 1 && a[i * n + cols[0]!] === 1 && !fromInputs ? cols[0]! : null;
+  });
 
   let reference: Reference;
   if (inputs.every((s) => s.generator)) {
@@ -151,7 +157,7 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
     reference,
     checkTimes,
     ...(spec.landOnCheckTimes ? { landOnCheckTimes: true } : {}),
-    ...('split' in split ? { separable: split.split } : { separableReason: split.reason }),
+    ...('split' in split ? { separable: secondOrderForm(split.split, bareState) } : { separableReason: split.reason }),
     ...(spec.atolScale !== undefined ? { atolScale: spec.atolScale } : {}),
     ...(spec.units ? { units: readUnits(site, spec.units, states, outputs?.names ?? []) } : {}),
     definition: canonicalJson(canonical),
