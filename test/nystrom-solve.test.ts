@@ -195,3 +195,18 @@ describe('a pair with a row longer than its stage is refused', () => {
     expect(() => nystromMethod(bad)).toThrow(/row 0 of a has 1 entries/);
   });
 });
+
+describe('stepgauge list', () => {
+  it('names the second-order requirement and keeps the columns aligned for long ids', async () => {
+    const { runCli } = await import('./helpers/cli.js');
+    const r = await runCli(['list']);
+    expect(r.code).toBe(0);
+    const lines = r.stdout.split('\n');
+    const rkn = lines.find((l) => l.trim().startsWith('dormand-el-mikkawy-prince-rkn1210'))!;
+    expect(rkn).toMatch(/embedded-explicit\s+order 12\s+Dormand-El-Mikkawy-Prince RKN 12\(10\); second-order problems only \(q' = v\)/);
+    const verlet = lines.find((l) => l.trim().startsWith('stormer-verlet '))!;
+    expect(verlet).toMatch(/separable problems only/);
+    // The family column starts at the same place on every method line.
+    expect(rkn.indexOf('embedded-explicit')).toBe(lines.find((l) => l.trim().startsWith('verner-87 '))!.indexOf('embedded-explicit'));
+  });
+});
