@@ -1,6 +1,9 @@
 // brusselator-1d (Hairer and Wanner II, sec. IV.10): the right-hand side against the Brusselator's
 // fixed point, and the certified reference (radau-iia-5 and bdf-variable at 1e-12) against a
-// third method that took no part in certifying it.
+// third method that took no part in certifying it. The equations and data (A = 1, B = 3,
+// alpha = 1/50, u = 1 and v = 3 at both ends, u(x, 0) = 1 + sin(2 pi x), v(x, 0) = 3) are written
+// in the problem from memory of that section; a public method-of-lines example collection (the
+// MatMol group's Brusselator example, 2016) states the same problem with the same values.
 import { describe, expect, it } from 'vitest';
 import { findMethod } from '../src/methods/registry.js';
 import { findProblem } from '../problems/index.js';
