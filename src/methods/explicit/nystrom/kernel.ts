@@ -53,10 +53,9 @@ function combination(w: readonly number[], x: PairNames): string | null {
   return terms.length > 0 ? terms.join(' + ') : null;
 }
 
-// The stage sum is added last, scaled by h^2 once: the drift q + c h v does not wait for the
-// latest stage, so only the sum, one product and one addition lie between a stage and the next
-// call (each step's stages depend on the one before; that chain is what the step costs).
-// The newest stage's term is added last of all, with h^2 a_i(i-1) taken as one factor.
+// Each stage waits for the one before, and that chain is what a step costs: q + c h v + h^2
+// (older terms) is formed first, so only one product (h^2 a_i,i-1 as one factor) and one
+// addition lie between the newest stage and the next call (bench/README, fifth pass).
 function stagePosition(p: NystromPair, i: number, x: PairNames): string {
   const row = p.a[i]!;
   const newest = row.length === i ? row[i - 1]! : 0;
