@@ -1,6 +1,6 @@
 // Legibility of every plot of a catalogue sweep: each drawn series has its legend entry, every
 // entry lies inside the picture and outside the data area (so it is neither cut off nor drawn over
-// data), panels hold at most MAX_SERIES methods, and each method keeps one colour and marker in
+// data) and below the title, panels hold at most MAX_SERIES methods, and each method keeps one colour and marker in
 // every plot. Checked on chart.js's own layout boxes (render.ts, plotLayout).
 import { describe, expect, it } from 'vitest';
 import { plotContext } from '../src/report/plots/context.js';
@@ -32,6 +32,8 @@ describe('plots of the catalogue sweep', () => {
         expect(box.top + box.height, `${spec.file}: ${box.text}`).toBeLessThanOrEqual(layout.height);
         const overlaps = box.left < a.right && box.left + box.width > a.left && box.top < a.bottom && box.top + box.height > a.top;
         expect(overlaps, `${spec.file}: legend entry ${box.text} over the data area`).toBe(false);
+        // Below the title, which wraps onto a second line on long problem titles.
+        expect(box.top, `${spec.file}: legend entry ${box.text} over the title`).toBeGreaterThanOrEqual(layout.titleBottom);
       }
       for (const s of spec.series) {
         if (!s.method) continue;

@@ -166,6 +166,8 @@ export function chartConfig(spec: PlotSpec): ChartConfiguration<'scatter'> {
         legend: {
           display: true,
           position: 'right',
+          // Beside the data area only: a full-height legend shared the top rows with a wrapped title.
+          fullSize: false,
           align: 'start',
           maxWidth: LEGEND_MAX_WIDTH,
           labels: { color: TEXT, font: { family, size: 12 }, usePointStyle: true, boxHeight: 8, boxWidth: 26, padding: 10 },
@@ -206,6 +208,8 @@ export interface PlotLayout {
   chartArea: { left: number; top: number; right: number; bottom: number };
   datasets: string[];
   legend: { text: string; left: number; top: number; width: number; height: number }[];
+  /** Bottom edge of the title block (0 without a title). */
+  titleBottom: number;
 }
 
 export function plotLayout(spec: PlotSpec): PlotLayout {
@@ -222,6 +226,7 @@ export function plotLayout(spec: PlotSpec): PlotLayout {
       chartArea: { left: a.left, top: a.top, right: a.right, bottom: a.bottom },
       datasets: spec.series.map((s) => s.label),
       legend: items.map((it, i) => ({ text: it.text, ...(boxes[i] ?? { left: NaN, top: NaN, width: NaN, height: NaN }) })),
+      titleBottom: (chart as unknown as { titleBlock?: { bottom: number } }).titleBlock?.bottom ?? 0,
     };
   } finally {
     chart.destroy();
