@@ -143,7 +143,7 @@ describe.each(PAIRS.map((p) => [p.id, p] as const))('%s', (id, pair) => {
       const shape = { stages: pair.c.length, fsal: nystromFsal(pair), order: pair.order, controlOrder: pair.embeddedOrder };
       const setting = { rtol: 1e-9, atol: 1e-9 };
       const a = method.solve(p, setting, OPTS);
-      const b = solveWithStep(shape, id, p, setting, OPTS, looped);
+      const b = solveWithStep(shape, id, p, setting, OPTS, () => looped);
       expect(b.counts).toEqual(a.counts);
       expect(Array.from(b.yFinal)).toEqual(Array.from(a.yFinal));
     }

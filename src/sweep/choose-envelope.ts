@@ -13,7 +13,7 @@ import type { RunResult } from '../results/contract.js';
 import { measureRun, type RunOptions } from '../measure/run-one.js';
 import { absoluteTolerance } from '../core/tolerance.js';
 import { quantileOf } from '../core/quantile.js';
-import { pairingGap } from './plan.js';
+import { pairingGap, structuralGap } from './plan.js';
 import { MAX_STEPS, MIN_STEPS, RTOL_GRID } from './choose.js';
 
 /** `choose`'s decade grid and step range, with fewer bisections: each trial costs every sample. */
@@ -175,7 +175,7 @@ export function chooseOverSamples(of: string, samples: readonly Problem[], metho
   if (refused) return { of, samples: samples.length, target: o.target, measure: o.measure, quantile: o.quantile, candidates, recommended: null, refused };
   for (const m of methods) {
     const gap = pairingGap(samples[0]!, m);
-    if (gap && (m.needsSeparable || m.needsSecondOrder || m.needsLinear || samples[0]!.stiff)) {
+    if (gap && (structuralGap(samples[0]!, m) || samples[0]!.stiff)) {
       candidates.push({ method: m.id, met: false, setting: null, quantileError: null, worstError: null, worstSample: null, failing: [], meanNfev: null, trials: 0, note: gap });
       continue;
     }

@@ -7,7 +7,7 @@ import type { Candidate, Choice, ChooseOptions, ErrorMeasure, TrialPoint } from 
 import type { FixedCandidate } from './fixed-rates.js';
 import { measureRun } from '../measure/run-one.js';
 import { timeRecord, timeRun } from '../measure/timing.js';
-import { pairingGap } from './plan.js';
+import { pairingGap, structuralGap } from './plan.js';
 import { absoluteTolerance } from '../core/tolerance.js';
 import { InputError } from '../core/errors.js';
 import { measureGap, measureOf } from '../measure/run-measures.js';
@@ -233,7 +233,7 @@ export async function chooseMethod(problem: Problem, methods: readonly Method[],
   }
   for (const m of methods) {
     const gap = pairingGap(problem, m);
-    if (gap && (m.needsSeparable || m.needsSecondOrder || m.needsLinear || problem.stiff)) {
+    if (gap && (structuralGap(problem, m) || problem.stiff)) {
       candidates.push({ method: m.id, family: m.family, met: false, run: null, achieved: null, margin: null, cost: null, trials: 0, note: gap, tried: [] });
       continue;
     }

@@ -87,6 +87,19 @@ export function decades(loose: number, tight: number): number[] {
   return out;
 }
 
+/**
+ * The method cannot run on the problem at all (a structure it needs is missing), as opposed to
+ * a pairing that is only left out by default (a non-stiff method on a stiff problem).
+ */
+export function structuralGap(problem: PlanProblem, method: Method): boolean {
+  return (
+    (method.needsSeparable === true && !problem.separable) ||
+    (method.needsSecondOrder === true && !problem.separable?.secondOrder) ||
+    (method.needsLinear === true && !problem.linear) ||
+    (problem.modelOnlyInPrograms === true && !method.program)
+  );
+}
+
 /** Why a method does not pair with a problem by default (null when it does). */
 export function pairingGap(problem: PlanProblem, method: Method): string | null {
   if (problem.modelOnlyInPrograms && !method.program) return `${problem.id} has no equations (its model lives only in the user's program): only external programs can run it`;
@@ -132,8 +145,7 @@ export function planSweep(req: PlanRequest): SweepPlan {
       const gap = pairingGap(problem, method);
       // A named explicit method still runs on a stiff problem (its step limit is the result),
       // but a symplectic method cannot run at all without a separable split.
-      const hardGap = (method.needsSeparable && !problem.separable) || (method.needsSecondOrder === true && !problem.separable?.secondOrder) || (method.needsLinear && !problem.linear) || (problem.modelOnlyInPrograms === true && !method.program);
-      if (gap && (hardGap || !req.methodsNamed)) {
+      if (gap && (structuralGap(problem, method) || !req.methodsNamed)) {
         skipped.push({ problem: problem.id, method: method.id, reason: gap });
         continue;
       }

@@ -52,31 +52,37 @@ export function solveEmbedded(
   options: SolveOptions,
   onAccept?: AcceptHook,
 ): SolveResult {
+  // One step function per solve: the method's generated kernel, or the generic sweep.
+  const step = (n: number): StageKernel => (tab.kernel !== null ? tab.kernel(n) : genericStep(tab, n));
+  return solveWithStep(tab, methodId, problem, setting, options, step, onAccept);
+}
+
+/**
+ * What the adaptive loop needs to know of a pair: its stage count, FSAL, orders. The object also
+ * keys the work buffers. The Runge-Kutta-Nystrom pairs bring their own step with such a shape.
+ */
+export type StepShape = Pick<Tableau, 'stages' | 'fsal' | 'order' | 'controlOrder'>;
+
+/**
+ * The adaptive loop around the step `makeStep` returns for this problem, made once the problem,
+ * options and setting have passed their checks.
+ */
+export function solveWithStep(
+  shape: StepShape,
+  methodId: string,
+  problem: Problem,
+  setting: Setting,
+  options: SolveOptions,
+  makeStep: (n: number) => StageKernel,
+  onAccept?: AcceptHook,
+): SolveResult {
   checkProblem(problem, methodId);
   checkOptions(options, methodId);
   const n = problem.dimension;
   const { rtol, atol } = adaptiveTolerances(setting, n, methodId, { rtolMayBeZero: true });
-  const t0 = problem.t0;
-  const tEnd = problem.tEnd;
-  const stops = stopTimes(options.checkTimes, t0, tEnd, methodId);
-  // One step function per solve: the method's generated kernel, or the generic sweep.
-  const step = tab.kernel !== null ? tab.kernel(n) : genericStep(tab, n);
-  return withLease(tab, n, (lease) => stepAdaptively(lease, tab, problem, options, onAccept, step, rtol, atol, stops));
-}
-
-/**
- * What the adaptive loop needs to know of a pair whose step comes from elsewhere (the
- * Runge-Kutta-Nystrom pairs): its stage count, FSAL, orders. The object also keys the work buffers.
- */
-export type StepShape = Pick<Tableau, 'stages' | 'fsal' | 'order' | 'controlOrder'>;
-
-/** The adaptive loop of solveEmbedded around a step function the caller made for this problem. */
-export function solveWithStep(shape: StepShape, methodId: string, problem: Problem, setting: Setting, options: SolveOptions, step: StageKernel): SolveResult {
-  checkProblem(problem, methodId);
-  checkOptions(options, methodId);
-  const { rtol, atol } = adaptiveTolerances(setting, problem.dimension, methodId, { rtolMayBeZero: true });
   const stops = stopTimes(options.checkTimes, problem.t0, problem.tEnd, methodId);
-  return withLease(shape, problem.dimension, (lease) => stepAdaptively(lease, shape, problem, options, undefined, step, rtol, atol, stops));
+  const step = makeStep(n);
+  return withLease(shape, n, (lease) => stepAdaptively(lease, shape, problem, options, onAccept, step, rtol, atol, stops));
 }
 
 function stepAdaptively(

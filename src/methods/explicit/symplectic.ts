@@ -23,8 +23,8 @@ export interface CompositionMethod {
   readonly weights: readonly number[];
 }
 
-/** Position and velocity indices as typed arrays, checked to split 0..n-1 exactly. */
-function splitOf(problem: Problem, methodId: string): { pos: Int32Array; vel: Int32Array } {
+/** Position and velocity indices as typed arrays, checked to split 0..n-1 exactly (the Nystrom pairs use it too). */
+export function splitOf(problem: Problem, methodId: string): { pos: Int32Array; vel: Int32Array } {
   const sep = problem.separable;
   if (!sep) {
     throw new InputError(

@@ -92,7 +92,7 @@ export async function buildLinearProblem(site: StructuredFile, spec: LinearFile,
   const split = findSeparableSplit({ names: states, deps, usesTime });
   // A row x_i' = x_j (a single 1 in A, nothing from the inputs) is a position whose rate is a velocity.
   const bareState = Array.from({ length: n }, (_, i): number | null => {
-    const cols = states.flatMap((_, j) => (a[i * n + j] !== 0 ? [j] : []));
+    const cols = [...deps[i]!];
     const fromInputs = inputs.some((_, c) => b[i * m + c] !== 0);
     return cols.length === 1 && a[i * n + cols[0]!] === 1 && !fromInputs ? cols[0]! : null;
   });

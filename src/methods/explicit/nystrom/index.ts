@@ -3,6 +3,7 @@
 import { InputError } from '../../../core/errors.js';
 import type { Method, Problem, Setting, SolveOptions, SolveResult } from '../../../core/types.js';
 import { solveWithStep, type StepShape } from '../embedded.js';
+import { splitOf } from '../symplectic.js';
 import { nystromKernels } from './kernel.js';
 import { checkNystromPair, nystromFsal, type NystromPair } from './pair.js';
 import { DORMAND_EL_MIKKAWY_PRINCE_86 } from './dormand-el-mikkawy-prince-86.js';
@@ -13,16 +14,16 @@ export { nystromFsal, type NystromPair } from './pair.js';
 export { DORMAND_EL_MIKKAWY_PRINCE_86 } from './dormand-el-mikkawy-prince-86.js';
 export { DORMAND_EL_MIKKAWY_PRINCE_1210 } from './dormand-el-mikkawy-prince-1210.js';
 
-/** The position/velocity pairs of a second-order problem, or a message naming what is missing. */
-function secondOrderSplit(problem: Problem, methodId: string): { positions: readonly number[]; velocities: readonly number[] } {
-  const split = problem.separable;
-  if (!split?.secondOrder) {
+/** The position/velocity pairs of a second-order problem, checked, or a message naming what is missing. */
+function secondOrderSplit(problem: Problem, methodId: string): { pos: Int32Array; vel: Int32Array } {
+  if (!problem.separable?.secondOrder) {
     throw new InputError(
       `problem ${problem.id} does not declare the second-order form q' = v (separable.secondOrder): ${methodId} is a Runge-Kutta-Nystrom method and steps q'' = g(t, q)`,
       methodId,
     );
   }
-  if (split.positions.length !== split.velocities.length) {
+  const split = splitOf(problem, methodId);
+  if (split.pos.length !== split.vel.length) {
     throw new InputError(`problem ${problem.id}: separable.secondOrder needs as many positions as velocities`, methodId);
   }
   return split;
@@ -43,8 +44,10 @@ export function nystromMethod(pair: NystromPair): Method {
     needsSecondOrder: true,
     embeddedOrder: pair.embeddedOrder,
     solve: (problem: Problem, setting: Setting, options: SolveOptions): SolveResult => {
-      const { positions, velocities } = secondOrderSplit(problem, pair.id);
-      return solveWithStep(shape, pair.id, problem, setting, options, kernels(positions, velocities));
+      return solveWithStep(shape, pair.id, problem, setting, options, () => {
+        const { pos, vel } = secondOrderSplit(problem, pair.id);
+        return kernels(pos, vel);
+      });
     },
   };
   return pair.notes !== undefined ? { ...method, notes: pair.notes } : method;

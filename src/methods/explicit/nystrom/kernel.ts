@@ -152,7 +152,7 @@ function localsOf(body: readonly string[], layout: { positions: readonly number[
 }
 
 /** Kernels of one pair, built on first use per index layout and reused after. */
-export function nystromKernels(p: NystromPair): (positions: readonly number[], velocities: readonly number[]) => StageKernel {
+export function nystromKernels(p: NystromPair): (positions: Int32Array, velocities: Int32Array) => StageKernel {
   const built = new Map<string, StageKernel>();
   return (positions, velocities) => {
     const n = positions.length + velocities.length;
@@ -160,8 +160,9 @@ export function nystromKernels(p: NystromPair): (positions: readonly number[], v
     let kernel = built.get(key);
     if (!kernel) {
       // The source holds only the pair's finite numeric literals and integer indices, never input text.
-      const source = n <= NYSTROM_UNROLL_MAX_N ? nystromSource(p, { positions, velocities }) : nystromSource(p);
-      kernel = new Function('P', 'V', source)(Int32Array.from(positions), Int32Array.from(velocities)) as StageKernel;
+      const layout = { positions: Array.from(positions), velocities: Array.from(velocities) };
+      const source = n <= NYSTROM_UNROLL_MAX_N ? nystromSource(p, layout) : nystromSource(p);
+      kernel = new Function('P', 'V', source)(positions.slice(), velocities.slice()) as StageKernel;
       built.set(key, kernel);
     }
     return kernel;
