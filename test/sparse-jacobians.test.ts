@@ -21,6 +21,7 @@ import { uniformProblem } from '../src/problems/uniform.js';
 import { heatPattern, heatProblem, heatRhs } from '../problems/heat-2d.js';
 import { catalogue } from '../problems/index.js';
 import { patternProblem } from '../src/core/sparse-pattern.js';
+import { writeGridFile } from './helpers/grid-file.js';
 
 const patternArb = fc.integer({ min: 1, max: 30 }).chain((n) =>
   fc.record({
@@ -65,15 +66,13 @@ describe('Curtis-Powell-Reid column groups', () => {
   f(0, y, fy);
   const work = () => ({ yWork: new Float64Array(n), fWork: new Float64Array(n), dWork: new Float64Array(n) });
 
-  it('5-point Laplacian on 8 x 8: the greedy natural order needs between 5 (widest row) and 9 groups, one evaluation each', () => {
-    // 5 is the lower bound (a row of 5 entries); the bound above is the greedy colouring's
-    // largest degree + 1 in the graph of columns sharing a row: 12 neighbours within distance 2
-    // on the grid, + 1 = 13 (common practice, no source); we check the count found is small.
+  it('5-point Laplacian on 8 x 8: 5 groups, the widest row (test/column-groups.test.ts has more grids), one evaluation each', () => {
+    // A row with 5 entries needs 5 groups (Curtis, Powell and Reid's lower bound); (i + 2j) mod 5
+    // shows 5 suffice (common practice, no source).
     const values = new Float64Array(sparse.pattern.nnz);
     const evals = sparseFiniteDifferenceJacobian(f, 0, y, fy, values, sparse.pattern, sparse.groups, work());
     expect(evals).toBe(sparse.groups.count);
-    expect(sparse.groups.count).toBeGreaterThanOrEqual(5);
-    expect(sparse.groups.count).toBeLessThanOrEqual(9);
+    expect(sparse.groups.count).toBe(5);
   });
 
   it('grouped differences equal the column-by-column ones exactly, and the stencil kappa (m+1)^2 (1, 1, -4, 1, 1) to difference accuracy', () => {
@@ -166,22 +165,7 @@ describe('declared patterns are checked', () => {
 
 describe('problem files: the pattern is read from the equations', () => {
   const dir = mkdtempSync(join(tmpdir(), 'sg-sparse-'));
-  /** The heat equation on a k x k grid as a problem file, each cell naming its four neighbours. */
-  function grid(k: number): string {
-    const name = (i: number, j: number) => `u${i}_${j}`;
-    const states: string[] = [];
-    const eqs: string[] = [];
-    for (let i = 0; i < k; i++) {
-      for (let j = 0; j < k; j++) {
-        states.push(name(i, j));
-        const nb = [i > 0 ? name(i - 1, j) : '0', i < k - 1 ? name(i + 1, j) : '0', j > 0 ? name(i, j - 1) : '0', j < k - 1 ? name(i, j + 1) : '0'];
-        eqs.push(`  ${name(i, j)}: ${nb.join(' + ')} - 4 * ${name(i, j)}`);
-      }
-    }
-    const path = join(dir, `grid-${k}.yaml`);
-    writeFileSync(path, `id: grid\ntitle: Grid\nstates: [${states.join(', ')}]\nstiff: true\nequations:\n${eqs.join('\n')}\ninitial: { ${states.map((s, i) => `${s}: ${i === 0 ? 1 : 0}`).join(', ')} }\nspan: [0, 1]\n`);
-    return path;
-  }
+  const grid = (k: number): string => writeGridFile(dir, k);
   it('a 3 x 3 grid gets the 5-point pattern, row by row as the equations name the states', async () => {
     const p = await loadProblemFile(grid(3));
     // Worked out by hand: state (i, j) at 3 i + j reads itself and its grid neighbours.
