@@ -46,8 +46,9 @@ function leased(lease: WorkLease): { float64(length: number): Float64Array; int3
 
 export class RealIterationMatrix {
   private readonly l: Layout;
-  private readonly m: Float64Array;
-  private readonly piv: Int32Array;
+  /** The factors and pivots of the last factor() (read by written-out solves, radau-kernel.ts). */
+  readonly m: Float64Array;
+  readonly piv: Int32Array;
   private readonly sparse: SparseLu | null;
 
   constructor(
@@ -79,6 +80,11 @@ export class RealIterationMatrix {
     return l.banded ? bandLuFactor(m, n, l.ml, l.mu, this.piv) : luFactor(m, n, this.piv);
   }
 
+  /** True when the factors are dense, row-major n x n, from the written-out LU (lu-small.ts). */
+  get smallDense(): boolean {
+    return this.l.small !== null;
+  }
+
   /** b := M^{-1} b with the last factors. */
   solve(b: Float64Array): void {
     if (this.sparse) this.sparse.solve(b);
@@ -90,9 +96,10 @@ export class RealIterationMatrix {
 
 export class ComplexIterationMatrix {
   private readonly l: Layout;
-  private readonly mr: Float64Array;
-  private readonly mi: Float64Array;
-  private readonly piv: Int32Array;
+  /** The factors and pivots of the last factor() (read by written-out solves, radau-kernel.ts). */
+  readonly mr: Float64Array;
+  readonly mi: Float64Array;
+  readonly piv: Int32Array;
   private readonly sparse: ComplexSparseLu | null;
 
   constructor(
@@ -134,6 +141,11 @@ export class ComplexIterationMatrix {
     }
     if (l.small !== null) return l.small.complexFactor(mr, mi, this.piv);
     return l.banded ? complexBandLuFactor(mr, mi, n, l.ml, l.mu, this.piv) : complexLuFactor(mr, mi, n, this.piv);
+  }
+
+  /** True when the factors are dense, row-major n x n, from the written-out LU (lu-small.ts). */
+  get smallDense(): boolean {
+    return this.l.small !== null;
   }
 
   /** (br + i bi) := M^{-1} (br + i bi) with the last factors. */

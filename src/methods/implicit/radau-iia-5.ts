@@ -10,9 +10,10 @@ import { jacobianStructure } from '../../core/jacobian-structure.js';
 import { ComplexIterationMatrix, RealIterationMatrix } from './iteration-matrix.js';
 import { scaledRmsNorm } from '../../core/vector.js';
 import type { Counts, Method, Problem, Setting, SolveOptions, SolveResult } from '../../core/types.js';
-import { EPS, powInt, propose, solveAdaptive, type Stepper, type Tolerances } from './common.js';
+import { EPS, powInt, propose, solveAdaptive, type Stepper, type StepperFactory, type Tolerances } from './common.js';
 import type { WorkLease } from '../work-lease.js';
 import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
+import { RADAU_UNROLL_MAX_N, RIO_ALPHN, RIO_BETAN, RIO_DYNO, RIO_ERR, RIO_FAC1, RIO_H, RIO_LENGTH, RIO_RATIO, RIO_RTOL, RIO_T, radauKernels } from './radau-kernel.js';
 
 /** Step-size safety factor and the bounds on h_new / h (1/FACL .. 1/FACR). */
 const SAFE = 0.9;
@@ -68,7 +69,7 @@ function radauTolerances(tol: Tolerances): Tolerances {
   return { rtol, atol: tol.atol.map((a) => (a * rtol) / tol.rtol) };
 }
 
-function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease: WorkLease) {
+function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease: WorkLease, writtenOut: boolean) {
   const { rtol, atol } = tol;
   const n = problem.dimension;
   const proposal = lease.float64(1);
@@ -88,6 +89,10 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), jacobianStructure(problem, n));
   const e1 = new RealIterationMatrix(jacSrc, n, lease);
   const e2 = new ComplexIterationMatrix(jacSrc, n, lease);
+  // A small dense system iterates in written-out code (radau-kernel.ts), bitwise the loops below.
+  const kernels = writtenOut && n <= RADAU_UNROLL_MAX_N && e1.smallDense && e2.smallDense ? radauKernels(n) : null;
+  const io = lease.float64(RIO_LENGTH);
+  io[RIO_RTOL] = rtol;
   const fnewt = Math.max((10 * EPS) / rtol, KAPPA);
   const cfac = SAFE * (1 + 2 * NIT);
 
@@ -130,6 +135,11 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       return;
     }
     const r = h / st.hOld;
+    if (kernels !== null) {
+      io[RIO_RATIO] = r;
+      kernels.start(io, cont1, cont2, cont3, z1, z2, z3, w1, w2, w3);
+      return;
+    }
     const s1 = 1 + C1 * r, s2 = 1 + C2 * r, s3 = 1 + r;
     for (let i = 0; i < n; i++) {
       const a1 = cont1[i]!, a2 = cont2[i]!, a3 = cont3[i]!;
@@ -140,6 +150,52 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
       w1[i] = TI[0]! * v1 + TI[1]! * v2 + TI[2]! * v3;
       w2[i] = TI[3]! * v1 + TI[4]! * v2 + TI[5]! * v3;
       w3[i] = TI[6]! * v1 + TI[7]! * v2 + TI[8]! * v3;
+    }
+  }
+
+  /**
+   * One iteration's stage evaluations, transformed right-hand sides (T^{-1} F) - (Lambda/h) W and
+   * solves, in place in g1..g3; the increment's scaled RMS norm into io[RIO_DYNO]. Its inputs
+   * come in io too, like the written-out kernel's.
+   */
+  function iterateLooped(): void {
+    const t = io[RIO_T]!, h = io[RIO_H]!, fac1 = io[RIO_FAC1]!, alphn = io[RIO_ALPHN]!, betan = io[RIO_BETAN]!;
+    for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z1[i]!;
+    f(t + C1 * h, ytmp, g1);
+    for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z2[i]!;
+    f(t + C2 * h, ytmp, g2);
+    for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z3[i]!;
+    f(t + h, ytmp, g3);
+    counts.nfev += 3;
+    for (let i = 0; i < n; i++) {
+      const a1 = g1[i]!, a2 = g2[i]!, a3 = g3[i]!;
+      const x1 = TI[0]! * a1 + TI[1]! * a2 + TI[2]! * a3;
+      const x2 = TI[3]! * a1 + TI[4]! * a2 + TI[5]! * a3;
+      const x3 = TI[6]! * a1 + TI[7]! * a2 + TI[8]! * a3;
+      g1[i] = x1 - fac1 * w1[i]!;
+      g2[i] = x2 - alphn * w2[i]! + betan * w3[i]!;
+      g3[i] = x3 - betan * w2[i]! - alphn * w3[i]!;
+    }
+    e1.solve(g1);
+    e2.solve(g2, g3);
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      const q = 1 / scal[i]!;
+      const a = g1[i]! * q, b = g2[i]! * q, c = g3[i]! * q;
+      s += a * a + b * b + c * c;
+    }
+    io[RIO_DYNO] = Math.sqrt(s / (3 * n));
+  }
+
+  /** w += increments, z = T w. */
+  function updateLooped(): void {
+    for (let i = 0; i < n; i++) {
+      const a1 = (w1[i] = w1[i]! + g1[i]!);
+      const a2 = (w2[i] = w2[i]! + g2[i]!);
+      const a3 = (w3[i] = w3[i]! + g3[i]!);
+      z1[i] = T[0]! * a1 + T[1]! * a2 + T[2]! * a3;
+      z2[i] = T[3]! * a1 + T[4]! * a2 + T[5]! * a3;
+      z3[i] = T[6]! * a1 + T[7]! * a2 + T[8]! * a3;
     }
   }
 
@@ -155,34 +211,20 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     let dynold = 0;
     let thqold = 0;
     st.hFail = h * NEWTON_FAIL_FACTOR;
+    io[RIO_T] = t;
+    io[RIO_H] = h;
+    io[RIO_FAC1] = fac1;
+    io[RIO_ALPHN] = alphn;
+    io[RIO_BETAN] = betan;
     while (true) {
       if (newt >= NIT) return false;
-      for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z1[i]!;
-      f(t + C1 * h, ytmp, g1);
-      for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z2[i]!;
-      f(t + C2 * h, ytmp, g2);
-      for (let i = 0; i < n; i++) ytmp[i] = y[i]! + z3[i]!;
-      f(t + h, ytmp, g3);
-      counts.nfev += 3;
-      // Right-hand sides: (T^{-1} F) - (Lambda/h) W, in place in g1..g3.
-      for (let i = 0; i < n; i++) {
-        const a1 = g1[i]!, a2 = g2[i]!, a3 = g3[i]!;
-        const x1 = TI[0]! * a1 + TI[1]! * a2 + TI[2]! * a3;
-        const x2 = TI[3]! * a1 + TI[4]! * a2 + TI[5]! * a3;
-        const x3 = TI[6]! * a1 + TI[7]! * a2 + TI[8]! * a3;
-        g1[i] = x1 - fac1 * w1[i]!;
-        g2[i] = x2 - alphn * w2[i]! + betan * w3[i]!;
-        g3[i] = x3 - betan * w2[i]! - alphn * w3[i]!;
+      if (kernels !== null) {
+        kernels.iterate(f, io, y, z1, z2, z3, w1, w2, w3, g1, g2, g3, ytmp, scal, e1.m, e1.piv, e2.mr, e2.mi, e2.piv);
+        counts.nfev += 3;
+      } else {
+        iterateLooped();
       }
-      e1.solve(g1);
-      e2.solve(g2, g3);
-      let s = 0;
-      for (let i = 0; i < n; i++) {
-        const q = 1 / scal[i]!;
-        const a = g1[i]! * q, b = g2[i]! * q, c = g3[i]! * q;
-        s += a * a + b * b + c * c;
-      }
-      const dyno = Math.sqrt(s / (3 * n));
+      const dyno = io[RIO_DYNO]!;
       if (!Number.isFinite(dyno)) return false;
       if (newt >= 1) {
         const thq = dyno / dynold;
@@ -202,14 +244,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
         }
       }
       dynold = Math.max(dyno, EPS);
-      for (let i = 0; i < n; i++) {
-        const a1 = (w1[i] = w1[i]! + g1[i]!);
-        const a2 = (w2[i] = w2[i]! + g2[i]!);
-        const a3 = (w3[i] = w3[i]! + g3[i]!);
-        z1[i] = T[0]! * a1 + T[1]! * a2 + T[2]! * a3;
-        z2[i] = T[3]! * a1 + T[4]! * a2 + T[5]! * a3;
-        z3[i] = T[6]! * a1 + T[7]! * a2 + T[8]! * a3;
-      }
+      if (kernels !== null) kernels.update(z1, z2, z3, w1, w2, w3, g1, g2, g3);
+      else updateLooped();
       newt++;
       if (st.faccon * dyno <= fnewt) {
         st.newt = newt;
@@ -220,15 +256,22 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
 
   /** Embedded error estimate into st.err: (gamma/h I - J)^{-1} (f0 + sum d_j z_j / h), filtered once more on first and rejected steps. */
   function estimateError(t: number, h: number): void {
-    const dz1 = D[0]! / h, dz2 = D[1]! / h, dz3 = D[2]! / h;
-    for (let i = 0; i < n; i++) {
-      const c = dz1 * z1[i]! + dz2 * z2[i]! + dz3 * z3[i]!;
-      ftmp[i] = c; // kept for the filtered second estimate
-      g1[i] = f0[i]! + c;
-      yEnd[i] = y[i]! + z3[i]!;
+    let err: number;
+    if (kernels !== null) {
+      io[RIO_H] = h;
+      kernels.estimate(io, y, f0, z1, z2, z3, g1, ftmp, yEnd, atol, e1.m, e1.piv);
+      err = Math.max(io[RIO_ERR]!, 1e-10);
+    } else {
+      const dz1 = D[0]! / h, dz2 = D[1]! / h, dz3 = D[2]! / h;
+      for (let i = 0; i < n; i++) {
+        const c = dz1 * z1[i]! + dz2 * z2[i]! + dz3 * z3[i]!;
+        ftmp[i] = c; // kept for the filtered second estimate
+        g1[i] = f0[i]! + c;
+        yEnd[i] = y[i]! + z3[i]!;
+      }
+      e1.solve(g1);
+      err = errorNorm(g1);
     }
-    e1.solve(g1);
-    let err = errorNorm(g1);
     if (err >= 1 && (first || reject)) {
       for (let i = 0; i < n; i++) ytmp[i] = y[i]! + g1[i]!;
       f(t, ytmp, g2);
@@ -317,6 +360,16 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   return { y, f0, proposal, attempt } satisfies Stepper & { f0: Float64Array };
 }
 
+/**
+ * The stepper factory; `writtenOut` false keeps the loops on small dense systems too (the
+ * reference the written-out iteration is tested against).
+ */
+export function radauStepper(writtenOut: boolean): StepperFactory {
+  return (problem, tol, counts, lease) => createStepper(problem, tol, counts, lease, writtenOut);
+}
+
+const writtenOutStepper = radauStepper(true);
+
 export const radauIIA5: Method = {
   id: 'radau-iia-5',
   name: 'Radau IIA 5 (Hairer-Wanner)',
@@ -331,6 +384,6 @@ export const radauIIA5: Method = {
     "Newton failures count as rejected steps. Tolerances are transformed as in the authors' code: rtol' = 0.1 rtol^(2/3), atol' = atol rtol'/rtol.",
   effectiveRtol: radauRtol,
   solve(problem: Problem, setting: Setting, options: SolveOptions): SolveResult {
-    return solveAdaptive(problem, setting, options, 'radau-iia-5', 5, createStepper, radauTolerances);
+    return solveAdaptive(problem, setting, options, 'radau-iia-5', 5, writtenOutStepper, radauTolerances);
   },
 };
