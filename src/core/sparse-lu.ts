@@ -68,6 +68,22 @@ class SparseLuStructure {
   protected readonly work: Float64Array[] = [];
   /** Times the factors' storage had to grow (pivots off the diagonal filling past the estimate). */
   growths = 0;
+  /**
+   * The searches of the last factorization, kept: step k's reached rows, in xi's order, are
+   * reachRows[reachStart[k] .. reachStart[k + 1] - 1], and keptProw its pivots. While every pivot
+   * so far falls on the row it fell on last time, L's columns so far and the pivotal rows are
+   * the same, so step k's search would reach the same rows in the same order: it is read back
+   * instead of made again, and the factors are the same bits.
+   */
+  private reachRows: Int32Array;
+  private readonly reachStart: Int32Array;
+  private readonly keptProw: Int32Array;
+  /** Steps whose search is kept (0 before the first factorization, and after a failed one's step). */
+  private keptSteps = 0;
+  /** Whether every pivot of the factorization under way so far matched the kept one. */
+  private samePivots = false;
+  /** Searches read back rather than made, over this object's life (for tests and the bench). */
+  searchesReused = 0;
 
   /** `slack`: room past the analysis' estimate in each factor (n unless a test asks for less); parts: 1 real, 2 complex. */
   constructor(analysis: SparseLuAnalysis, buffers: Buffers, slack: number, parts: number) {
@@ -86,6 +102,9 @@ class SparseLuStructure {
     this.stack = buffers.int32(n);
     this.next = buffers.int32(n);
     this.mark = buffers.int32(n);
+    this.reachRows = buffers.int32(2 * cap + n);
+    this.reachStart = buffers.int32(n + 1);
+    this.keptProw = buffers.int32(n);
     for (let k = 0; k < parts; k++) {
       this.lValues.push(buffers.float64(cap));
       this.uValues.push(buffers.float64(cap));
@@ -98,6 +117,47 @@ class SparseLuStructure {
     this.pinv.fill(-1);
     this.mark.fill(0);
     this.stamp = 0;
+    this.samePivots = true;
+  }
+
+  /**
+   * Step k's search (column j of A): the kept one while the pivots so far match, else a fresh
+   * one, which is then kept. Returns top (see xi); the reached rows are marked with this step's
+   * stamp either way.
+   */
+  protected search(k: number, j: number): number {
+    const { xi, mark, reachStart } = this;
+    if (this.samePivots && k < this.keptSteps) {
+      const stamp = ++this.stamp;
+      const rows = this.reachRows;
+      const from = reachStart[k]!;
+      let top = this.n - (reachStart[k + 1]! - from);
+      for (let q = from, t = top; t < this.n; q++, t++) {
+        const i = rows[q]!;
+        xi[t] = i;
+        mark[i] = stamp;
+      }
+      this.searchesReused++;
+      return top;
+    }
+    const top = this.reach(j);
+    const from = reachStart[k]!;
+    const length = this.n - top;
+    if (from + length > this.reachRows.length) this.reachRows = grownInt(this.reachRows, Math.max(2 * this.reachRows.length, from + length));
+    const rows = this.reachRows;
+    for (let t = top, q = from; t < this.n; t++, q++) rows[q] = xi[t]!;
+    reachStart[k + 1] = from + length;
+    // Steps after k were searched under other pivots; k's own pivot is settled by `pivoted`.
+    this.keptSteps = k;
+    return top;
+  }
+
+  /** Step k's pivot row, once chosen: whether the next search may be read back. */
+  protected pivoted(k: number, row: number): void {
+    if (this.samePivots && k < this.keptSteps && this.keptProw[k] === row) return;
+    this.samePivots = false;
+    this.keptProw[k] = row;
+    this.keptSteps = k + 1;
   }
 
   /** Rows reached from column j of A through the columns of L so far; returns top (see xi). */
@@ -200,7 +260,7 @@ export class SparseLu extends SparseLuStructure {
     let unz = 0;
     for (let k = 0; k < n; k++) {
       const j = order[k]!;
-      const top = this.reach(j);
+      const top = this.search(k, j);
       this.room(lnz, unz, n - top);
       const lRow = this.lRow;
       const lVal = this.lValues[0]!;
@@ -238,6 +298,7 @@ export class SparseLu extends SparseLuStructure {
       uDiag[k] = pivot;
       pinv[pivotRow] = k;
       prow[k] = pivotRow;
+      this.pivoted(k, pivotRow);
       const inv = 1 / pivot;
       for (let t = top; t < n; t++) {
         const i = xi[t]!;
@@ -293,7 +354,7 @@ export class ComplexSparseLu extends SparseLuStructure {
     let unz = 0;
     for (let k = 0; k < n; k++) {
       const j = order[k]!;
-      const top = this.reach(j);
+      const top = this.search(k, j);
       this.room(lnz, unz, n - top);
       const { lRow, uRow } = this;
       const lRe = this.lValues[0]!;
@@ -347,6 +408,7 @@ export class ComplexSparseLu extends SparseLuStructure {
       dIm[k] = pi;
       pinv[pivotRow] = k;
       prow[k] = pivotRow;
+      this.pivoted(k, pivotRow);
       // 1 / (pr + i pi) = (pr - i pi) / (pr^2 + pi^2)
       const den = pr * pr + pi * pi;
       const ir = pr / den;
