@@ -9,6 +9,7 @@
 import type { Rhs } from '../../core/types.js';
 import { numberLiteral } from '../source-literal.js';
 import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
+import { pivotLines, realSolveLines, type LuNames } from './lu-solve-source.js';
 
 /** Largest state size whose iteration is written out (the written-out LU's limit). */
 export const RADAU_UNROLL_MAX_N = 8;
@@ -90,32 +91,12 @@ const D = RADAU5_TRANSFORM.d.map(lit);
 const C1 = lit(RADAU5_C[0]!);
 const C2 = lit(RADAU5_C[1]!);
 
-/** Pivot interchanges of luSolve on the locals `${v}{k}` (each name in `names` swapped alike). */
-function pivotLines(n: number, pivots: string, names: readonly string[]): string[] {
-  const out: string[] = [];
-  for (let k = 0; k < n; k++) {
-    const swaps = range(n).filter((i) => i > k);
-    if (swaps.length === 0) continue;
-    out.push(`p = ${pivots}[${k}];`);
-    for (const i of swaps) out.push(`if (p === ${i}) { ${names.map((v) => `tmp = ${v}${k}; ${v}${k} = ${v}${i}; ${v}${i} = tmp;`).join(' ')} }`);
-  }
-  return out;
-}
-
-/** b{i} := M^{-1} b{i}, luSolve_n's statements on locals. */
-function realSolveLines(n: number): string[] {
-  const out = pivotLines(n, 'piv', ['b']);
-  for (let i = 1; i < n; i++) out.push(`b${i} = b${i}${range(i).map((j) => ` - a[${i * n + j}] * b${j}`).join('')};`);
-  for (let i = n - 1; i >= 0; i--) {
-    const terms = range(n).filter((j) => j > i).map((j) => ` - a[${i * n + j}] * b${j}`).join('');
-    out.push(`b${i} = (b${i}${terms}) / a[${i * n + i}];`);
-  }
-  return out;
-}
+/** The real iteration matrix's factors and pivots, read where they lie (a, piv). */
+const realFactors = (n: number): LuNames => ({ pivot: (k) => `piv[${k}]`, factor: (i, j) => `a[${i * n + j}]` });
 
 /** (r{i} + i s{i}) := M^{-1} (r{i} + i s{i}), complexLuSolve_n's statements on locals. */
 function complexSolveLines(n: number): string[] {
-  const out = pivotLines(n, 'pivc', ['r', 's']);
+  const out = pivotLines(n, (k) => `pivc[${k}]`, ['r', 's']);
   const term = (i: number, j: number): string =>
     `lr = ar[${i * n + j}]; li = ai[${i * n + j}]; xr = r${j}; xi = s${j}; sr -= lr * xr - li * xi; si -= lr * xi + li * xr;`;
   for (let i = 1; i < n; i++) out.push(`sr = r${i}; si = s${i}; ${range(i).map((j) => term(i, j)).join(' ')} r${i} = sr; s${i} = si;`);
@@ -130,7 +111,7 @@ function complexSolveLines(n: number): string[] {
 export function radauIterationSource(n: number): string {
   const lines = [
     `const t = io[${RIO_T}]; const h = io[${RIO_H}]; const fac1 = io[${RIO_FAC1}]; const alphn = io[${RIO_ALPHN}]; const betan = io[${RIO_BETAN}];`,
-    'let p = 0, tmp = 0, sr = 0, si = 0, lr = 0, li = 0, xr = 0, xi = 0, dr = 0, di = 0, den = 0;',
+    'let tmp = 0, sr = 0, si = 0, lr = 0, li = 0, xr = 0, xi = 0, dr = 0, di = 0, den = 0;',
   ];
   const stageTimes = [`t + ${C1} * h`, `t + ${C2} * h`, 't + h'];
   for (let j = 1; j <= 3; j++) {
@@ -146,7 +127,7 @@ export function radauIterationSource(n: number): string {
     lines.push(`let r${i} = x2_${i} - alphn * w2[${i}] + betan * w3[${i}];`);
     lines.push(`let s${i} = x3_${i} - betan * w2[${i}] - alphn * w3[${i}];`);
   }
-  lines.push(...realSolveLines(n), ...complexSolveLines(n));
+  lines.push(...realSolveLines(n, realFactors(n)), ...complexSolveLines(n));
   lines.push('let sum = 0;');
   for (let i = 0; i < n; i++) {
     lines.push(`g1[${i}] = b${i}; g2[${i}] = r${i}; g3[${i}] = s${i};`);
@@ -173,13 +154,13 @@ export function radauUpdateSource(n: number): string {
 export function radauEstimateSource(n: number): string {
   const lines = [
     `const h = io[${RIO_H}]; const rtol = io[${RIO_RTOL}]; const dz1 = ${D[0]} / h, dz2 = ${D[1]} / h, dz3 = ${D[2]} / h;`,
-    'let p = 0, tmp = 0;',
+    'let tmp = 0;',
   ];
   for (let i = 0; i < n; i++) {
     lines.push(`const c${i} = dz1 * z1[${i}] + dz2 * z2[${i}] + dz3 * z3[${i}]; ftmp[${i}] = c${i};`);
     lines.push(`let b${i} = f0[${i}] + c${i}; const e${i} = y[${i}] + z3[${i}]; yEnd[${i}] = e${i};`);
   }
-  lines.push(...realSolveLines(n), 'let sum = 0;');
+  lines.push(...realSolveLines(n, realFactors(n)), 'let sum = 0;');
   for (let i = 0; i < n; i++) {
     lines.push(`g1[${i}] = b${i};`);
     lines.push(`{ const ya = Math.abs(y[${i}]); const yb = Math.abs(e${i}); const sc = atol[${i}] + rtol * (ya > yb ? ya : yb); const r = b${i} / sc; sum += r * r; }`);

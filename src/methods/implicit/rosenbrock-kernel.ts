@@ -9,6 +9,7 @@ import { InputError } from '../../core/errors.js';
 import type { Rhs } from '../../core/types.js';
 import { numberLiteral } from '../source-literal.js';
 import { errorTerms, unitEstimateStage, type RosenbrockData } from './rosenbrock-data.js';
+import { realSolveLines, type LuNames } from './lu-solve-source.js';
 
 /** Largest state size whose attempt is written out; larger (or banded) systems loop. */
 export const ROSENBROCK_UNROLL_MAX_N = 8;
@@ -67,19 +68,8 @@ function factorLines(n: number): string[] {
   return out;
 }
 
-/** b{i} := M^{-1} b{i} with the factors, luSolve's steps. */
-function solveLines(n: number): string[] {
-  const out: string[] = [];
-  for (let k = 0; k < n; k++) {
-    for (let i = k + 1; i < n; i++) out.push(`if (p${k} === ${i}) { tmp = b${k}; b${k} = b${i}; b${i} = tmp; }`);
-  }
-  for (let i = 1; i < n; i++) out.push(`b${i} = b${i}${range(i).map((j) => ` - m${i}_${j} * b${j}`).join('')};`);
-  for (let i = n - 1; i >= 0; i--) {
-    const terms = range(n).filter((j) => j > i).map((j) => ` - m${i}_${j} * b${j}`).join('');
-    out.push(`b${i} = ${terms === '' ? `b${i}` : `(b${i}${terms})`} / m${i}_${i};`);
-  }
-  return out;
-}
+/** The factors as factorLines leaves them: locals m{i}_{j}, pivots p{k}. */
+const LOCAL_FACTORS: LuNames = { pivot: (k) => `p${k}`, factor: (i, j) => `m${i}_${j}` };
 
 /** The generated function's source for state size n. */
 export function rosenbrockSource(d: RosenbrockData, name: string, n: number): string {
@@ -105,7 +95,7 @@ export function rosenbrockSource(d: RosenbrockData, name: string, n: number): st
     const src = s === 0 ? 'f0' : 'fs';
     lines.push('{');
     for (let i = 0; i < n; i++) lines.push(`let b${i} = ${src}[${i}] + gh${s} * ft[${i}]${range(s).map((j) => ` + c${s}_${j} * u${j}_${i}`).join('')};`);
-    lines.push(...solveLines(n));
+    lines.push(...realSolveLines(n, LOCAL_FACTORS));
     for (let i = 0; i < n; i++) lines.push(`u${s}_${i} = b${i};`);
     lines.push('}');
   }
