@@ -131,7 +131,7 @@ class SparseLuStructure {
       const stamp = ++this.stamp;
       const rows = this.reachRows;
       const from = reachStart[k]!;
-      let top = this.n - (reachStart[k + 1]! - from);
+      const top = this.n - (reachStart[k + 1]! - from);
       for (let q = from, t = top; t < this.n; q++, t++) {
         const i = rows[q]!;
         xi[t] = i;
