@@ -2,14 +2,14 @@
 // the Newton starting values, each simplified Newton iteration (three stage evaluations, the
 // transformed right-hand sides, the real and complex back substitutions with the factors left by
 // the iteration matrices, the increment norm) and the embedded error estimate, every component
-// in a local and the method's constants as literals. On a 3-state
-// problem the loops' control and bounds checks cost more than their arithmetic (bench/README.md).
+// in a local and the method's constants as literals. On a 3-state problem the loops' control and
+// bounds checks cost more than their arithmetic (bench/README.md).
 // Every expression is radau-iia-5.ts's loop form (and luSolve / complexLuSolve of lu-small.ts) in
 // the same order, so both give the same bits; a test compares them run for run.
 import type { Rhs } from '../../core/types.js';
 import { numberLiteral } from '../source-literal.js';
 import { RADAU5_C, RADAU5_TRANSFORM } from './radau-iia-5-tableau.js';
-import { pivotLines, realSolveLines, type LuNames } from './lu-solve-source.js';
+import { complexSolveLines, range, realSolveLines, type LuNames } from './lu-solve-source.js';
 
 /** Largest state size whose iteration is written out (the written-out LU's limit). */
 export const RADAU_UNROLL_MAX_N = 8;
@@ -84,7 +84,6 @@ export interface RadauKernels {
 }
 
 const lit = (v: number): string => numberLiteral(v, 'Radau IIA coefficient');
-const range = (k: number): number[] => Array.from({ length: k }, (_, i) => i);
 const TI = RADAU5_TRANSFORM.tinv.map(lit);
 const T = RADAU5_TRANSFORM.t.map(lit);
 const D = RADAU5_TRANSFORM.d.map(lit);
@@ -93,20 +92,6 @@ const C2 = lit(RADAU5_C[1]!);
 
 /** The real iteration matrix's factors and pivots, read where they lie (a, piv). */
 const realFactors = (n: number): LuNames => ({ pivot: (k) => `piv[${k}]`, factor: (i, j) => `a[${i * n + j}]` });
-
-/** (r{i} + i s{i}) := M^{-1} (r{i} + i s{i}), complexLuSolve_n's statements on locals. */
-function complexSolveLines(n: number): string[] {
-  const out = pivotLines(n, (k) => `pivc[${k}]`, ['r', 's']);
-  const term = (i: number, j: number): string =>
-    `lr = ar[${i * n + j}]; li = ai[${i * n + j}]; xr = r${j}; xi = s${j}; sr -= lr * xr - li * xi; si -= lr * xi + li * xr;`;
-  for (let i = 1; i < n; i++) out.push(`sr = r${i}; si = s${i}; ${range(i).map((j) => term(i, j)).join(' ')} r${i} = sr; s${i} = si;`);
-  for (let i = n - 1; i >= 0; i--) {
-    const ii = i * n + i;
-    const terms = range(n).filter((j) => j > i).map((j) => term(i, j)).join(' ');
-    out.push(`sr = r${i}; si = s${i}; ${terms} dr = ar[${ii}]; di = ai[${ii}]; den = dr * dr + di * di; r${i} = (sr * dr + si * di) / den; s${i} = (si * dr - sr * di) / den;`);
-  }
-  return out;
-}
 
 export function radauIterationSource(n: number): string {
   const lines = [
@@ -127,7 +112,10 @@ export function radauIterationSource(n: number): string {
     lines.push(`let r${i} = x2_${i} - alphn * w2[${i}] + betan * w3[${i}];`);
     lines.push(`let s${i} = x3_${i} - betan * w2[${i}] - alphn * w3[${i}];`);
   }
-  lines.push(...realSolveLines(n, realFactors(n)), ...complexSolveLines(n));
+  lines.push(
+    ...realSolveLines(n, realFactors(n)),
+    ...complexSolveLines(n, (k) => `pivc[${k}]`, (i, j) => `ar[${i * n + j}]`, (i, j) => `ai[${i * n + j}]`),
+  );
   lines.push('let sum = 0;');
   for (let i = 0; i < n; i++) {
     lines.push(`g1[${i}] = b${i}; g2[${i}] = r${i}; g3[${i}] = s${i};`);

@@ -9,7 +9,7 @@ import { InputError } from '../../core/errors.js';
 import type { Rhs } from '../../core/types.js';
 import { numberLiteral } from '../source-literal.js';
 import { errorTerms, unitEstimateStage, type RosenbrockData } from './rosenbrock-data.js';
-import { realSolveLines, type LuNames } from './lu-solve-source.js';
+import { range, realSolveLines, type LuNames } from './lu-solve-source.js';
 
 /** Largest state size whose attempt is written out; larger (or banded) systems loop. */
 export const ROSENBROCK_UNROLL_MAX_N = 8;
@@ -44,7 +44,6 @@ export type RosenbrockKernel = (
 /** A coefficient as source text that parses back to the same double. */
 const lit = (v: number): string => numberLiteral(v, 'Rosenbrock coefficient');
 
-const range = (k: number): number[] => Array.from({ length: k }, (_, i) => i);
 
 /** LU factorisation of the locals m{i}_{j} in place, luFactor's steps; pivots into p{k}. */
 function factorLines(n: number): string[] {
