@@ -21,7 +21,7 @@ describe('a saved sweep request', () => {
     [{ tolerances: ['1e-4'] }, /request\.tolerances\[0\]/],
     [{ steps: [10.5] }, /request\.steps\[0\].*positive whole number/],
     [{ maxSteps: 0 }, /request\.maxSteps/],
-    [{ controller: 'fuzzy' }, /request\.controller.*standard or pi/],
+    [{ controller: 'fuzzy' }, /request\.controller.*standard, pi, deadband/],
     [{ shard: { index: 4, count: 3 } }, /request\.shard\.index/],
     [[], /request/],
   ])('refuses %j with the field named', (record, message) => {

@@ -272,6 +272,13 @@ export interface Counts {
   rejected: number;
 }
 
+/**
+ * Step-size controllers of the explicit pairs (methods/explicit/control.ts): `standard`, `pi`
+ * (Gustafsson's PI), `deadband` (standard, but the step is kept while 0.5 <= err <= 1).
+ */
+export const CONTROLLER_KINDS = ['standard', 'pi', 'deadband'] as const;
+export type ControllerKind = (typeof CONTROLLER_KINDS)[number];
+
 export interface SolveOptions {
   /** Largest number of steps (accepted + rejected) before status `step-limit`. */
   readonly maxSteps: number;
@@ -282,8 +289,8 @@ export interface SolveOptions {
   readonly observer?: (t: number, y: Float64Array) => void;
   /** Adaptive methods never step past these (sorted, inside the span); they land on them exactly. */
   readonly checkTimes?: readonly number[];
-  /** Step-size controller for adaptive explicit methods. */
-  readonly controller?: 'standard' | 'pi';
+  /** Step-size controller for adaptive explicit methods (standard when absent). */
+  readonly controller?: ControllerKind;
   /**
    * Largest step an adaptive method may take (used by certification, so no feature shorter than
    * the natural step can be stepped over); unbounded when absent.

@@ -1,12 +1,12 @@
 // What every measured or timed solve of a run is given: the step limit, the wall-clock limit and
 // the controller, and how they become the integrator's own solve options.
-import type { Problem, SolveOptions } from '../core/types.js';
+import type { ControllerKind, Problem, SolveOptions } from '../core/types.js';
 
 export interface RunOptions {
   maxSteps: number;
   /** Wall-clock limit for one solve, seconds (status `timeout` past it). */
   runTimeoutSeconds?: number;
-  controller?: 'standard' | 'pi';
+  controller?: ControllerKind;
 }
 
 export function solveOptions(problem: Problem, options: RunOptions, observer?: SolveOptions['observer']): SolveOptions {

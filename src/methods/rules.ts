@@ -2,7 +2,7 @@
 // and the solve options. The setting's own rules live in core/setting.ts, where the CLI, the
 // planner and the results reader read them too. Bad input is an InputError naming the field.
 import { InputError } from '../core/errors.js';
-import type { Problem, SolveOptions } from '../core/types.js';
+import { CONTROLLER_KINDS, type Problem, type SolveOptions } from '../core/types.js';
 
 export function checkProblem(problem: Problem, methodId: string): void {
   const n = problem.dimension;
@@ -23,6 +23,9 @@ export function checkProblem(problem: Problem, methodId: string): void {
 export function checkOptions(options: SolveOptions, methodId: string): void {
   if (!(options.maxSteps > 0)) {
     throw new InputError(`options.maxSteps must be a positive number, got ${options.maxSteps}`, methodId);
+  }
+  if (options.controller !== undefined && !CONTROLLER_KINDS.includes(options.controller)) {
+    throw new InputError(`options.controller must be one of ${CONTROLLER_KINDS.join(', ')}, got ${JSON.stringify(options.controller)}`, methodId);
   }
   if (options.initialStep !== undefined && !(options.initialStep > 0 && Number.isFinite(options.initialStep))) {
     throw new InputError(`options.initialStep must be a positive finite number, got ${options.initialStep}`, methodId);

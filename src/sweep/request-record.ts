@@ -4,9 +4,8 @@
 import { requestedRtolProblem, requestedStepsProblem } from '../core/setting.js';
 import { Validator } from '../results/validate.js';
 import { MAX_RUN_TIMEOUT_SECONDS } from '../core/defaults.js';
+import { CONTROLLER_KINDS, type ControllerKind } from '../core/types.js';
 import type { SweepRequest } from './run.js';
-
-const CONTROLLERS = ['standard', 'pi'] as const;
 
 /** A recorded request: its inputs are whatever an older or newer stepgauge wrote, checked before use (sweep/inputs.ts). */
 export type ResumableRequest = Omit<SweepRequest, 'inputs'> & { inputs?: unknown };
@@ -34,8 +33,8 @@ export function requestFromRecord(record: unknown, where: string): ResumableRequ
     req.timing = { budgetSeconds: v.positive(t.budgetSeconds, 'request.timing.budgetSeconds'), minSamples: v.integer(t.minSamples, 'request.timing.minSamples', 1) };
   }
   if (r.controller !== undefined) {
-    if (!CONTROLLERS.includes(r.controller as (typeof CONTROLLERS)[number])) v.fail('request.controller', `is ${JSON.stringify(r.controller)}, expected standard or pi`);
-    req.controller = r.controller as (typeof CONTROLLERS)[number];
+    if (!CONTROLLER_KINDS.includes(r.controller as ControllerKind)) v.fail('request.controller', `is ${JSON.stringify(r.controller)}, expected ${CONTROLLER_KINDS.join(', ')}`);
+    req.controller = r.controller as ControllerKind;
   }
   if (r.runTimeoutSeconds !== undefined) {
     req.runTimeoutSeconds = v.positive(r.runTimeoutSeconds, 'request.runTimeoutSeconds');

@@ -1,5 +1,5 @@
 // Running a planned sweep in this process and assembling the results file.
-import type { Method, Problem } from '../core/types.js';
+import type { ControllerKind, Method, Problem } from '../core/types.js';
 import type { Environment, ProblemRecord, ResultsFile, RunResult } from '../results/contract.js';
 import { RESULTS_FORMAT, RESULTS_VERSION } from '../results/contract.js';
 import { sha256 } from '../core/hash.js';
@@ -172,7 +172,7 @@ export interface SweepRequest {
   maxSteps?: number;
   /** null or undefined: no timing. */
   timing?: TimingOptions | null;
-  controller?: 'standard' | 'pi';
+  controller?: ControllerKind;
   /** Parallel workers; 1 runs in this process (unless a run timeout needs workers). */
   jobs?: number;
   runTimeoutSeconds?: number;

@@ -23,6 +23,14 @@ export const LANDING_STRETCH = 1 + 1e-6;
  */
 export const PI_ALPHA = 0.7;
 export const PI_BETA = 0.4;
+/**
+ * Deadband controller: an accepted step whose err is at least this keeps its size (the standard
+ * factor there is only 0.9..1.03). The band 0.5 <= err <= 1 is the one Boost.Odeint's default
+ * step adjuster holds (controlled_runge_kutta.hpp, Boost 1.74 as Debian libboost-dev installs it;
+ * K. Ahnert, M. Mulansky, AIP Conf. Proc. 1389 (2011) 1586-1589), so the pairs can be timed
+ * under the same rule as that peer; it skips the power on most steps.
+ */
+export const DEADBAND_LOW = 0.5;
 /** Floor on the previous error in the PI formula, so a tiny error cannot blow the step up. */
 export const PI_ERR_FLOOR = 1e-4;
 /**
@@ -46,4 +54,9 @@ export function piFactor(err: number, errPrev: number, k: number, facMax: number
   if (!(err > 0)) return facMax;
   const fac = SAFETY * Math.exp((Math.log(errPrev) * PI_BETA - Math.log(err) * PI_ALPHA) / k);
   return fac > facMax ? facMax : fac < FAC_MIN ? FAC_MIN : fac;
+}
+
+/** Deadband controller: the standard factor, except 1 while DEADBAND_LOW <= err (err <= 1 on accepts). */
+export function deadbandFactor(err: number, k: number, facMax: number): number {
+  return err >= DEADBAND_LOW ? 1 : standardFactor(err, k, facMax);
 }

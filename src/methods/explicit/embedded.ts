@@ -13,6 +13,7 @@ import {
   PI_ERR_FLOOR,
   UNDERFLOW_ULPS,
   piFactor,
+  deadbandFactor,
   standardFactor,
 } from './control.js';
 import { startingStep } from '../starting-step.js';
@@ -105,6 +106,7 @@ function stepAdaptively(
   const last = s - 1;
   const kExp = tab.controlOrder + 1;
   const usePi = options.controller === 'pi';
+  const useDeadband = options.controller === 'deadband';
   const observer = options.observer;
   const deadline = options.deadline;
   const maxSteps = options.maxSteps;
@@ -192,7 +194,7 @@ function stepAdaptively(
     const finite = err === err && io[IO_NONFINITE] === 0;
     if (finite && err <= 1) {
       const facMax = lastRejected ? 1 : FAC_MAX;
-      const fac = usePi ? piFactor(err, errPrev, kExp, facMax) : standardFactor(err, kExp, facMax);
+      const fac = usePi ? piFactor(err, errPrev, kExp, facMax) : useDeadband ? deadbandFactor(err, kExp, facMax) : standardFactor(err, kExp, facMax);
       // Only the PI controller reads errPrev; keeping it out of standard runs also keeps V8 from
       // boxing err every step (the PI call is never taken there, so its arguments stay tagged).
       if (usePi) errPrev = Math.max(err, PI_ERR_FLOOR);
