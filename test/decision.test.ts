@@ -77,6 +77,24 @@ describe('choose -p kepler-eccentric --target 1e-8 --out d', () => {
     expect(rec.reference.trust).toMatch(/agree to \d+ digits/);
   });
 
+  it('with --controller deadband: records the controller, and its choice holds in a fresh solve under it', async () => {
+    const d = join(tmp(), 'd');
+    const r = await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-8', '-m', 'dormand-prince-54', '--cost', 'nfev', '--controller', 'deadband', '--out', d]);
+    expect(r.code, r.stderr).toBe(0);
+    const rec = JSON.parse(readFileSync(join(d, 'decision.json'), 'utf8')) as DecisionRecord;
+    expect(rec.question.controller).toBe('deadband');
+    expect(readFileSync(join(d, 'decision.md'), 'utf8')).toMatch(/step-size controller \(explicit pairs\) \| deadband/);
+    const chosen = rec.recommendation!;
+    const setting = chosen.setting as { rtol: number; atol: number };
+    // Against the exact orbit (Kepler's equation), under the same controller.
+    const again = measureRun(keplerEccentric, findMethod('dormand-prince-54')!, setting, { maxSteps: 100_000, controller: 'deadband' });
+    expect(again.error.final).toBeLessThanOrEqual(5e-9);
+    expect(rec.candidates.find((c) => c.method === 'dormand-prince-54')!.counts).toEqual(again.counts);
+    const standard = measureRun(keplerEccentric, findMethod('dormand-prince-54')!, setting, { maxSteps: 100_000 });
+    expect(standard.counts).not.toEqual(again.counts);
+    expect((await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-8', '--controller', 'fuzzy'])).stderr).toMatch(/--controller.*standard, pi, deadband/);
+  });
+
   it('refuses --safety below 1 and an --out that is a file, writing nothing', async () => {
     expect((await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-8', '--safety', '0.5'])).code).toBe(2);
     const dir = tmp();

@@ -1,6 +1,6 @@
 // `stepgauge choose` on a dispersed problem: the setting that meets the target on a share of the
 // samples (or on every one), with the samples that miss it named so each can be rerun alone.
-import type { Method, Problem } from '../core/types.js';
+import type { ControllerKind, Method, Problem } from '../core/types.js';
 import { InputError } from '../core/errors.js';
 import { DEFAULT_MAX_STEPS } from '../core/defaults.js';
 import { parsePositiveInt } from './options.js';
@@ -13,6 +13,7 @@ interface Flags {
   json?: boolean;
   maxSteps?: string;
   quantile?: string;
+  controller?: ControllerKind;
 }
 
 /** "worst" (or absent) is every sample; otherwise a share in (0, 1]. */
@@ -77,6 +78,7 @@ export async function chooseDispersed(of: string, samples: Problem[], methods: M
     measure: flags.measure,
     quantile: parseQuantile(flags.quantile),
     maxSteps: parsePositiveInt(flags.maxSteps ?? String(DEFAULT_MAX_STEPS), '--max-steps'),
+    ...(flags.controller ? { controller: flags.controller } : {}),
   });
   process.stdout.write(flags.json ? `${JSON.stringify(choice, null, 2)}\n` : `${envelopeText(choice)}\n`);
   if (!choice.recommended) setExit(1);

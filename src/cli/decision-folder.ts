@@ -2,7 +2,7 @@
 // Markdown links to, all at once (a temporary folder renamed into place).
 import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import type { Problem } from '../core/types.js';
+import type { ControllerKind, Problem } from '../core/types.js';
 import type { Choice } from '../sweep/choose.js';
 import { decisionRecord } from './decision-record.js';
 import { environmentFingerprint } from '../measure/environment.js';
@@ -10,7 +10,7 @@ import { writeFolderAtomically } from '../results/atomic.js';
 import { decisionHtml, decisionMarkdown, decisionPlotSpec } from '../report/decision.js';
 import { renderPlot } from '../report/plots/render.js';
 
-export async function writeDecisionFolder(dir: string, choice: Choice, problem: Problem, context: { commandLine: string; maxSteps: number }): Promise<void> {
+export async function writeDecisionFolder(dir: string, choice: Choice, problem: Problem, context: { commandLine: string; maxSteps: number; controller: ControllerKind }): Promise<void> {
   const record = decisionRecord(choice, problem, { environment: await environmentFingerprint(), ...context });
   const spec = decisionPlotSpec(record);
   const png = spec ? renderPlot(spec) : undefined;

@@ -1,6 +1,6 @@
 // Turns a `choose` result into the decision record (src/report/decision-record.ts): the question,
 // the model and its hash, the reference and who made it, every candidate and the verdict.
-import type { Problem } from '../core/types.js';
+import type { ControllerKind, Problem } from '../core/types.js';
 import type { Environment } from '../results/contract.js';
 import { sha256 } from '../core/hash.js';
 import { measureUnit } from '../measure/run-measures.js';
@@ -53,7 +53,7 @@ function candidateRecord(c: Candidate): DecisionCandidate {
 export function decisionRecord(
   choice: Choice,
   problem: Problem,
-  context: { environment: Environment; commandLine: string; maxSteps: number; createdAt?: string },
+  context: { environment: Environment; commandLine: string; maxSteps: number; controller: ControllerKind; createdAt?: string },
 ): DecisionRecord {
   const rec = choice.recommended;
   return {
@@ -69,6 +69,7 @@ export function decisionRecord(
       safety: choice.safety,
       required: choice.required,
       maxSteps: context.maxSteps,
+      controller: context.controller,
     },
     model: {
       id: problem.id,

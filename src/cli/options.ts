@@ -1,5 +1,6 @@
 // Parsing and validating command-line values: every failure names the flag and what was expected.
 import { InputError } from '../core/errors.js';
+import { CONTROLLER_KINDS, type ControllerKind } from '../core/types.js';
 import { MAX_RUN_TIMEOUT_SECONDS } from '../core/defaults.js';
 import { requestedRtolProblem } from '../core/setting.js';
 import { decades } from '../sweep/plan.js';
@@ -82,6 +83,15 @@ export function parsePositive(text: string, flag: string): number {
   return positiveNumber(text, flag);
 }
 
+
+/** --controller: standard, pi or deadband (methods/explicit/control.ts). */
+export function parseController(text: string): ControllerKind {
+  if (!CONTROLLER_KINDS.includes(text as ControllerKind)) throw new InputError(`'${text}' is not a controller; expected ${CONTROLLER_KINDS.join(', ')}`, '--controller');
+  return text as ControllerKind;
+}
+
+/** Help text of --controller, the same for run and choose. */
+export const CONTROLLER_HELP = 'step-size controller for explicit pairs: standard, pi, or deadband (standard, but the step is kept while 0.5 <= err <= 1)';
 
 export function parseRunTimeout(text: string): number {
   const v = positiveNumber(text, '--run-timeout');

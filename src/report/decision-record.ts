@@ -20,6 +20,8 @@ export interface DecisionQuestion {
   safety: number;
   required: number;
   maxSteps: number;
+  /** Step-size controller of the explicit pairs (standard, pi or deadband); absent in older records. */
+  controller?: string;
 }
 
 export interface DecisionModel {

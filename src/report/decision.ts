@@ -65,6 +65,7 @@ function questionLines(r: DecisionRecord): [string, string][] {
     ['safety factor', `${q.safety}: each candidate had to reach ${sig3(q.required)}. ${r.safetyNote}`],
     ['ranked by', q.cost === 'time' ? 'median wall time; times that overlap within their 95% margins are tied and ordered by function evaluations' : 'function evaluations (exact)'],
     ['step limit', `${q.maxSteps} steps per run (accepted + rejected)`],
+    ['step-size controller (explicit pairs)', q.controller ?? 'standard'],
   ];
 }
 

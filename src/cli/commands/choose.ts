@@ -2,7 +2,7 @@
 // (with --out) a decision record a reviewer can file: decision.json, decision.md, decision.html.
 import type { RegisterCommand } from './register.js';
 import { InputError } from '../../core/errors.js';
-import { parseAtol, parsePositive, parsePositiveInt, parsePositiveList } from '../options.js';
+import { CONTROLLER_HELP, parseAtol, parseController, parsePositive, parsePositiveInt, parsePositiveList } from '../options.js';
 import { DEFAULT_MAX_STEPS, DEFAULT_SAFETY, DEFAULT_TIMING } from '../../core/defaults.js';
 import { choiceText } from '../choice-text.js';
 import { checkWritableTarget } from '../output-folder.js';
@@ -21,6 +21,7 @@ interface ChooseFlags {
   stepSizes?: string;
   atol?: string;
   safety: string;
+  controller: string;
   out?: string;
 }
 
@@ -36,6 +37,7 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
     .option('--safety <factor>', 'ask for error at most target / factor (2 keeps the doubled-tolerance neighbour inside the target; 1 is the bare boundary)', String(DEFAULT_SAFETY))
     .option('--atol <list>', 'absolute tolerance with every rtol tried: one value, or one per state (default: rtol, scaled where the problem says so)')
     .option('--max-steps <n>', 'step limit per run', String(DEFAULT_MAX_STEPS))
+    .option('--controller <kind>', CONTROLLER_HELP, 'standard')
     .option('--rates <list>', 'fixed-step candidates as rates in Hz (time in seconds), e.g. 0.05,0.1,0.2; the answer is the lowest rate that meets the target')
     .option('--step-sizes <list>', 'fixed-step candidates as step sizes in the problem\'s time unit, e.g. 5,10,20')
     .option('-o, --out <dir>', 'write the decision record there: decision.json, decision.md, decision.html (one self-contained file)')
@@ -49,6 +51,7 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       if (safety < 1) throw new InputError(`'${flags.safety}' must be at least 1 (1 asks for the target itself)`, '--safety');
       if (flags.cost !== 'time' && flags.cost !== 'nfev') throw new InputError(`'${flags.cost}' is not time or nfev`, '--cost');
       const maxSteps = parsePositiveInt(flags.maxSteps, '--max-steps');
+      const controller = parseController(flags.controller);
       // Only a new or empty folder, or one stepgauge wrote, is replaced (src/results/ownership.ts).
       if (flags.out !== undefined) checkWritableTarget(flags.out);
       const { resolveMethods, resolveProblems } = await import('../../sweep/resolve.js');
@@ -60,7 +63,7 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       if (of !== undefined && problems.items.every((p) => p.dispersion?.of === of)) {
         if (flags.out !== undefined) throw new InputError('a decision record is written for one problem, not for a dispersion (use --json for the dispersed choice)', '--out');
         const { chooseDispersed } = await import('../choose-dispersed.js');
-        await chooseDispersed(of, problems.items, (await resolveMethods(flags.method)).items, target, flags, setExit);
+        await chooseDispersed(of, problems.items, (await resolveMethods(flags.method)).items, target, { ...flags, controller }, setExit);
         return;
       }
       if (flags.quantile !== undefined) throw new InputError('applies to a dispersed problem only (a problem file with a dispersion block)', '--quantile');
@@ -76,12 +79,13 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
         cost: flags.cost,
         timing: DEFAULT_TIMING,
         maxSteps,
+        controller,
         ...(candidates ? { fixedCandidates: candidates } : {}),
         ...(flags.atol === undefined ? {} : { atol: parseAtol(flags.atol) }),
       });
       if (flags.out !== undefined) {
         const { writeDecisionFolder } = await import('../decision-folder.js');
-        await writeDecisionFolder(flags.out, choice, problem, { commandLine: commandLine(), maxSteps });
+        await writeDecisionFolder(flags.out, choice, problem, { commandLine: commandLine(), maxSteps, controller });
       }
       if (flags.json) process.stdout.write(`${JSON.stringify(choice, (_k, v) => (k(_k) ? undefined : v), 2)}\n`);
       else process.stdout.write(`${choiceText(choice)}\n`);

@@ -9,7 +9,7 @@ import { createReadStream } from 'node:fs';
 import { pipeline } from 'node:stream/promises';
 import type { RegisterCommand } from './register.js';
 import { commandLine } from '../command-line.js';
-import { parseAtol, parseJobs, parseLevels, parsePositive, parsePositiveInt, parseRunTimeout, parseSteps, parseTolerances } from '../options.js';
+import { CONTROLLER_HELP, parseAtol, parseController, parseJobs, parseLevels, parsePositive, parsePositiveInt, parseRunTimeout, parseSteps, parseTolerances } from '../options.js';
 import { checkWritableTarget, defaultOutDir, pointLatest } from '../output-folder.js';
 import type { ProgressLine } from '../progress.js';
 import type { GivenFlags } from '../flag-notes.js';
@@ -19,7 +19,6 @@ import { parseShardSpec } from '../../sweep/shard.js';
 import { openSweepSession, type SweepSession } from '../../sweep/session.js';
 import { DEFAULT_MAX_STEPS, DEFAULT_TIMING, DEFAULT_TOLERANCE_RANGE } from '../../core/defaults.js';
 import { InputError } from '../../core/errors.js';
-import { CONTROLLER_KINDS, type ControllerKind } from '../../core/types.js';
 import { EXIT } from '../exit-codes.js';
 import { divertStdout } from '../divert-stdout.js';
 
@@ -47,16 +46,13 @@ interface RunFlags {
 
 /** Turns validated flags into a sweep request; every bad value names its flag. */
 export function requestFromFlags(flags: RunFlags): SweepRequest {
-  if (!CONTROLLER_KINDS.includes(flags.controller as ControllerKind)) {
-    throw new InputError(`'${flags.controller}' is not a controller; expected ${CONTROLLER_KINDS.join(', ')}`, '--controller');
-  }
   const req: SweepRequest = {
     ...(flags.tolerances === undefined ? {} : { tolerances: parseTolerances(flags.tolerances) }),
     ...(flags.atol === undefined ? {} : { atol: parseAtol(flags.atol) }),
     ...(flags.steps === undefined ? {} : { steps: parseSteps(flags.steps) }),
     maxSteps: parsePositiveInt(flags.maxSteps, '--max-steps'),
     timing: flags.timing ? { ...DEFAULT_TIMING, budgetSeconds: parsePositive(flags.timeBudget, '--time-budget') } : null,
-    controller: flags.controller as ControllerKind,
+    controller: parseController(flags.controller),
     jobs: flags.jobs === undefined ? availableParallelism() : parseJobs(flags.jobs, availableParallelism(), (m) => process.stderr.write(`stepgauge: note: ${m}\n`)),
   };
   if (flags.problem !== undefined) req.problem = flags.problem;
@@ -79,7 +75,7 @@ export const registerRun: RegisterCommand = (program: Command, setExit) => {
     .option('--no-timing', 'skip wall-time measurement (time is recorded as null)')
     .option('--time-budget <seconds>', 'timing budget per run; long solves get fewer samples', String(DEFAULT_TIMING.budgetSeconds))
     .option('--max-steps <n>', 'step limit per run (accepted + rejected); past it the run ends with status step-limit', String(DEFAULT_MAX_STEPS))
-    .option('--controller <kind>', 'step-size controller for explicit pairs: standard, pi, or deadband (standard, but the step is kept while 0.5 <= err <= 1)', 'standard')
+    .option('--controller <kind>', CONTROLLER_HELP, 'standard')
     .option('-j, --jobs <n>', 'parallel workers (default: available cores; at most twice that, or 4)')
     .option('--run-timeout <seconds>', 'end a run that takes longer (its worker is terminated); status timeout; at most 86400')
     .option('--shard <K/N or N>', 'run only the K-th of N balanced slices of the plan (merge them with `stepgauge merge`); with N alone, K comes from the batch engine (JOB_COMPLETION_INDEX, AWS_BATCH_JOB_ARRAY_INDEX or CI_NODE_INDEX)')
