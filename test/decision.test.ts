@@ -93,6 +93,10 @@ describe('choose -p kepler-eccentric --target 1e-8 --out d', () => {
     const standard = measureRun(keplerEccentric, findMethod('dormand-prince-54')!, setting, { maxSteps: 100_000 });
     expect(standard.counts).not.toEqual(again.counts);
     expect((await runCli(['choose', '-p', 'kepler-eccentric', '--target', '1e-8', '--controller', 'fuzzy'])).stderr).toMatch(/--controller.*standard, pi, deadband/);
+    // Said, not silently ignored, when no candidate steps with a controller of this kind.
+    const implicit = await runCli(['choose', '-p', 'robertson', '--target', '1e-4', '-m', 'radau-iia-5', '--cost', 'nfev', '--controller', 'pi']);
+    expect(implicit.code).toBe(0);
+    expect(implicit.stderr).toMatch(/note: --controller applies to the explicit embedded pairs, and none is a candidate \(radau-iia-5\)/);
   });
 
   it('refuses --safety below 1 and an --out that is a file, writing nothing', async () => {

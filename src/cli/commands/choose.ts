@@ -1,5 +1,6 @@
 // `stepgauge choose`: which method and setting meets an accuracy target at the least cost, and
 // (with --out) a decision record a reviewer can file: decision.json, decision.md, decision.html.
+import type { Command } from 'commander';
 import type { RegisterCommand } from './register.js';
 import { InputError } from '../../core/errors.js';
 import { CONTROLLER_HELP, parseAtol, parseController, parsePositive, parsePositiveInt, parsePositiveList } from '../options.js';
@@ -43,7 +44,7 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
     .option('-o, --out <dir>', 'write the decision record there: decision.json, decision.md, decision.html (one self-contained file)')
     .option('--json', 'print the ranked table as JSON')
     .option('--quantile <q>', "for a dispersed problem: share of the samples that must meet the target, in (0, 1], or 'worst' (every sample; the default)")
-    .action(async (flags: ChooseFlags) => {
+    .action(async (flags: ChooseFlags, cmd: Command) => {
       const target = parsePositive(flags.target ?? '', '--target');
       const { ERROR_MEASURES, isErrorMeasure } = await import('../../measure/run-measures.js');
       if (!isErrorMeasure(flags.measure)) throw new InputError(`'${flags.measure}' is not one of ${ERROR_MEASURES.join(', ')}`, '--measure');
@@ -72,6 +73,9 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       const { fixedCandidates } = await import('../../sweep/fixed-rates.js');
       const candidates = rates || stepSizes ? fixedCandidates(problem, { rates, stepSizes }) : undefined;
       const methods = await resolveMethods(flags.method);
+      if (cmd.getOptionValueSource('controller') === 'cli' && !methods.items.some((m) => m.family === 'embedded-explicit')) {
+        process.stderr.write(`stepgauge: note: --controller applies to the explicit embedded pairs, and none is a candidate (${methods.items.map((m) => m.id).join(', ')})\n`);
+      }
       const choice = await chooseMethod(problem, methods.items, {
         target,
         safety,
