@@ -40,7 +40,7 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   const D = lease.float64((MAX_ORDER + 3) * n);
   const yPred = lease.float64(n), psi = lease.float64(n), dcor = lease.float64(n);
   const ycur = lease.float64(n), fcur = lease.float64(n), delta = lease.float64(n);
-  const w = lease.float64(n), fy = lease.float64(n);
+  const w = lease.float64(n), fy = lease.float64(n), row = lease.float64(n);
   const work = lease.float64(3 * (MAX_ORDER + 1) ** 2 + (MAX_ORDER + 1) * n);
   const jacSrc = makeJacobianSource(f, problem.jacobian, n, counts, (length) => lease.float64(length), jacobianStructure(problem, n));
   const M = new RealIterationMatrix(jacSrc, n, lease);
@@ -57,6 +57,12 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
   counts.nfev++;
 
   const norm = (v: Float64Array): number => weightedRms(v, w, n);
+  /** The norm of difference D_j, through a copy: a subarray view would allocate on every order check. */
+  const differenceNorm = (j: number): number => {
+    const off = j * n;
+    for (let i = 0; i < n; i++) row[i] = D[off + i]!;
+    return weightedRms(row, w, n);
+  };
 
   // The attempt is split into phases, each its own function: V8 compiles a function again
   // whenever it meets a branch or a right-hand side it had not seen when it first compiled it,
@@ -121,8 +127,8 @@ function createStepper(problem: Problem, tol: Tolerances, counts: Counts, lease:
     nEqual++;
     if (nEqual < k + 1) return propose(proposal, true, h);
     // Order and step selection among k-1, k, k+1.
-    const errM = k > 1 ? norm(D.subarray(k * n, (k + 1) * n)) / k : Infinity;
-    const errP = k < MAX_ORDER ? norm(D.subarray(o2, o2 + n)) / (k + 2) : Infinity;
+    const errM = k > 1 ? differenceNorm(k) / k : Infinity;
+    const errP = k < MAX_ORDER ? differenceNorm(k + 2) / (k + 2) : Infinity;
     const fM = k > 1 ? Math.max(errM, 1e-10) ** (-1 / k) : 0;
     const f0k = Math.max(err, 1e-10) ** (-1 / (k + 1));
     const fP = k < MAX_ORDER ? Math.max(errP, 1e-10) ** (-1 / (k + 2)) : 0;
