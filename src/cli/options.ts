@@ -83,7 +83,6 @@ export function parsePositive(text: string, flag: string): number {
   return positiveNumber(text, flag);
 }
 
-
 /** --controller: standard, pi or deadband (methods/explicit/control.ts). */
 export function parseController(text: string): ControllerKind {
   if (!CONTROLLER_KINDS.includes(text as ControllerKind)) throw new InputError(`'${text}' is not a controller; expected ${CONTROLLER_KINDS.join(', ')}`, '--controller');

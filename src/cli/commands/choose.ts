@@ -60,11 +60,15 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       const rates = flags.rates !== undefined ? parsePositiveList(flags.rates, '--rates') : undefined;
       const stepSizes = flags.stepSizes !== undefined ? parsePositiveList(flags.stepSizes, '--step-sizes') : undefined;
       const problems = await resolveProblems(flags.problem);
+      const methods = await resolveMethods(flags.method);
+      if (cmd.getOptionValueSource('controller') === 'cli' && !methods.items.some((m) => m.family === 'embedded-explicit')) {
+        process.stderr.write(`stepgauge: note: --controller applies to the explicit embedded pairs, and none is a candidate (${methods.items.map((m) => m.id).join(', ')})\n`);
+      }
       const of = problems.items[0]?.dispersion?.of;
       if (of !== undefined && problems.items.every((p) => p.dispersion?.of === of)) {
         if (flags.out !== undefined) throw new InputError('a decision record is written for one problem, not for a dispersion (use --json for the dispersed choice)', '--out');
         const { chooseDispersed } = await import('../choose-dispersed.js');
-        await chooseDispersed(of, problems.items, (await resolveMethods(flags.method)).items, target, { ...flags, controller }, setExit);
+        await chooseDispersed(of, problems.items, methods.items, target, { ...flags, controller }, setExit);
         return;
       }
       if (flags.quantile !== undefined) throw new InputError('applies to a dispersed problem only (a problem file with a dispersion block)', '--quantile');
@@ -72,10 +76,6 @@ export const registerChoose: RegisterCommand = (program, setExit) => {
       const problem = problems.items[0]!;
       const { fixedCandidates } = await import('../../sweep/fixed-rates.js');
       const candidates = rates || stepSizes ? fixedCandidates(problem, { rates, stepSizes }) : undefined;
-      const methods = await resolveMethods(flags.method);
-      if (cmd.getOptionValueSource('controller') === 'cli' && !methods.items.some((m) => m.family === 'embedded-explicit')) {
-        process.stderr.write(`stepgauge: note: --controller applies to the explicit embedded pairs, and none is a candidate (${methods.items.map((m) => m.id).join(', ')})\n`);
-      }
       const choice = await chooseMethod(problem, methods.items, {
         target,
         safety,

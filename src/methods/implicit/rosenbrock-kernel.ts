@@ -44,7 +44,6 @@ export type RosenbrockKernel = (
 /** A coefficient as source text that parses back to the same double. */
 const lit = (v: number): string => numberLiteral(v, 'Rosenbrock coefficient');
 
-
 /** LU factorisation of the locals m{i}_{j} in place, luFactor's steps; pivots into p{k}. */
 function factorLines(n: number): string[] {
   const out: string[] = [];
